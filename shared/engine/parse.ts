@@ -1,0 +1,283 @@
+/**
+ * Reading raw pull files: CSV, semicolon or tab separated, with a header naming rpm and torque
+ * and/or power in either unit system. Never throws: bad input comes back as errors with rows.
+ */
+import Papa from 'papaparse'
+import { HP_TORQUE_CROSSOVER_RPM } from './power'
+import type { ParseColumns, ParseError, ParseResult, PowerUnit, PullPoint, TorqueUnit } from './types'
+import { NM_PER_LBFT, W_PER_HP, W_PER_PS } from './units'
+
+export const PARSE_LIMITS = {
+  /** Most data rows a pull file may hold. */
+  maxRows: 200_000,
+  /** Fewest data rows that make a curve. */
+  minRows: 3,
+  /** Row errors listed before the rest are counted in one line. */
+  maxListedErrors: 50,
+  /** Lines above the header that may be skipped (a title, the shop's notes). */
+  maxPreambleRows: 30,
+} as const
+
+type Delimiter = ParseColumns['delimiter']
+type Kind = 'rpm' | 'torque' | 'power'
+
+interface Classified {
+  kind: Kind
+  torqueUnit?: TorqueUnit
+  powerUnit?: PowerUnit
+  /** The header named its unit (otherwise lb·ft or hp is assumed). */
+  unitStated: boolean
+}
+
+const NOT_ENGINE_SPEED = new Set(['mph', 'kmh', 'kph', 'km', 'mi', 'wheel', 'roller', 'drum', 'ms', 'vehicle', 'road', 'fan', 'turbo', 'shaft'])
+const POWER_WORDS = new Set(['hp', 'bhp', 'whp', 'kw', 'ps', 'cv', 'pwr', 'horsepower', 'leistung'])
+const TORQUE_WORDS = new Set(['tq', 'trq', 'torq', 'nm', 'lbft', 'ftlb', 'lbfft', 'ftlbf', 'ftlbs', 'lbsft', 'drehmoment'])
+
+/** Lower-case alphanumeric tokens of a header cell ("Torque (N·m)" → torque, nm). */
+function tokensOf(cell: string): string[] {
+  const text = cell.toLowerCase().replace(/[·⋅•∙]/g, '').replace(/\bn[\s.\-]m\b/g, 'nm').replace(/\blbs?[\s.\-]?f?[\s.\-]?ft\b/g, 'lbft').replace(/\bft[\s.\-]?lbs?f?\b/g, 'ftlb')
+  return text.split(/[^a-z0-9]+/).filter(Boolean)
+}
+
+/** What a header cell names: rpm, torque (with unit) or power (with unit); null for anything else. */
+export function classifyHeader(cell: string): Classified | null {
+  const tokens = tokensOf(cell)
+  if (tokens.length === 0) return null
+  const has = (word: string): boolean => tokens.includes(word)
+  const compact = tokens.join('')
+  if (compact.includes('torque') || tokens.some(t => TORQUE_WORDS.has(t))) {
+    if (has('nm') || compact.includes('newton')) return { kind: 'torque', torqueUnit: 'nm', unitStated: true }
+    const stated = ['lbft', 'ftlb', 'lbfft', 'ftlbf', 'ftlbs', 'lbsft'].some(has)
+    return { kind: 'torque', torqueUnit: 'lbft', unitStated: stated }
+  }
+  if (compact.includes('power') || compact.includes('horsepower') || tokens.some(t => POWER_WORDS.has(t))) {
+    if (has('kw')) return { kind: 'power', powerUnit: 'kw', unitStated: true }
+    if (has('ps') || has('cv')) return { kind: 'power', powerUnit: 'ps', unitStated: true }
+    const stated = ['hp', 'bhp', 'whp', 'horsepower'].some(has)
+    return { kind: 'power', powerUnit: 'hp', unitStated: stated }
+  }
+  if (compact.includes('rpm') || has('revs') || has('drehzahl') || compact.includes('1min') || compact.includes('min1')) {
+    return { kind: 'rpm', unitStated: true }
+  }
+  if (has('speed') && !tokens.some(t => NOT_ENGINE_SPEED.has(t))) return { kind: 'rpm', unitStated: false }
+  return null
+}
+
+/** A number from a cell, accepting a decimal comma; null for an empty cell, NaN for text. */
+export function parseNumberCell(raw: string | undefined): number | null {
+  if (raw === undefined) return null
+  const s = raw.trim()
+  if (s === '') return null
+  if (!/^[+-]?(?:\d+(?:[.,]\d*)?|[.,]\d+)(?:[eE][+-]?\d+)?$/.test(s)) return Number.NaN
+  return Number(s.replace(',', '.'))
+}
+
+interface HeaderFound {
+  delimiter: Delimiter
+  rowIndex: number
+  columns: Array<Classified | null>
+  cells: string[]
+}
+
+/** Looks through the first rows with each delimiter for a header naming rpm and torque or power. */
+function findHeader(text: string): HeaderFound | null {
+  const head = text.slice(0, 65_536)
+  let best: (HeaderFound & { score: number }) | null = null
+  for (const delimiter of ['\t', ';', ','] as const) {
+    const rows = Papa.parse<string[]>(head, { delimiter, preview: PARSE_LIMITS.maxPreambleRows + 1 }).data
+    for (let r = 0; r < rows.length; r++) {
+      const cells = rows[r] ?? []
+      const columns = cells.map(c => classifyHeader(String(c)))
+      const kinds = new Set(columns.filter(c => c !== null).map(c => (c as Classified).kind))
+      if (!kinds.has('rpm') || !(kinds.has('torque') || kinds.has('power'))) continue
+      const score = kinds.size * 1000 + cells.length
+      if (!best || r < best.rowIndex || (r === best.rowIndex && score > best.score)) {
+        best = { delimiter, rowIndex: r, columns, cells: cells.map(String), score }
+      }
+      break
+    }
+  }
+  return best
+}
+
+/** Text from a string or bytes (UTF-8, or UTF-16 with a byte-order mark); null when it is binary. */
+function decode(input: unknown): string | null {
+  if (typeof input === 'string') return input
+  let bytes: Uint8Array | null = null
+  if (input instanceof Uint8Array) bytes = input
+  else if (input instanceof ArrayBuffer) bytes = new Uint8Array(input)
+  if (!bytes) throw new TypeError('expected the file as text or bytes')
+  if (bytes[0] === 0xff && bytes[1] === 0xfe) return new TextDecoder('utf-16le').decode(bytes.subarray(2))
+  if (bytes[0] === 0xfe && bytes[1] === 0xff) return new TextDecoder('utf-16be').decode(bytes.subarray(2))
+  const probe = bytes.subarray(0, 8192)
+  if (probe.includes(0)) return null
+  return new TextDecoder('utf-8').decode(bytes)
+}
+
+/** NUL characters, or more than 5 % control or undecodable characters near the start, mean a binary file. */
+function looksBinary(text: string): boolean {
+  const probe = text.slice(0, 8192)
+  let odd = 0
+  for (let i = 0; i < probe.length; i++) {
+    const c = probe.charCodeAt(i)
+    if (c === 0) return true
+    if ((c < 32 && c !== 9 && c !== 10 && c !== 13 && c !== 12) || c === 0xfffd) odd++
+  }
+  return probe.length > 0 && odd / probe.length > 0.05
+}
+
+const fail = (errors: ParseError[]): ParseResult => ({ ok: false, errors })
+const fileError = (message: string): ParseResult => fail([{ row: 0, message }])
+
+const toLbFt = (value: number, unit: TorqueUnit): number => (unit === 'nm' ? value / NM_PER_LBFT : value)
+const toHp = (value: number, unit: PowerUnit): number =>
+  unit === 'kw' ? (value * 1000) / W_PER_HP : unit === 'ps' ? (value * W_PER_PS) / W_PER_HP : value
+
+const UNIT_LABEL: Record<TorqueUnit | PowerUnit, string> = { lbft: 'lb·ft', nm: 'N·m', hp: 'hp', kw: 'kW', ps: 'PS' }
+
+/** Parse a pull file into points (hp and lb·ft on every point) or a list of errors with 1-based rows. */
+export function parsePull(input: string | Uint8Array | ArrayBuffer): ParseResult {
+  try {
+    return parseText(input)
+  }
+  catch (error) {
+    const reason = error instanceof Error ? error.message : String(error)
+    return fileError(`The file could not be read (${reason}).`)
+  }
+}
+
+function parseText(input: unknown): ParseResult {
+  if (input === null || input === undefined) return fileError('No file was given.')
+  const decoded = decode(input)
+  if (decoded === null || looksBinary(decoded)) {
+    return fileError('This looks like a binary file, not a text pull file: export the pull as CSV or tab-separated text.')
+  }
+  const text = decoded.charCodeAt(0) === 0xfeff ? decoded.slice(1) : decoded
+  if (text.trim() === '') return fileError('The file is empty.')
+
+  const header = findHeader(text)
+  if (!header) {
+    return fileError(
+      'No header row naming an rpm column and a torque or power column was found. '
+      + 'Row 1 should read like: RPM,Torque (lb-ft),Power (hp).',
+    )
+  }
+
+  const warnings: string[] = []
+  const previewRows = header.rowIndex + 2 + PARSE_LIMITS.maxRows + 1
+  const parsed = Papa.parse<string[]>(text, { delimiter: header.delimiter, preview: previewRows, skipEmptyLines: false })
+  const rows = parsed.data
+  const headerRow = header.rowIndex + 1
+
+  // A second header line that gives only units ("rpm | lb-ft | hp") is merged into the first.
+  let firstData = header.rowIndex + 1
+  let columns = header.columns
+  const maybeUnits = rows[firstData]
+  if (maybeUnits && maybeUnits.some(c => c.trim() !== '') && maybeUnits.every(c => parseNumberCell(c) === null || Number.isNaN(parseNumberCell(c) as number))) {
+    const merged = header.cells.map((c, i) => classifyHeader(`${c} ${maybeUnits[i] ?? ''}`))
+    const unitHits = maybeUnits.filter(c => classifyHeader(c) !== null).length
+    if (unitHits > 0) {
+      columns = merged
+      firstData++
+      warnings.push(`Row ${firstData} was read as a row of units under the header.`)
+    }
+  }
+
+  const pick = (kind: Kind): { index: number, info: Classified } | null => {
+    const found = columns.flatMap((c, index) => (c && c.kind === kind ? [{ index, info: c }] : []))
+    const chosen = found[0]
+    if (!chosen) return null
+    if (found.length > 1) {
+      const others = found.slice(1).map(f => `"${header.cells[f.index]}"`).join(', ')
+      warnings.push(`More than one ${kind} column: using "${header.cells[chosen.index]}" and ignoring ${others}.`)
+    }
+    return chosen
+  }
+  const rpmCol = pick('rpm')
+  const tqCol = pick('torque')
+  const hpCol = pick('power')
+  if (!rpmCol || (!tqCol && !hpCol)) return fileError('The header must name an rpm column and a torque or power column.')
+  if (header.rowIndex > 0) warnings.push(`Skipped ${header.rowIndex} line(s) above the header on row ${headerRow}.`)
+  if (tqCol && !tqCol.info.unitStated) warnings.push(`The torque column "${header.cells[tqCol.index]}" gives no unit; it was read as lb·ft.`)
+  if (hpCol && !hpCol.info.unitStated) warnings.push(`The power column "${header.cells[hpCol.index]}" gives no unit; it was read as hp.`)
+  if (!tqCol) warnings.push('The file gives power only; torque was computed as hp × 5252.11 / rpm.')
+  if (!hpCol) warnings.push('The file gives torque only; power was computed as lb·ft × rpm / 5252.11.')
+
+  const torqueUnit: TorqueUnit = tqCol?.info.torqueUnit ?? 'lbft'
+  const powerUnit: PowerUnit = hpCol?.info.powerUnit ?? 'hp'
+  const errors: ParseError[] = []
+  let extraErrors = 0
+  const addError = (row: number, message: string): void => {
+    if (errors.length < PARSE_LIMITS.maxListedErrors) errors.push({ row, message })
+    else extraErrors++
+  }
+  for (const e of parsed.errors) {
+    if (e.code === 'MissingQuotes' || e.code === 'InvalidQuotes') addError((e.row ?? 0) + 1, `Quote marks do not pair up: ${e.message}.`)
+  }
+
+  const points: PullPoint[] = []
+  let previousRpm = -Infinity
+  let decimalComma = false
+  let filledRows = 0
+  let dataRows = 0
+  const limit = rows.length
+  for (let r = firstData; r < limit; r++) {
+    const cells = rows[r] as string[]
+    const rowNo = r + 1
+    if (cells.every(c => c.trim() === '')) continue
+    dataRows++
+    if (dataRows > PARSE_LIMITS.maxRows) {
+      return fileError(`The file has more than ${PARSE_LIMITS.maxRows.toLocaleString('en-US')} data rows; trim it to the pull itself.`)
+    }
+    const rpmText = cells[rpmCol.index]
+    const rpm = parseNumberCell(rpmText)
+    const tq = tqCol ? parseNumberCell(cells[tqCol.index]) : null
+    const pw = hpCol ? parseNumberCell(cells[hpCol.index]) : null
+    let bad = false
+    if (rpm === null) { addError(rowNo, 'The rpm cell is empty.'); bad = true }
+    else if (Number.isNaN(rpm)) { addError(rowNo, `rpm "${String(rpmText).trim().slice(0, 40)}" is not a number.`); bad = true }
+    else if (rpm <= 0) { addError(rowNo, `rpm ${rpm} must be above zero.`); bad = true }
+    if (tq !== null && Number.isNaN(tq)) { addError(rowNo, `Torque "${String(cells[tqCol?.index ?? 0]).trim().slice(0, 40)}" is not a number.`); bad = true }
+    if (pw !== null && Number.isNaN(pw)) { addError(rowNo, `Power "${String(cells[hpCol?.index ?? 0]).trim().slice(0, 40)}" is not a number.`); bad = true }
+    if (tq === null && pw === null) { addError(rowNo, 'The row has neither torque nor power.'); bad = true }
+    if ((tq !== null && tq < 0) || (pw !== null && pw < 0)) { addError(rowNo, 'Torque and power cannot be negative in a pull.'); bad = true }
+    if (bad || rpm === null) continue
+    if (rpm <= previousRpm) {
+      addError(rowNo, `rpm goes backwards or repeats: ${rpm} after ${previousRpm}. A pull must rise in rpm down the file.`)
+    }
+    previousRpm = rpm
+    if (!decimalComma && /,/.test(`${rpmText}${tqCol ? cells[tqCol.index] : ''}${hpCol ? cells[hpCol.index] : ''}`)) decimalComma = true
+    let lbFt = tq === null ? null : toLbFt(tq, torqueUnit)
+    let hp = pw === null ? null : toHp(pw, powerUnit)
+    if (hp === null && lbFt !== null) { hp = (lbFt * rpm) / HP_TORQUE_CROSSOVER_RPM; if (hpCol) filledRows++ }
+    if (lbFt === null && hp !== null) { lbFt = (hp * HP_TORQUE_CROSSOVER_RPM) / rpm; if (tqCol) filledRows++ }
+    points.push({ rpm, hp: hp as number, lbFt: lbFt as number })
+  }
+
+  if (dataRows === 0) return fileError('The file has a header but no data rows.')
+  if (dataRows < PARSE_LIMITS.minRows) {
+    addError(0, `A pull needs at least ${PARSE_LIMITS.minRows} data rows; this file has ${dataRows}.`)
+  }
+  if (extraErrors > 0) errors.push({ row: 0, message: `…and ${extraErrors} more problem(s) not listed.` })
+  if (errors.length > 0) return fail(errors)
+  if (filledRows > 0) warnings.push(`${filledRows} row(s) had one of torque or power missing; it was computed from the other.`)
+  if (decimalComma) warnings.push('Decimal commas were read as decimal points.')
+
+  return {
+    ok: true,
+    points,
+    columns: {
+      rpm: { header: header.cells[rpmCol.index] ?? '', index: rpmCol.index },
+      torque: tqCol ? { header: header.cells[tqCol.index] ?? '', index: tqCol.index, unit: torqueUnit } : null,
+      power: hpCol ? { header: header.cells[hpCol.index] ?? '', index: hpCol.index, unit: powerUnit } : null,
+      delimiter: header.delimiter,
+      decimalComma,
+    },
+    warnings,
+  }
+}
+
+/** Units of the columns read, for display ("N·m", "kW"). */
+export function columnUnitLabel(unit: TorqueUnit | PowerUnit): string {
+  return UNIT_LABEL[unit]
+}
