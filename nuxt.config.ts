@@ -1,0 +1,50 @@
+// Nuxt configuration: the root is the source folder (no app/ folder), see DEVELOPERS.md.
+export default defineNuxtConfig({
+  modules: ['@pinia/nuxt', '@nuxtjs/tailwindcss', '@sidebase/nuxt-auth', '@nuxt/eslint'],
+  devtools: { enabled: false },
+  app: {
+    head: {
+      htmlAttrs: { lang: 'en' },
+      title: 'Torquewright',
+      meta: [
+        { name: 'viewport', content: 'width=device-width, initial-scale=1' },
+        { name: 'description', content: 'Engine builds proven on the dyno, and the shops that built them.' },
+      ],
+      link: [{ rel: 'icon', type: 'image/svg+xml', href: '/favicon.svg' }],
+    },
+  },
+  css: ['@fontsource/manrope/400.css', '@fontsource/manrope/500.css', '@fontsource/manrope/600.css', '@fontsource/manrope/700.css', '@fontsource/manrope/800.css', '~/assets/css/main.css'],
+  runtimeConfig: {
+    databaseUrl: '',
+    authSecret: '',
+    smtpHost: '127.0.0.1',
+    smtpPort: '1025',
+    mailFrom: 'Torquewright <no-reply@torquewright.test>',
+    uploadsDir: '',
+    public: { appName: 'Torquewright' },
+  },
+  dir: { shared: 'shared' },
+  srcDir: '.',
+  serverDir: 'server',
+  compatibilityDate: '2026-11-01',
+  nitro: {
+    storage: {},
+    experimental: { tasks: false },
+  },
+  typescript: {
+    strict: true,
+    tsConfig: { exclude: ['../tests/**', '../scripts/**', '../bench/**', '../*.config.ts'] },
+    nodeTsConfig: { include: ['../tests/**/*', '../scripts/**/*', '../bench/**/*', '../*.config.ts'] },
+  },
+  telemetry: false,
+  auth: {
+    isEnabled: false,
+    originEnvKey: 'AUTH_ORIGIN',
+    baseURL: '/api/auth',
+    provider: { type: 'authjs' },
+    globalAppMiddleware: false,
+    sessionRefresh: { enablePeriodically: false, enableOnWindowFocus: false },
+  },
+  eslint: { config: { stylistic: true } },
+  tailwindcss: { viewer: false, cssPath: false },
+})

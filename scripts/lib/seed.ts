@@ -1,0 +1,115 @@
+import { createHash } from 'node:crypto'
+import { hash } from '@node-rs/argon2'
+import { eq } from 'drizzle-orm'
+import { drizzle, type MySql2Database } from 'drizzle-orm/mysql2'
+import mysql from 'mysql2/promise'
+import { createStorage } from 'unstorage'
+import fsDriver from 'unstorage/drivers/fs'
+import { curveFingerprint } from '../../shared/engine/fingerprint'
+import { parsePull } from '../../shared/engine/parse'
+import { summarisePull } from '../../shared/pulls/summary'
+import * as schema from '../../server/database/schema'
+import { DEMO_ADMIN, DEMO_PASSWORD, DEMO_RACERS, DEMO_SHOPS, demoBuilds, pullCsv, type DemoPull } from './demo-data'
+
+const { builderProfiles, buildParts, builds, dynoPulls, files, users } = schema
+type Db = MySql2Database<typeof schema>
+
+async function ensureUser(db: Db, u: { name: string, email: string, role: 'racer' | 'builder' | 'admin' }, passwordHash: string): Promise<number> {
+  const [existing] = await db.select({ id: users.id }).from(users).where(eq(users.email, u.email))
+  if (existing) return existing.id
+  const [row] = await db.insert(users).values({ ...u, passwordHash, emailVerifiedAt: new Date() }).$returningId()
+  return row!.id
+}
+
+/** Seeds the invented demo scenario; entities that already exist (by e-mail or slug) are left as they are, so it is safe to run twice. */
+export async function seedDemo(opts: { url: string, uploadsDir: string }): Promise<{ builds: number, created: number }> {
+  const connection = await mysql.createConnection({ uri: opts.url, timezone: 'Z' })
+  const db = drizzle(connection, { schema, mode: 'default' })
+  const storage = createStorage({ driver: fsDriver({ base: opts.uploadsDir }) })
+  let created = 0
+  try {
+    const passwordHash = await hash(DEMO_PASSWORD)
+    await ensureUser(db, { ...DEMO_ADMIN, role: 'admin' }, passwordHash)
+    for (const racer of DEMO_RACERS) await ensureUser(db, { ...racer, role: 'racer' }, passwordHash)
+
+    const shopIds = new Map<string, { profileId: number, userId: number }>()
+    for (const shop of DEMO_SHOPS) {
+      const userId = await ensureUser(db, { ...shop.owner, role: 'builder' }, passwordHash)
+      const [existing] = await db.select({ id: builderProfiles.id }).from(builderProfiles).where(eq(builderProfiles.slug, shop.slug))
+      let profileId = existing?.id
+      if (!profileId) {
+        const [row] = await db.insert(builderProfiles).values({
+          userId, shopName: shop.shopName, slug: shop.slug, region: shop.region, bio: shop.bio, specialties: shop.specialties, capabilities: shop.capabilities,
+        }).$returningId()
+        profileId = row!.id
+      }
+      shopIds.set(shop.slug, { profileId, userId })
+    }
+
+    const all = demoBuilds()
+    const fingerprints = new Map<string, string>()
+    for (const b of all) {
+      const shop = shopIds.get(b.shopSlug)!
+      const [existing] = await db.select({ id: builds.id }).from(builds).where(eq(builds.slug, b.slug))
+      if (existing) continue
+      // The seeded pulls take the same path as an upload: a stored CSV file, parsed back by the engine module.
+      const pullRows: { pull: DemoPull, sha256: string, storageKey: string, summary: ReturnType<typeof summarisePull>, fingerprint: string, size: number }[] = []
+      for (const pull of b.pulls) {
+        const text = pullCsv(pull.points)
+        const parsed = parsePull(text)
+        if (!parsed.ok) throw new Error(`demo pull for ${b.slug} does not parse: ${parsed.errors[0]?.message}`)
+        const sha256 = createHash('sha256').update(text).digest('hex')
+        const storageKey = `pulls/${sha256}.csv`
+        await storage.setItem(storageKey, text)
+        const summary = summarisePull(parsed.points, pull.declaredStandard, pull.weather)
+        const fingerprint = curveFingerprint(parsed.points)
+        fingerprints.set(b.slug, fingerprint)
+        pullRows.push({ pull, sha256, storageKey, summary, fingerprint, size: Buffer.byteLength(text) })
+      }
+      const headline = pullRows[0]!
+      const verified = b.pulls.every(p => p.status === 'verified')
+      const publishedAt = new Date(Date.now() - b.publishedDaysAgo * 86_400_000)
+      await db.transaction(async (tx) => {
+        const { shopSlug: _shop, parts, pulls: _pulls, publishedDaysAgo: _days, ...columns } = b
+        const [row] = await tx.insert(builds).values({
+          ...columns,
+          builderId: shop.profileId,
+          status: 'published',
+          publishedAt,
+          peakHp: headline.summary.peakHp,
+          peakHpRpm: headline.summary.peakHpRpm,
+          peakTq: headline.summary.peakTq,
+          peakTqRpm: headline.summary.peakTqRpm,
+          verifiedAt: verified ? publishedAt : null,
+        }).$returningId()
+        const buildId = row!.id
+        await tx.insert(buildParts).values(parts.map((p, position) => ({ ...p, buildId, position })))
+        for (const r of pullRows) {
+          const [file] = await tx.insert(files).values({
+            ownerId: shop.userId, kind: 'pull', mime: 'text/csv', sizeBytes: r.size, sha256: r.sha256, storageKey: r.storageKey, originalName: `${b.slug}.csv`,
+          }).$returningId()
+          await tx.insert(dynoPulls).values({
+            buildId,
+            label: r.pull.label,
+            fileId: file!.id,
+            dynoKind: r.pull.dynoKind,
+            declaredStandard: r.pull.declaredStandard,
+            baroInHg: r.pull.weather.baroInHg,
+            airTempF: r.pull.weather.airTempF,
+            humidityPct: r.pull.weather.humidityPct,
+            declaredPeakHp: Math.max(...r.pull.points.map(p => p.hp)),
+            declaredPeakTq: Math.max(...r.pull.points.map(p => p.lbFt)),
+            summary: r.summary,
+            fingerprint: r.fingerprint,
+            status: r.pull.status,
+          })
+        }
+      })
+      created++
+    }
+    return { builds: all.length, created }
+  }
+  finally {
+    await connection.end()
+  }
+}

@@ -1,0 +1,113 @@
+import { and, asc, count, desc, eq, inArray } from 'drizzle-orm'
+import { displacementCi } from '#shared/engine/geometry'
+import type { BuildDetail, BuilderProfileDetail, BuildSummary, Page, PullSummaryRow } from '#shared/types/listings'
+import type { Pagination } from '#shared/schemas/common'
+import { builderProfiles, buildParts, builds, dynoPulls, type Build, type BuilderProfile } from '../database/schema'
+import type { Database } from '../utils/db'
+
+const summaryColumns = { build: builds, builder: builderProfiles }
+
+function toSummary(build: Build, builder: BuilderProfile): BuildSummary {
+  return {
+    slug: build.slug,
+    title: build.title,
+    engineFamily: build.engineFamily,
+    cylinders: build.cylinders,
+    displacementCi: displacementCi(build.boreIn, build.strokeIn, build.cylinders),
+    aspiration: build.aspiration,
+    fuel: build.fuel,
+    intendedUse: build.intendedUse,
+    priceCents: build.priceCents,
+    peakHp: build.peakHp,
+    peakHpRpm: build.peakHpRpm,
+    peakTq: build.peakTq,
+    peakTqRpm: build.peakTqRpm,
+    verified: build.verifiedAt !== null,
+    builder: { slug: builder.slug, shopName: builder.shopName, region: builder.region },
+  }
+}
+
+/** Published builds, newest first, with their shop. */
+export async function listPublishedBuilds(db: Database, { page, perPage }: Pagination): Promise<Page<BuildSummary>> {
+  const published = eq(builds.status, 'published')
+  const [rows, totals] = await Promise.all([
+    db.select(summaryColumns).from(builds)
+      .innerJoin(builderProfiles, eq(builderProfiles.id, builds.builderId))
+      .where(published)
+      .orderBy(desc(builds.publishedAt), asc(builds.id))
+      .limit(perPage).offset((page - 1) * perPage),
+    db.select({ n: count() }).from(builds).where(published),
+  ])
+  return { total: totals[0]?.n ?? 0, page, perPage, items: rows.map(r => toSummary(r.build, r.builder)) }
+}
+
+/** One published build with its parts list and pull summaries, or null when there is none to show. */
+export async function getPublishedBuild(db: Database, slug: string): Promise<BuildDetail | null> {
+  const [row] = await db.select(summaryColumns).from(builds)
+    .innerJoin(builderProfiles, eq(builderProfiles.id, builds.builderId))
+    .where(and(eq(builds.slug, slug), eq(builds.status, 'published')))
+    .limit(1)
+  if (!row) return null
+  const { build } = row
+  const [parts, pulls] = await Promise.all([
+    db.select().from(buildParts).where(eq(buildParts.buildId, build.id)).orderBy(asc(buildParts.position)),
+    db.select().from(dynoPulls).where(eq(dynoPulls.buildId, build.id)).orderBy(asc(dynoPulls.id)),
+  ])
+  return {
+    ...toSummary(build, row.builder),
+    summary: build.summary,
+    boreIn: build.boreIn,
+    strokeIn: build.strokeIn,
+    rodLengthIn: build.rodLengthIn,
+    cylinderHeads: build.cylinderHeads,
+    chamberCc: build.chamberCc,
+    pistonCc: build.pistonCc,
+    gasketBoreIn: build.gasketBoreIn,
+    gasketThicknessIn: build.gasketThicknessIn,
+    deckClearanceIn: build.deckClearanceIn,
+    camIntakeDurationDeg: build.camIntakeDurationDeg,
+    camExhaustDurationDeg: build.camExhaustDurationDeg,
+    camIntakeLiftIn: build.camIntakeLiftIn,
+    camExhaustLiftIn: build.camExhaustLiftIn,
+    camLobeSeparationDeg: build.camLobeSeparationDeg,
+    camIntakeCenterlineDeg: build.camIntakeCenterlineDeg,
+    intakeManifold: build.intakeManifold,
+    throttleBody: build.throttleBody,
+    injectorSizeLbHr: build.injectorSizeLbHr,
+    injectorCount: build.injectorCount,
+    engineManagement: build.engineManagement,
+    publishedAt: build.publishedAt?.toISOString() ?? null,
+    parts: parts.map(p => ({
+      position: p.position, category: p.category, part: p.part, partNumber: p.partNumber, quantity: p.quantity, unitPriceCents: p.unitPriceCents,
+    })),
+    pulls: pulls.map((p): PullSummaryRow => ({
+      id: p.id,
+      label: p.label,
+      dynoKind: p.dynoKind,
+      declaredStandard: p.declaredStandard,
+      status: p.status,
+      peakHp: p.summary.peakHp,
+      peakHpRpm: p.summary.peakHpRpm,
+      peakTq: p.summary.peakTq,
+      peakTqRpm: p.summary.peakTqRpm,
+    })),
+  }
+}
+
+/** A shop's public profile with its published builds. */
+export async function getBuilderProfile(db: Database, slug: string): Promise<BuilderProfileDetail | null> {
+  const [builder] = await db.select().from(builderProfiles).where(eq(builderProfiles.slug, slug)).limit(1)
+  if (!builder) return null
+  const rows = await db.select().from(builds)
+    .where(and(eq(builds.builderId, builder.id), inArray(builds.status, ['published'])))
+    .orderBy(desc(builds.publishedAt))
+  return {
+    slug: builder.slug,
+    shopName: builder.shopName,
+    region: builder.region,
+    bio: builder.bio,
+    specialties: builder.specialties,
+    capabilities: builder.capabilities,
+    builds: rows.map(b => toSummary(b, builder)),
+  }
+}

@@ -1,0 +1,86 @@
+/** The shapes the listing routes answer with, used by the pages. */
+export interface BuilderCard {
+  slug: string
+  shopName: string
+  region: string
+}
+
+export interface BuildSummary {
+  slug: string
+  title: string
+  engineFamily: string
+  cylinders: number
+  displacementCi: number
+  aspiration: 'na' | 'turbo' | 'supercharged' | 'nitrous'
+  fuel: 'pump_gas' | 'race_gas' | 'e85' | 'methanol'
+  intendedUse: string
+  priceCents: number
+  peakHp: number | null
+  peakHpRpm: number | null
+  peakTq: number | null
+  peakTqRpm: number | null
+  verified: boolean
+  builder: BuilderCard
+}
+
+export interface BuildPartRow {
+  position: number
+  category: string
+  part: string
+  partNumber: string
+  quantity: number
+  unitPriceCents: number
+}
+
+export interface BuildDetail extends BuildSummary {
+  summary: string
+  boreIn: number
+  strokeIn: number
+  rodLengthIn: number
+  cylinderHeads: string
+  chamberCc: number
+  pistonCc: number
+  gasketBoreIn: number
+  gasketThicknessIn: number
+  deckClearanceIn: number
+  camIntakeDurationDeg: number
+  camExhaustDurationDeg: number
+  camIntakeLiftIn: number
+  camExhaustLiftIn: number
+  camLobeSeparationDeg: number
+  camIntakeCenterlineDeg: number
+  intakeManifold: string
+  throttleBody: string
+  injectorSizeLbHr: number | null
+  injectorCount: number | null
+  engineManagement: string
+  publishedAt: string | null
+  parts: BuildPartRow[]
+  pulls: PullSummaryRow[]
+}
+
+export interface PullSummaryRow {
+  id: number
+  label: string
+  dynoKind: 'engine' | 'chassis'
+  declaredStandard: string
+  status: 'submitted' | 'verified' | 'rejected'
+  peakHp: number
+  peakHpRpm: number
+  peakTq: number
+  peakTqRpm: number
+}
+
+export interface BuilderProfileDetail extends BuilderCard {
+  bio: string
+  specialties: string[]
+  capabilities: string[]
+  builds: BuildSummary[]
+}
+
+export interface Page<T> {
+  total: number
+  page: number
+  perPage: number
+  items: T[]
+}

@@ -1,0 +1,23 @@
+/** Display helpers shared by the pages; figures stay numbers until the last moment. */
+const usd = new Intl.NumberFormat('en-US', { style: 'currency', currency: 'USD', maximumFractionDigits: 0 })
+
+export function formatMoney(cents: number): string {
+  return usd.format(cents / 100)
+}
+
+export function formatNumber(value: number | null | undefined, digits = 0): string {
+  if (value === null || value === undefined || Number.isNaN(value)) return '—'
+  return value.toLocaleString('en-US', { minimumFractionDigits: digits, maximumFractionDigits: digits })
+}
+
+export const ASPIRATION_LABELS: Record<string, string> = {
+  na: 'Naturally aspirated', turbo: 'Turbocharged', supercharged: 'Supercharged', nitrous: 'Nitrous',
+}
+
+export const FUEL_LABELS: Record<string, string> = {
+  pump_gas: 'Pump gas', race_gas: 'Race gas', e85: 'E85', methanol: 'Methanol',
+}
+
+export const USE_LABELS: Record<string, string> = {
+  drag: 'Drag', road_course: 'Road course', street_strip: 'Street/strip', off_road: 'Off-road', marine: 'Marine', street: 'Street',
+}
