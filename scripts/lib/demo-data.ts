@@ -115,6 +115,9 @@ export interface DemoPull {
   weather: { baroInHg: number, airTempF: number, humidityPct: number }
   points: { rpm: number, lbFt: number, hp: number }[]
   status: 'submitted' | 'verified'
+  comparisonRole?: 'baseline' | 'variant'
+  changeKind?: 'heads' | 'intake' | 'camshaft' | 'exhaust' | 'tune' | 'other'
+  changeNote?: string
   /** Set on the one pull that re-uses another build's curve, for the admin queue. */
   copiedFrom?: string
 }
@@ -236,6 +239,28 @@ function partsList(r: Random, b: { family: FamilyKey, aspiration: Aspiration, fu
   return rows
 }
 
+const CHANGES = [
+  { kind: 'heads', note: 'CNC-ported heads in place of the out-of-box castings', baseline: 'Baseline with out-of-box heads', top: 0.055, low: -0.012 },
+  { kind: 'camshaft', note: 'Longer-duration camshaft, 4° wider lobe separation', baseline: 'Baseline with the milder camshaft', top: 0.07, low: -0.045 },
+  { kind: 'intake', note: 'Single-plane intake in place of the dual-plane', baseline: 'Baseline with the dual-plane intake', top: 0.04, low: -0.03 },
+  { kind: 'exhaust', note: 'Larger primary headers with longer collectors', baseline: 'Baseline on the smaller headers', top: 0.025, low: 0.008 },
+  { kind: 'tune', note: 'Timing and fuel re-mapped on the dyno', baseline: 'Baseline on the starting map', top: 0.03, low: 0.02 },
+] as const
+
+/** The same short block before a change: the final curve with the change's gain taken out, smoothly across the rpm range. */
+function baselineOf(points: DemoPull['points'], change: (typeof CHANGES)[number]) {
+  const first = points[0]!.rpm
+  const last = points[points.length - 1]!.rpm
+  const pivot = first + (last - first) * 0.55
+  const width = (last - first) * 0.12
+  return points.map((p) => {
+    const s = 1 / (1 + Math.exp(-(p.rpm - pivot) / width))
+    const gain = change.low + (change.top - change.low) * s
+    const lbFt = round(p.lbFt / (1 + gain), 1)
+    return { rpm: p.rpm, lbFt, hp: round((lbFt * p.rpm) / 5252, 1) }
+  })
+}
+
 /** Builds the whole scenario deterministically: the same shops, builds and curves on every run. */
 export function demoBuilds(): DemoBuild[] {
   const r = seededRandom(20261201)
@@ -273,11 +298,21 @@ export function demoBuilds(): DemoBuild[] {
         points: makeCurve(r, { peakHpTarget, redline, boosted, stepRpm }),
         status: shopIndex === 7 && i >= 3 ? 'submitted' : 'verified',
       }]
+      // Every third build also publishes the pull from before its last change, on the same short block.
+      if (i % 3 === 1) {
+        const change = CHANGES[(shopIndex + i) % CHANGES.length]!
+        const final = pulls[0]!
+        final.label = `After: ${change.note.charAt(0).toLowerCase()}${change.note.slice(1)}`
+        final.comparisonRole = 'variant'
+        final.changeKind = change.kind
+        final.changeNote = change.note
+        pulls.push({ ...final, label: change.baseline, comparisonRole: 'baseline', changeKind: undefined, changeNote: undefined, weather: weather(), points: baselineOf(final.points, change) })
+      }
       out.push({
         shopSlug: shop.slug,
         slug,
         title: title.charAt(0).toUpperCase() + title.slice(1),
-        summary: `${litres.toFixed(1)} litre ${family.label.toLowerCase()} built by ${shop.shopName} for ${USE_WORDS[use]} use on ${FUEL_WORDS[fuel]}. ${aspiration === 'na' ? 'No power adder; ' : ''}dyno-proven before delivery with the raw pull file attached.`,
+        summary: `${litres.toFixed(1)} litre ${family.label.toLowerCase()} built by ${shop.shopName} for ${USE_WORDS[use]} use on ${FUEL_WORDS[fuel]}. ${aspiration === 'na' ? 'No power adder. ' : ''}Dyno-proven before delivery, with the raw pull file attached.`,
         engineFamily: family.label,
         cylinders: family.cylinders,
         boreIn,
@@ -313,7 +348,7 @@ export function demoBuilds(): DemoBuild[] {
   // One submitted pull on a later shop's build re-uses an earlier build's curve, rescaled and at another rpm step:
   // the evidence check has to catch it.
   const original = out[2]
-  const copy = out[out.length - 1]
+  const copy = [...out].reverse().find(b => b.pulls.length === 1)
   if (original && copy && original.pulls[0] && copy.pulls[0]) {
     const source = original.pulls[0].points.filter((_, index) => index % 2 === 0)
     copy.pulls[0] = {

@@ -102,6 +102,9 @@ export async function seedDemo(opts: { url: string, uploadsDir: string }): Promi
             summary: r.summary,
             fingerprint: r.fingerprint,
             status: r.pull.status,
+            comparisonRole: r.pull.comparisonRole ?? null,
+            changeKind: r.pull.changeKind ?? null,
+            changeNote: r.pull.changeNote ?? null,
           })
         }
       })

@@ -22,6 +22,8 @@ export const buildStatuses = ['draft', 'published', 'archived'] as const
 export const pullStatuses = ['submitted', 'verified', 'rejected'] as const
 export const fileKinds = ['pull', 'sheet', 'photo', 'attachment', 'proof'] as const
 export const dynoKinds = ['engine', 'chassis'] as const
+export const comparisonRoles = ['baseline', 'variant'] as const
+export const changeKinds = ['heads', 'intake', 'camshaft', 'exhaust', 'tune', 'other'] as const
 
 export const users = mysqlTable('users', {
   id: id(),
@@ -148,6 +150,10 @@ export const dynoPulls = mysqlTable('dyno_pulls', {
   summary: json('summary').$type<PullSummary>().notNull(),
   fingerprint: varchar('fingerprint', { length: 255 }),
   status: mysqlEnum('status', pullStatuses).notNull().default('submitted'),
+  // A/B comparisons on one short block: one baseline, variants saying what changed.
+  comparisonRole: mysqlEnum('comparison_role', comparisonRoles),
+  changeKind: mysqlEnum('change_kind', changeKinds),
+  changeNote: varchar('change_note', { length: 200 }),
   createdAt: createdAt(),
   updatedAt: updatedAt(),
 }, t => [

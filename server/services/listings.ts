@@ -1,6 +1,6 @@
 import { and, asc, count, desc, eq, inArray } from 'drizzle-orm'
 import { displacementCi } from '#shared/engine/geometry'
-import type { BuildDetail, BuilderProfileDetail, BuildSummary, Page, PullSummaryRow } from '#shared/types/listings'
+import type { BuildDetail, BuilderFigures, BuilderProfileDetail, BuildSummary, Page, PullSummaryRow } from '#shared/types/listings'
 import type { Pagination } from '#shared/schemas/common'
 import { builderProfiles, buildParts, builds, dynoPulls, type Build, type BuilderProfile } from '../database/schema'
 import type { Database } from '../utils/db'
@@ -101,6 +101,7 @@ export async function getBuilderProfile(db: Database, slug: string): Promise<Bui
   const rows = await db.select().from(builds)
     .where(and(eq(builds.builderId, builder.id), inArray(builds.status, ['published'])))
     .orderBy(desc(builds.publishedAt))
+  const summaries = rows.map(b => toSummary(b, builder))
   return {
     slug: builder.slug,
     shopName: builder.shopName,
@@ -108,6 +109,22 @@ export async function getBuilderProfile(db: Database, slug: string): Promise<Bui
     bio: builder.bio,
     specialties: builder.specialties,
     capabilities: builder.capabilities,
-    builds: rows.map(b => toSummary(b, builder)),
+    builds: summaries,
+    figures: builderFigures(summaries),
+  }
+}
+
+/** A shop's proven-results figures, over its verified builds only. */
+export function builderFigures(summaries: BuildSummary[]): BuilderFigures {
+  const verified = summaries.filter(b => b.verified && b.peakHp !== null)
+  const hp = verified.map(b => b.peakHp as number)
+  const perCi = verified.map(b => (b.peakHp as number) / b.displacementCi).sort((a, b) => a - b)
+  const mid = Math.floor(perCi.length / 2)
+  const median = perCi.length === 0 ? null : perCi.length % 2 ? perCi[mid]! : (perCi[mid - 1]! + perCi[mid]!) / 2
+  return {
+    verifiedBuilds: verified.length,
+    minPeakHp: hp.length ? Math.min(...hp) : null,
+    maxPeakHp: hp.length ? Math.max(...hp) : null,
+    medianHpPerCi: median,
   }
 }

@@ -71,11 +71,20 @@ export interface PullSummaryRow {
   peakTqRpm: number
 }
 
+export interface BuilderFigures {
+  verifiedBuilds: number
+  minPeakHp: number | null
+  maxPeakHp: number | null
+  /** Median of peak hp ÷ displacement over the verified builds. */
+  medianHpPerCi: number | null
+}
+
 export interface BuilderProfileDetail extends BuilderCard {
   bio: string
   specialties: string[]
   capabilities: string[]
   builds: BuildSummary[]
+  figures: BuilderFigures
 }
 
 export interface Page<T> {
@@ -83,4 +92,43 @@ export interface Page<T> {
   page: number
   perPage: number
   items: T[]
+}
+
+/** One pull re-expressed under the viewer's standard, from the raw file and the shop's weather. */
+export interface CurvePull {
+  id: number
+  label: string
+  status: 'submitted' | 'verified' | 'rejected'
+  dynoKind: 'engine' | 'chassis'
+  declaredStandard: string
+  weather: { baroInHg: number, airTempF: number, humidityPct: number } | null
+  comparisonRole: 'baseline' | 'variant' | null
+  changeKind: string | null
+  changeNote: string | null
+  /** The standard the points are under; 'UNCORRECTED' when the weather was unknown. */
+  standard: string
+  uncorrected: boolean
+  notes: string[]
+  points: { rpm: number, hp: number, lbFt: number }[]
+  peaks: { peakHp: number, peakHpRpm: number, peakTq: number, peakTqRpm: number }
+}
+
+export interface CurveComparison {
+  baselineId: number
+  variantId: number
+  changeKind: string | null
+  changeNote: string | null
+  points: { rpm: number, hpDelta: number, tqDelta: number }[]
+  sentence: string
+  maxGainHp: number
+  maxGainRpm: number | null
+  maxLossHp: number
+  maxLossRpm: number | null
+}
+
+export interface BuildCurves {
+  slug: string
+  standard: string
+  pulls: CurvePull[]
+  comparisons: CurveComparison[]
 }
