@@ -55,16 +55,19 @@ function figures(values: Record<string, number | null | undefined>): Record<stri
 const check = (id: EvidenceCheckId, outcome: EvidenceOutcome, message: string, values: Record<string, number | null | undefined> = {}): EvidenceCheck =>
   ({ id, outcome, message, figures: figures(values) })
 
-function median(values: number[]): number {
+/** Numeric sort in a typed array: much quicker than Array#sort with a comparator on 10,000+ values. */
+const sortedCopy = (values: readonly number[]): Float64Array => Float64Array.from(values).sort()
+
+function median(values: readonly number[]): number {
   if (values.length === 0) return Number.NaN
-  const sorted = [...values].sort((a, b) => a - b)
+  const sorted = sortedCopy(values)
   const mid = sorted.length >> 1
   return sorted.length % 2 ? (sorted[mid] as number) : ((sorted[mid - 1] as number) + (sorted[mid] as number)) / 2
 }
 
-function quantile(values: number[], q: number): number {
+function quantile(values: readonly number[], q: number): number {
   if (values.length === 0) return Number.NaN
-  const sorted = [...values].sort((a, b) => a - b)
+  const sorted = sortedCopy(values)
   return sorted[Math.min(sorted.length - 1, Math.floor(q * sorted.length))] as number
 }
 

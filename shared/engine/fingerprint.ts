@@ -13,8 +13,8 @@ import type { PullPoint } from './types'
 
 export const FINGERPRINT_GRID_RPM = 250
 export const FINGERPRINT_WINDOW_RPM = 500
-/** Distance at or under which two fingerprints are taken as the same curve (a 0.4 % shape spread). */
-export const FINGERPRINT_TOLERANCE = 0.004
+/** Distance at or under which two fingerprints are taken as the same curve (a 0.3 % shape spread; our own choice). */
+export const FINGERPRINT_TOLERANCE = 0.003
 
 const VERSION = 'f1'
 const LEVELS = 4095

@@ -35,7 +35,7 @@ const TORQUE_WORDS = new Set(['tq', 'trq', 'torq', 'nm', 'lbft', 'ftlb', 'lbfft'
 
 /** Lower-case alphanumeric tokens of a header cell ("Torque (N·m)" → torque, nm). */
 function tokensOf(cell: string): string[] {
-  const text = cell.toLowerCase().replace(/[·⋅•∙]/g, '').replace(/\bn[\s.\-]m\b/g, 'nm').replace(/\blbs?[\s.\-]?f?[\s.\-]?ft\b/g, 'lbft').replace(/\bft[\s.\-]?lbs?f?\b/g, 'ftlb')
+  const text = cell.toLowerCase().replace(/[·⋅•∙]/g, '').replace(/\bn[\s.-]m\b/g, 'nm').replace(/\blbs?[\s.-]?f?[\s.-]?ft\b/g, 'lbft').replace(/\bft[\s.-]?lbs?f?\b/g, 'ftlb')
   return text.split(/[^a-z0-9]+/).filter(Boolean)
 }
 
@@ -65,11 +65,62 @@ export function classifyHeader(cell: string): Classified | null {
 
 /** A number from a cell, accepting a decimal comma; null for an empty cell, NaN for text. */
 export function parseNumberCell(raw: string | undefined): number | null {
-  if (raw === undefined) return null
-  const s = raw.trim()
+  if (raw === undefined || raw.length === 0) return null
+  // Trim only when needed: this runs on every cell of files with up to 200,000 rows.
+  const s = raw.charCodeAt(0) <= 32 || raw.charCodeAt(raw.length - 1) <= 32 ? raw.trim() : raw
   if (s === '') return null
-  if (!/^[+-]?(?:\d+(?:[.,]\d*)?|[.,]\d+)(?:[eE][+-]?\d+)?$/.test(s)) return Number.NaN
-  return Number(s.replace(',', '.'))
+  const quick = simpleDecimal(s)
+  if (quick !== null) return quick
+  if (!NUMBER.test(s)) return Number.NaN
+  return s.indexOf(',') < 0 ? Number(s) : Number(s.replace(',', '.'))
+}
+
+const POW10 = [1, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15]
+
+/**
+ * Fast path for plain decimals of up to 15 digits ("6512.25", "-3,5"): the digits form an exact
+ * integer and one correctly rounded division gives the same double as Number() would.
+ * Anything else returns null and takes the general path.
+ */
+function simpleDecimal(s: string): number | null {
+  let i = 0
+  let negative = false
+  const first = s.charCodeAt(0)
+  if (first === 45) {
+    negative = true
+    i = 1
+  }
+  else if (first === 43) {
+    i = 1
+  }
+  let mantissa = 0
+  let digits = 0
+  let fraction = 0
+  let seenPoint = false
+  for (; i < s.length; i++) {
+    const c = s.charCodeAt(i)
+    if (c >= 48 && c <= 57) {
+      mantissa = mantissa * 10 + (c - 48)
+      digits++
+      if (seenPoint) fraction++
+    }
+    else if ((c === 46 || c === 44) && !seenPoint) seenPoint = true
+    else return null
+  }
+  if (digits === 0 || digits > 15) return null
+  const value = fraction ? mantissa / (POW10[fraction] as number) : mantissa
+  return negative ? -value : value
+}
+
+/** A plain decimal number, with a decimal point or a decimal comma and an optional exponent. */
+const NUMBER = /^[+-]?(?:\d+(?:[.,]\d*)?|[.,]\d+)(?:[eE][+-]?\d+)?$/
+
+/** True when every cell of a row is empty or blank. */
+function isBlankRow(cells: readonly string[]): boolean {
+  for (const c of cells) {
+    if (c.length > 0 && (c.charCodeAt(0) > 32 || c.trim() !== '')) return false
+  }
+  return true
 }
 
 interface HeaderFound {
@@ -126,6 +177,30 @@ function looksBinary(text: string): boolean {
   return probe.length > 0 && odd / probe.length > 0.05
 }
 
+const shown = (text: string | undefined): string => `"${String(text ?? '').trim().slice(0, 40)}"`
+
+/** What is wrong with one data row's cells, or null when nothing is. */
+function rowProblems(
+  rpm: number | null, rpmText: string | undefined,
+  tq: number | null, tqText: string | undefined,
+  pw: number | null, pwText: string | undefined,
+): string[] | null {
+  let out: string[] | null = null
+  const add = (message: string): void => {
+    (out ??= []).push(message)
+  }
+  if (rpm === null) add('The rpm cell is empty.')
+  else if (Number.isNaN(rpm)) add(`rpm ${shown(rpmText)} is not a number.`)
+  else if (rpm <= 0) add(`rpm ${rpm} must be above zero.`)
+  if (tq !== null && Number.isNaN(tq)) add(`Torque ${shown(tqText)} is not a number.`)
+  if (pw !== null && Number.isNaN(pw)) add(`Power ${shown(pwText)} is not a number.`)
+  if (tq === null && pw === null) add('The row has neither torque nor power.')
+  if ((tq !== null && tq < 0) || (pw !== null && pw < 0)) add('Torque and power cannot be negative in a pull.')
+  return out
+}
+
+const hasComma = (...cells: Array<string | undefined>): boolean => cells.some(c => c !== undefined && c.indexOf(',') >= 0)
+
 const fail = (errors: ParseError[]): ParseResult => ({ ok: false, errors })
 const fileError = (message: string): ParseResult => fail([{ row: 0, message }])
 
@@ -153,7 +228,7 @@ function parseText(input: unknown): ParseResult {
     return fileError('This looks like a binary file, not a text pull file: export the pull as CSV or tab-separated text.')
   }
   const text = decoded.charCodeAt(0) === 0xfeff ? decoded.slice(1) : decoded
-  if (text.trim() === '') return fileError('The file is empty.')
+  if (!/\S/.test(text)) return fileError('The file is empty.')
 
   const header = findHeader(text)
   if (!header) {
@@ -224,33 +299,37 @@ function parseText(input: unknown): ParseResult {
   for (let r = firstData; r < limit; r++) {
     const cells = rows[r] as string[]
     const rowNo = r + 1
-    if (cells.every(c => c.trim() === '')) continue
+    if (isBlankRow(cells)) continue
     dataRows++
     if (dataRows > PARSE_LIMITS.maxRows) {
       return fileError(`The file has more than ${PARSE_LIMITS.maxRows.toLocaleString('en-US')} data rows; trim it to the pull itself.`)
     }
     const rpmText = cells[rpmCol.index]
+    const tqText = tqCol ? cells[tqCol.index] : undefined
+    const pwText = hpCol ? cells[hpCol.index] : undefined
     const rpm = parseNumberCell(rpmText)
-    const tq = tqCol ? parseNumberCell(cells[tqCol.index]) : null
-    const pw = hpCol ? parseNumberCell(cells[hpCol.index]) : null
-    let bad = false
-    if (rpm === null) { addError(rowNo, 'The rpm cell is empty.'); bad = true }
-    else if (Number.isNaN(rpm)) { addError(rowNo, `rpm "${String(rpmText).trim().slice(0, 40)}" is not a number.`); bad = true }
-    else if (rpm <= 0) { addError(rowNo, `rpm ${rpm} must be above zero.`); bad = true }
-    if (tq !== null && Number.isNaN(tq)) { addError(rowNo, `Torque "${String(cells[tqCol?.index ?? 0]).trim().slice(0, 40)}" is not a number.`); bad = true }
-    if (pw !== null && Number.isNaN(pw)) { addError(rowNo, `Power "${String(cells[hpCol?.index ?? 0]).trim().slice(0, 40)}" is not a number.`); bad = true }
-    if (tq === null && pw === null) { addError(rowNo, 'The row has neither torque nor power.'); bad = true }
-    if ((tq !== null && tq < 0) || (pw !== null && pw < 0)) { addError(rowNo, 'Torque and power cannot be negative in a pull.'); bad = true }
-    if (bad || rpm === null) continue
+    const tq = parseNumberCell(tqText)
+    const pw = parseNumberCell(pwText)
+    const problems = rowProblems(rpm, rpmText, tq, tqText, pw, pwText)
+    if (problems || rpm === null) {
+      for (const message of problems ?? []) addError(rowNo, message)
+      continue
+    }
     if (rpm <= previousRpm) {
       addError(rowNo, `rpm goes backwards or repeats: ${rpm} after ${previousRpm}. A pull must rise in rpm down the file.`)
     }
     previousRpm = rpm
-    if (!decimalComma && /,/.test(`${rpmText}${tqCol ? cells[tqCol.index] : ''}${hpCol ? cells[hpCol.index] : ''}`)) decimalComma = true
+    if (!decimalComma && hasComma(rpmText, tqText, pwText)) decimalComma = true
     let lbFt = tq === null ? null : toLbFt(tq, torqueUnit)
     let hp = pw === null ? null : toHp(pw, powerUnit)
-    if (hp === null && lbFt !== null) { hp = (lbFt * rpm) / HP_TORQUE_CROSSOVER_RPM; if (hpCol) filledRows++ }
-    if (lbFt === null && hp !== null) { lbFt = (hp * HP_TORQUE_CROSSOVER_RPM) / rpm; if (tqCol) filledRows++ }
+    if (hp === null && lbFt !== null) {
+      hp = (lbFt * rpm) / HP_TORQUE_CROSSOVER_RPM
+      if (hpCol) filledRows++
+    }
+    if (lbFt === null && hp !== null) {
+      lbFt = (hp * HP_TORQUE_CROSSOVER_RPM) / rpm
+      if (tqCol) filledRows++
+    }
     points.push({ rpm, hp: hp as number, lbFt: lbFt as number })
   }
 

@@ -12,10 +12,10 @@ export const CC_PER_CI = 16.387064
 export const G_PER_LB = 453.59237
 /** 1 lbf = 4.4482216152605 N exactly (0.45359237 kg × 9.80665 m/s²). */
 export const N_PER_LBF = 4.4482216152605
-/** 1 lbf·ft = 1.3558179483314004 N·m (0.3048 m × 1 lbf, exact product). */
-export const NM_PER_LBFT = 1.3558179483314004
-/** 1 hp (550 ft·lbf/s) = 745.69987158227022 W (exact product of the definitions). */
-export const W_PER_HP = 745.69987158227022
+/** 1 lbf·ft = 1.3558179483314004 N·m: the exact product 0.3048 m × 4.4482216152605 N, to double precision. */
+export const NM_PER_LBFT = 0.3048 * N_PER_LBF
+/** 1 hp (550 ft·lbf/s) = 745.69987158227022 W: the exact product 550 × 0.3048 × 4.4482216152605, to double precision. */
+export const W_PER_HP = 550 * 0.3048 * N_PER_LBF
 /** 1 metric horsepower (PS) = 75 kgf·m/s = 735.49875 W exactly. */
 export const W_PER_PS = 735.49875
 /** 1 inHg (32 °F) = 3386.389 Pa (NIST SP 811 B.8, conventional). */
