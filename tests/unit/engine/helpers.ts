@@ -3,7 +3,7 @@ import { create, all } from 'mathjs'
 import type { PullPoint } from '../../../shared/engine'
 
 /** A private mathjs instance (general-purpose units reference) with inHg added from its mmHg. */
-export const math = create(all, {})
+export const math = create(all!, {})
 math.createUnit('inHg', '25.4 mmHg')
 
 /** 33,000 ft·lbf/min per hp over 2π, written out here rather than taken from the module. */
