@@ -56,21 +56,21 @@ export interface ParseError {
   message: string
 }
 
-export type ParseResult =
-  | { ok: true, points: PullPoint[], columns: ParseColumns, warnings: string[] }
-  | { ok: false, errors: ParseError[] }
+export type ParseResult
+  = | { ok: true, points: PullPoint[], columns: ParseColumns, warnings: string[] }
+    | { ok: false, errors: ParseError[] }
 
 export type EvidenceOutcome = 'pass' | 'warn' | 'fail'
 
-export type EvidenceCheckId =
-  | 'rpm-order'
-  | 'rpm-spacing'
-  | 'power-torque-agreement'
-  | 'declared-peaks'
-  | 'correction-factor'
-  | 'bmep'
-  | 'piston-speed'
-  | 'duplicate-curve'
+export type EvidenceCheckId
+  = | 'rpm-order'
+    | 'rpm-spacing'
+    | 'power-torque-agreement'
+    | 'declared-peaks'
+    | 'correction-factor'
+    | 'bmep'
+    | 'piston-speed'
+    | 'duplicate-curve'
 
 /** One line of the admin's evidence report. */
 export interface EvidenceCheck {
