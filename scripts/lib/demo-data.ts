@@ -175,10 +175,15 @@ export function makeCurve(r: Random, opts: { peakHpTarget: number, redline: numb
   const above = (opts.redline - tqRpm) * r.between(1.4, 1.9)
   const startRpm = Math.round((opts.boosted ? 3200 : 2800) / opts.stepRpm) * opts.stepRpm
   const endRpm = Math.round(opts.redline / opts.stepRpm) * opts.stepRpm
+  // A gentle ripple of its own (the tuning of runners and headers) gives every curve a shape no other build shares.
+  const rippleAmp = r.between(0.012, 0.03)
+  const rippleWave = r.between(1400, 2600)
+  const ripplePhase = r.between(0, 2 * Math.PI)
   const shape: { rpm: number, tq: number }[] = []
   for (let rpm = startRpm; rpm <= endRpm; rpm += opts.stepRpm) {
     const x = (rpm - tqRpm) / (rpm < tqRpm ? below : above)
-    shape.push({ rpm, tq: Math.exp(-x * x) })
+    const ripple = 1 + rippleAmp * Math.sin((2 * Math.PI * rpm) / rippleWave + ripplePhase)
+    shape.push({ rpm, tq: Math.exp(-x * x) * ripple })
   }
   const peakShapeHp = Math.max(...shape.map(p => (p.tq * p.rpm) / 5252))
   const scale = opts.peakHpTarget / peakShapeHp

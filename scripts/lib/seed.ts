@@ -5,9 +5,9 @@ import { drizzle, type MySql2Database } from 'drizzle-orm/mysql2'
 import mysql from 'mysql2/promise'
 import { createStorage } from 'unstorage'
 import fsDriver from 'unstorage/drivers/fs'
-import { curveFingerprint } from '../../shared/engine/fingerprint'
-import { parsePull } from '../../shared/engine/parse'
-import { summarisePull } from '../../shared/pulls/summary'
+import { evaluatePull } from '../../shared/pulls/evaluate'
+import type { EvidenceCheck } from '../../shared/engine/types'
+import type { PullSummaryFigures } from '../../shared/pulls/summary'
 import * as schema from '../../server/database/schema'
 import { DEMO_ADMIN, DEMO_PASSWORD, DEMO_RACERS, DEMO_SHOPS, demoBuilds, pullCsv, type DemoPull } from './demo-data'
 
@@ -47,24 +47,30 @@ export async function seedDemo(opts: { url: string, uploadsDir: string }): Promi
     }
 
     const all = demoBuilds()
-    const fingerprints = new Map<string, string>()
+    const fingerprints = (await db.select({ buildId: dynoPulls.buildId, fingerprint: dynoPulls.fingerprint }).from(dynoPulls))
+      .filter((f): f is { buildId: number, fingerprint: string } => f.fingerprint !== null)
     for (const b of all) {
       const shop = shopIds.get(b.shopSlug)!
       const [existing] = await db.select({ id: builds.id }).from(builds).where(eq(builds.slug, b.slug))
       if (existing) continue
-      // The seeded pulls take the same path as an upload: a stored CSV file, parsed back by the engine module.
-      const pullRows: { pull: DemoPull, sha256: string, storageKey: string, summary: ReturnType<typeof summarisePull>, fingerprint: string, size: number }[] = []
+      // The seeded pulls take the same path as an upload: a stored CSV file, evaluated by the engine module.
+      const pullRows: { pull: DemoPull, sha256: string, storageKey: string, summary: PullSummaryFigures, fingerprint: string, checks: EvidenceCheck[], size: number }[] = []
       for (const pull of b.pulls) {
         const text = pullCsv(pull.points)
-        const parsed = parsePull(text)
-        if (!parsed.ok) throw new Error(`demo pull for ${b.slug} does not parse: ${parsed.errors[0]?.message}`)
+        const declaredPeakHp = Math.max(...pull.points.map(p => p.hp))
+        const declaredPeakTq = Math.max(...pull.points.map(p => p.lbFt))
+        const evaluation = evaluatePull({
+          text,
+          declared: { standard: pull.declaredStandard, peakHp: declaredPeakHp, peakTq: declaredPeakTq },
+          weather: pull.weather,
+          build: { id: null, aspiration: b.aspiration, boreIn: b.boreIn, strokeIn: b.strokeIn, cylinders: b.cylinders },
+          fingerprintsOfOtherBuilds: fingerprints,
+        })
+        if (!evaluation.ok) throw new Error(`demo pull for ${b.slug} does not parse: ${evaluation.errors[0]?.message}`)
         const sha256 = createHash('sha256').update(text).digest('hex')
         const storageKey = `pulls/${sha256}.csv`
         await storage.setItem(storageKey, text)
-        const summary = summarisePull(parsed.points, pull.declaredStandard, pull.weather)
-        const fingerprint = curveFingerprint(parsed.points)
-        fingerprints.set(b.slug, fingerprint)
-        pullRows.push({ pull, sha256, storageKey, summary, fingerprint, size: Buffer.byteLength(text) })
+        pullRows.push({ pull, sha256, storageKey, summary: evaluation.summary, fingerprint: evaluation.fingerprint, checks: evaluation.checks, size: Buffer.byteLength(text) })
       }
       const headline = pullRows[0]!
       const verified = b.pulls.every(p => p.status === 'verified')
@@ -83,6 +89,7 @@ export async function seedDemo(opts: { url: string, uploadsDir: string }): Promi
           verifiedAt: verified ? publishedAt : null,
         }).$returningId()
         const buildId = row!.id
+        for (const r of pullRows) fingerprints.push({ buildId, fingerprint: r.fingerprint })
         await tx.insert(buildParts).values(parts.map((p, position) => ({ ...p, buildId, position })))
         for (const r of pullRows) {
           const [file] = await tx.insert(files).values({
@@ -101,6 +108,7 @@ export async function seedDemo(opts: { url: string, uploadsDir: string }): Promi
             declaredPeakTq: Math.max(...r.pull.points.map(p => p.lbFt)),
             summary: r.summary,
             fingerprint: r.fingerprint,
+            checks: r.checks,
             status: r.pull.status,
             comparisonRole: r.pull.comparisonRole ?? null,
             changeKind: r.pull.changeKind ?? null,

@@ -2,6 +2,7 @@ import { sql } from 'drizzle-orm'
 import {
   bigint, char, datetime, decimal, index, int, json, mysqlEnum, mysqlTable, text, uniqueIndex, varchar,
 } from 'drizzle-orm/mysql-core'
+import type { EvidenceCheck } from '../../shared/engine/types'
 import type { PullSummaryFigures } from '../../shared/pulls/summary'
 
 /** Shared column shapes, so every table spells them once. */
@@ -149,6 +150,8 @@ export const dynoPulls = mysqlTable('dyno_pulls', {
   declaredPeakTqRpm: int('declared_peak_tq_rpm'),
   summary: json('summary').$type<PullSummary>().notNull(),
   fingerprint: varchar('fingerprint', { length: 255 }),
+  /** The automatic evidence report (checkEvidence) as it stood when the pull was saved. */
+  checks: json('checks').$type<EvidenceCheck[]>(),
   status: mysqlEnum('status', pullStatuses).notNull().default('submitted'),
   // A/B comparisons on one short block: one baseline, variants saying what changed.
   comparisonRole: mysqlEnum('comparison_role', comparisonRoles),

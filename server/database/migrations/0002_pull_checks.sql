@@ -1,0 +1,1 @@
+ALTER TABLE `dyno_pulls` ADD `checks` json;
