@@ -1,0 +1,82 @@
+import { createHash, randomUUID } from 'node:crypto'
+import type { H3Event } from 'h3'
+import { fileTypeFromBuffer } from 'file-type'
+
+/** Size limits per kind of upload, in bytes. */
+export const UPLOAD_LIMITS = {
+  pull: 2 * 1024 * 1024,
+  sheet: 10 * 1024 * 1024,
+  photo: 8 * 1024 * 1024,
+  attachment: 10 * 1024 * 1024,
+  proof: 10 * 1024 * 1024,
+} as const
+
+export type UploadKind = keyof typeof UPLOAD_LIMITS
+
+/** What each kind may be, by sniffed content (never by the name or the declared type). */
+const ALLOWED: Record<UploadKind, string[]> = {
+  pull: ['text/csv'],
+  sheet: ['image/png', 'image/jpeg', 'image/webp', 'application/pdf'],
+  photo: ['image/png', 'image/jpeg', 'image/webp'],
+  attachment: ['image/png', 'image/jpeg', 'image/webp', 'application/pdf', 'text/csv'],
+  proof: ['image/png', 'image/jpeg', 'image/webp', 'application/pdf', 'text/csv'],
+}
+
+const mb = (bytes: number) => `${(bytes / 1024 / 1024).toFixed(0)} MB`
+
+/**
+ * Reads a request body with a hard byte limit: 413 from Content-Length before reading, and 413 as
+ * soon as a chunked body passes the limit (h3 has no limit of its own).
+ */
+export async function readLimitedBody(event: H3Event, limit: number): Promise<Buffer> {
+  const declared = Number(getRequestHeader(event, 'content-length') ?? Number.NaN)
+  if (Number.isFinite(declared) && declared > limit) {
+    throw createError({ status: 413, message: `The upload is ${mb(declared)}; the most this accepts is ${mb(limit)}.` })
+  }
+  const chunks: Buffer[] = []
+  let total = 0
+  for await (const chunk of event.node.req) {
+    const buf = Buffer.isBuffer(chunk) ? chunk : Buffer.from(chunk as Uint8Array)
+    total += buf.length
+    if (total > limit) {
+      event.node.req.destroy()
+      throw createError({ status: 413, message: `The upload is over ${mb(limit)}, the most this accepts.` })
+    }
+    chunks.push(buf)
+  }
+  return Buffer.concat(chunks)
+}
+
+/** True when the bytes are UTF-8 text with no NUL bytes: what a pull file must be. */
+function isPlainText(bytes: Buffer): boolean {
+  if (bytes.includes(0)) return false
+  try {
+    new TextDecoder('utf-8', { fatal: true }).decode(bytes)
+    return true
+  }
+  catch {
+    return false
+  }
+}
+
+/** The sniffed MIME type of an upload, or a 415 naming what this kind accepts. */
+export async function sniffUpload(kind: UploadKind, bytes: Buffer): Promise<string> {
+  const detected = await fileTypeFromBuffer(bytes)
+  const mime = detected?.mime ?? (isPlainText(bytes) ? 'text/csv' : 'application/octet-stream')
+  if (!ALLOWED[kind].includes(mime)) {
+    const wanted = kind === 'pull' ? 'a CSV or tab-separated text file' : ALLOWED[kind].map(m => m.split('/')[1]!.toUpperCase()).join(', ')
+    throw createError({ status: 415, message: `That file looks like ${mime === 'application/octet-stream' ? 'binary data' : mime}; this upload takes ${wanted}.` })
+  }
+  return mime
+}
+
+export function sha256(bytes: Buffer): string {
+  return createHash('sha256').update(bytes).digest('hex')
+}
+
+const EXT: Record<string, string> = { 'text/csv': 'csv', 'image/png': 'png', 'image/jpeg': 'jpg', 'image/webp': 'webp', 'application/pdf': 'pdf' }
+
+/** The key an upload is stored under: its hash plus a random part, so each stored copy has one owner row. */
+export function storageKeyFor(kind: UploadKind, hash: string, mime: string): string {
+  return `${kind}s/${hash.slice(0, 16)}-${randomUUID()}.${EXT[mime] ?? 'bin'}`
+}
