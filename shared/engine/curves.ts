@@ -59,9 +59,13 @@ export const hpAt = (points: readonly PullPoint[], rpm: number): number => value
 /** The multiples of stepRpm that lie inside [fromRpm, toRpm]. */
 export function rpmGrid(fromRpm: number, toRpm: number, stepRpm: number): number[] {
   positive('stepRpm', stepRpm)
-  const eps = 1e-9
-  const first = Math.ceil(fromRpm / stepRpm - eps)
-  const last = Math.floor(toRpm / stepRpm + eps)
+  // Rounding in the division can land one step off either way; settle k·step inside the range exactly.
+  let first = Math.ceil(fromRpm / stepRpm)
+  while (first * stepRpm < fromRpm) first++
+  while ((first - 1) * stepRpm >= fromRpm) first--
+  let last = Math.floor(toRpm / stepRpm)
+  while (last * stepRpm > toRpm) last--
+  while ((last + 1) * stepRpm <= toRpm) last++
   const grid: number[] = []
   for (let k = first; k <= last; k++) grid.push(k * stepRpm)
   return grid
