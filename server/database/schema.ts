@@ -153,6 +153,8 @@ export const dynoPulls = mysqlTable('dyno_pulls', {
   /** The automatic evidence report (checkEvidence) as it stood when the pull was saved. */
   checks: json('checks').$type<EvidenceCheck[]>(),
   status: mysqlEnum('status', pullStatuses).notNull().default('submitted'),
+  reviewNote: text('review_note'),
+  reviewedAt: datetime('reviewed_at', { mode: 'date', fsp: 3 }),
   // A/B comparisons on one short block: one baseline, variants saying what changed.
   comparisonRole: mysqlEnum('comparison_role', comparisonRoles),
   changeKind: mysqlEnum('change_kind', changeKinds),
@@ -172,3 +174,23 @@ export type NewBuild = typeof builds.$inferInsert
 export type BuildPart = typeof buildParts.$inferSelect
 export type StoredFile = typeof files.$inferSelect
 export type DynoPull = typeof dynoPulls.$inferSelect
+
+// ── Audit: every privileged action, written in the same transaction as the change ──
+
+export const auditLog = mysqlTable('audit_log', {
+  id: id(),
+  actorId: ref('actor_id').references(() => users.id, { onDelete: 'set null' }),
+  action: varchar('action', { length: 60 }).notNull(),
+  entityType: varchar('entity_type', { length: 40 }).notNull(),
+  entityId: bigint('entity_id', { mode: 'number', unsigned: true }).notNull(),
+  before: json('before').$type<Record<string, unknown> | null>(),
+  after: json('after').$type<Record<string, unknown> | null>(),
+  note: text('note'),
+  createdAt: createdAt(),
+}, t => [
+  index('audit_log_entity_idx').on(t.entityType, t.entityId),
+  index('audit_log_created_idx').on(t.createdAt),
+  index('audit_log_actor_idx').on(t.actorId),
+])
+
+export type AuditEntry = typeof auditLog.$inferSelect

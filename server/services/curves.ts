@@ -1,3 +1,4 @@
+import { createError } from 'h3'
 import { and, asc, eq, inArray } from 'drizzle-orm'
 import { convertCurve, deltaCurve, describeDelta, parsePull, peaks, torqueAt, type CorrectionStandard, type PullPoint } from '#shared/engine'
 import type { BuildCurves, CurveComparison, CurvePull } from '#shared/types/listings'
