@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import fc from 'fast-check'
-import { averagePower, deltaCurve, describeDelta, peaks, powerBandRpm, resample } from '../../../shared/engine'
+import { averagePower, deltaCurve, describeDelta, peaks, powerBandRpm, resample, rpmGrid } from '../../../shared/engine'
 import type { PullPoint } from '../../../shared/engine'
 import { K_5252, inventedPull, rel } from './helpers'
 
@@ -45,6 +45,11 @@ describe('resample', () => {
           && p.hp >= Math.min(a.hp, b.hp) - 1e-9 && p.hp <= Math.max(a.hp, b.hp) + 1e-9
       })
     }))
+  })
+  it('grid points stay inside the range even when the division rounds (property; regression for a step of 499.99999999999943)', () => {
+    expect(rpmGrid(0, 4999.999999999994, 499.99999999999943).every(r => r <= 4999.999999999994)).toBe(true)
+    fc.assert(fc.property(fc.double({ min: 0, max: 20000, noNaN: true }), fc.double({ min: 0, max: 5000, noNaN: true }), fc.double({ min: 0.001, max: 500, noNaN: true }), (a, w, step) =>
+      rpmGrid(a, a + w, step).every(r => r >= a && r <= a + w)), { numRuns: 2000 })
   })
   it('throws a RangeError when rpm is not increasing, or on a zero step', () => {
     expect(() => resample([{ rpm: 4000, hp: 300 }, { rpm: 3900, hp: 310 }], 100)).toThrow(RangeError)
