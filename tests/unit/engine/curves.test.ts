@@ -49,8 +49,8 @@ describe('resample', () => {
   it('grid points stay inside the range even when the division rounds (property; regression for a step of 499.99999999999943)', () => {
     expect(rpmGrid(0, 4999.999999999994, 499.99999999999943).every(r => r <= 4999.999999999994)).toBe(true)
     fc.assert(fc.property(fc.double({ min: 0, max: 20000, noNaN: true }), fc.double({ min: 0, max: 5000, noNaN: true }), fc.double({ min: 1, max: 500, noNaN: true }), (a, w, step) =>
-      rpmGrid(a, a + w, step).every(r => r >= a && r <= a + w)), { numRuns: 2000 })
-  })
+      rpmGrid(a, a + w, step).every(r => r >= a && r <= a + w)), { numRuns: 1000 })
+  }, 30_000)
   it('throws a RangeError when rpm is not increasing, or on a zero step', () => {
     expect(() => resample([{ rpm: 4000, hp: 300 }, { rpm: 3900, hp: 310 }], 100)).toThrow(RangeError)
     expect(() => resample(inventedPull(), 0)).toThrow(RangeError)
