@@ -179,27 +179,26 @@ function looksBinary(text: string): boolean {
 
 const shown = (text: string | undefined): string => `"${String(text ?? '').trim().slice(0, 40)}"`
 
-/** What is wrong with one data row's cells, or null when nothing is. */
+/** What is wrong with one data row's cells, or null when nothing is (no closures: it runs on every row). */
 function rowProblems(
   rpm: number | null, rpmText: string | undefined,
   tq: number | null, tqText: string | undefined,
   pw: number | null, pwText: string | undefined,
 ): string[] | null {
-  let out: string[] | null = null
-  const add = (message: string): void => {
-    (out ??= []).push(message)
-  }
-  if (rpm === null) add('The rpm cell is empty.')
-  else if (Number.isNaN(rpm)) add(`rpm ${shown(rpmText)} is not a number.`)
-  else if (rpm <= 0) add(`rpm ${rpm} must be above zero.`)
-  if (tq !== null && Number.isNaN(tq)) add(`Torque ${shown(tqText)} is not a number.`)
-  if (pw !== null && Number.isNaN(pw)) add(`Power ${shown(pwText)} is not a number.`)
-  if (tq === null && pw === null) add('The row has neither torque nor power.')
-  if ((tq !== null && tq < 0) || (pw !== null && pw < 0)) add('Torque and power cannot be negative in a pull.')
+  const fine = rpm !== null && rpm > 0 && (tq === null || tq >= 0) && (pw === null || pw >= 0) && (tq !== null || pw !== null)
+  if (fine) return null // NaN fails every comparison above, so a text cell never lands here
+  const out: string[] = []
+  if (rpm === null) out.push('The rpm cell is empty.')
+  else if (Number.isNaN(rpm)) out.push(`rpm ${shown(rpmText)} is not a number.`)
+  else if (rpm <= 0) out.push(`rpm ${rpm} must be above zero.`)
+  if (tq !== null && Number.isNaN(tq)) out.push(`Torque ${shown(tqText)} is not a number.`)
+  if (pw !== null && Number.isNaN(pw)) out.push(`Power ${shown(pwText)} is not a number.`)
+  if (tq === null && pw === null) out.push('The row has neither torque nor power.')
+  if ((tq !== null && tq < 0) || (pw !== null && pw < 0)) out.push('Torque and power cannot be negative in a pull.')
   return out
 }
 
-const hasComma = (...cells: Array<string | undefined>): boolean => cells.some(c => c !== undefined && c.indexOf(',') >= 0)
+const hasComma = (cell: string | undefined): boolean => cell !== undefined && cell.indexOf(',') >= 0
 
 const fail = (errors: ParseError[]): ParseResult => ({ ok: false, errors })
 const fileError = (message: string): ParseResult => fail([{ row: 0, message }])
@@ -319,7 +318,7 @@ function parseText(input: unknown): ParseResult {
       addError(rowNo, `rpm goes backwards or repeats: ${rpm} after ${previousRpm}. A pull must rise in rpm down the file.`)
     }
     previousRpm = rpm
-    if (!decimalComma && hasComma(rpmText, tqText, pwText)) decimalComma = true
+    if (!decimalComma && (hasComma(rpmText) || hasComma(tqText) || hasComma(pwText))) decimalComma = true
     let lbFt = tq === null ? null : toLbFt(tq, torqueUnit)
     let hp = pw === null ? null : toHp(pw, powerUnit)
     if (hp === null && lbFt !== null) {
