@@ -1,4 +1,4 @@
-import { existsSync } from 'node:fs'
+import { existsSync, readFileSync } from 'node:fs'
 import { resolve } from 'node:path'
 import { buildIfStale } from './lib/app'
 import { loadConfig } from './lib/config'
@@ -31,7 +31,18 @@ async function main() {
   await step('typecheck (nuxt typecheck)', () => run(bin('nuxt'), ['typecheck'], { cwd: cfg.root, env }))
   await step('chromium', ensureChromium)
   await step('build (nuxt build)', () => buildIfStale(cfg))
-  await step('tests (vitest: unit, integration, browser)', () => run(bin('vitest'), ['run', ...process.argv.slice(2)], { cwd: cfg.root, env }))
+  const report = resolve(cfg.dataDir, 'vitest-report.json')
+  let failed: unknown = null
+  await step('tests (vitest: unit, integration, browser)', () => run(bin('vitest'), ['run', '--reporter=default', '--reporter=json', `--outputFile.json=${report}`, ...process.argv.slice(2)], { cwd: cfg.root, env })
+    .catch((err) => {
+      failed = err
+    }))
+  // One plain closing line, whatever the runner printed above it.
+  if (existsSync(report)) {
+    const r = JSON.parse(readFileSync(report, 'utf8')) as { numPassedTests: number, numFailedTests: number, numPendingTests: number }
+    console.log(`\ntests: ${r.numPassedTests} passed, ${r.numFailedTests} failed, ${r.numPendingTests} skipped`)
+  }
+  if (failed) throw failed
 }
 
 main().catch((err) => {

@@ -1,5 +1,5 @@
 import { auditLog } from '../database/schema'
-import type { Database } from '../utils/db'
+import type { Database } from '../database/types'
 
 /** Anything that can run an insert: the database or an open transaction. */
 type Writer = Pick<Database, 'insert'>

@@ -3,7 +3,7 @@ import { and, asc, eq, inArray } from 'drizzle-orm'
 import { convertCurve, deltaCurve, describeDelta, parsePull, peaks, torqueAt, type CorrectionStandard, type PullPoint } from '#shared/engine'
 import type { BuildCurves, CurveComparison, CurvePull } from '#shared/types/listings'
 import { builds, dynoPulls, files, type DynoPull } from '../database/schema'
-import type { Database } from '../utils/db'
+import type { Database } from '../database/types'
 
 /** Reads a stored file's text by its storage key (Nitro storage on the server, a plain map in tests). */
 export type ReadStoredText = (storageKey: string) => Promise<string | null>

@@ -3,7 +3,7 @@ import { displacementCi } from '#shared/engine/geometry'
 import type { BuildDetail, BuilderFigures, BuilderProfileDetail, BuildSummary, Page, PullSummaryRow } from '#shared/types/listings'
 import type { Pagination } from '#shared/schemas/common'
 import { builderProfiles, buildParts, builds, dynoPulls, type Build, type BuilderProfile } from '../database/schema'
-import type { Database } from '../utils/db'
+import type { Database } from '../database/types'
 
 const summaryColumns = { build: builds, builder: builderProfiles }
 

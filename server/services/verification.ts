@@ -1,7 +1,7 @@
 import { createError } from 'h3'
 import { and, asc, eq } from 'drizzle-orm'
 import { builderProfiles, builds, dynoPulls, users } from '../database/schema'
-import type { Database } from '../utils/db'
+import type { Database } from '../database/types'
 import { writeAudit } from './audit'
 
 /** The admin's queue: submitted pulls, oldest first, with their build and shop. */

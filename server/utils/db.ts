@@ -1,8 +1,10 @@
-import { drizzle, type MySql2Database } from 'drizzle-orm/mysql2'
+import { drizzle } from 'drizzle-orm/mysql2'
 import mysql from 'mysql2/promise'
 import * as schema from '../database/schema'
 
-export type Database = MySql2Database<typeof schema>
+import type { Database } from '../database/types'
+
+export type { Database }
 
 let pool: mysql.Pool | undefined
 let database: Database | undefined

@@ -1,7 +1,7 @@
 import { and, count, eq } from 'drizzle-orm'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { approvePull, evidenceQueue, rejectPull } from '../../server/services/verification'
-import type { Database } from '../../server/utils/db'
+import type { Database } from '../../server/database/types'
 import { schema, testDb } from '../support/context'
 import { makeSubmittedPull, seededUser } from '../support/fixtures'
 
