@@ -1,6 +1,6 @@
 import { sql } from 'drizzle-orm'
 import {
-  bigint, char, datetime, decimal, index, int, json, mysqlEnum, mysqlTable, text, uniqueIndex, varchar,
+  bigint, char, datetime, decimal, double, index, int, json, mysqlEnum, mysqlTable, text, uniqueIndex, varchar,
 } from 'drizzle-orm/mysql-core'
 import type { EvidenceCheck } from '../../shared/engine/types'
 import type { PullSummaryFigures } from '../../shared/pulls/summary'
@@ -194,3 +194,32 @@ export const auditLog = mysqlTable('audit_log', {
 ])
 
 export type AuditEntry = typeof auditLog.$inferSelect
+
+// ── Sign-in and roles ──
+// E-mailed links (e-mail confirmation, passwordless sign-in, e-mail change): only the SHA-256 of
+// the token is stored; a link works once (used_at) and until expires_at.
+export const authTokenPurposes = ['verify_email', 'sign_in', 'change_email'] as const
+
+export const authTokens = mysqlTable('auth_tokens', {
+  id: id(),
+  userId: ref('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
+  purpose: mysqlEnum('purpose', authTokenPurposes).notNull(),
+  tokenHash: char('token_hash', { length: 64 }).notNull(),
+  newEmail: varchar('new_email', { length: 254 }),
+  expiresAt: datetime('expires_at', { mode: 'date', fsp: 3 }).notNull(),
+  usedAt: datetime('used_at', { mode: 'date', fsp: 3 }),
+  createdAt: createdAt(),
+}, t => [
+  uniqueIndex('auth_tokens_hash_unique').on(t.tokenHash),
+  index('auth_tokens_user_idx').on(t.userId, t.purpose),
+])
+
+export type AuthToken = typeof authTokens.$inferSelect
+
+// Rate-limit buckets (token buckets, see server/auth/rate-limit.ts) live in MariaDB rather than in
+// memory so that every app instance behind a load balancer, and a restarted one, counts the same attempts.
+export const rateLimitBuckets = mysqlTable('rate_limit_buckets', {
+  key: varchar('bucket_key', { length: 320 }).primaryKey(),
+  tokens: double('tokens').notNull(),
+  updatedAt: datetime('updated_at', { mode: 'date', fsp: 3 }).notNull(),
+}, t => [index('rate_limit_buckets_updated_idx').on(t.updatedAt)])
