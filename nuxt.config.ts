@@ -21,7 +21,9 @@ export default defineNuxtConfig({
     smtpPort: '1025',
     mailFrom: 'Torquewright <no-reply@torquewright.test>',
     uploadsDir: '',
-    public: { appName: 'Torquewright' },
+    // NUXT_TRUST_PROXY=1 behind a load balancer: rate limits then key on its X-Forwarded-For entry.
+    trustProxy: '',
+    public: { appName: 'Torquewright', siteUrl: '' },
   },
   dir: { shared: 'shared' },
   srcDir: '.',
@@ -38,7 +40,7 @@ export default defineNuxtConfig({
   },
   telemetry: false,
   auth: {
-    isEnabled: false,
+    isEnabled: true,
     originEnvKey: 'AUTH_ORIGIN',
     baseURL: '/api/auth',
     provider: { type: 'authjs' },

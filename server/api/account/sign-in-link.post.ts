@@ -1,0 +1,24 @@
+import { linkRequestSchema } from '#shared/schemas/auth'
+import { emails } from '../../auth/messages'
+import { bucketKey, POLICIES, takeTokens } from '../../auth/rate-limit'
+import { findUserByEmail, issueLink } from '../../services/accounts'
+
+/** Asks for a passwordless sign-in link. Public. The answer is the same whether or not the address has an account. */
+export default defineEventHandler(async (event) => {
+  const { email } = await readValidatedBody(event, validator(linkRequestSchema))
+  const db = useDb()
+  const limit = await takeTokens(db, [
+    { key: bucketKey.linkAccount(email), policy: POLICIES.linkAccount },
+    { key: bucketKey.linkAddress(clientAddress(event)), policy: POLICIES.linkAddress },
+  ])
+  if (!limit.allowed) {
+    throw createError({ status: 429, message: `Too many links asked for: wait ${Math.ceil(limit.retryAfterMs / 60_000)} minute(s) and try again.` })
+  }
+  const user = await findUserByEmail(db, email)
+  if (user && !user.suspendedAt) {
+    const token = await issueLink(db, { userId: user.id, purpose: 'sign_in' })
+    sendMailLater(event, { to: user.email, ...emails.signInLink(user.name, `${siteOrigin(event)}/sign-in/link?token=${token}`) })
+  }
+  setResponseStatus(event, 202)
+  return { message: `If ${email} has an account, a sign-in link is on its way. It works once, for 20 minutes.` }
+})

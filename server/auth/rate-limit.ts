@@ -1,0 +1,109 @@
+import { eq, inArray, lt, sql } from 'drizzle-orm'
+import type { MySql2Database } from 'drizzle-orm/mysql2'
+import * as schema from '../database/schema'
+
+/**
+ * Token buckets: a bucket holds up to `capacity` attempts and regains one every `refillMs`.
+ * An attempt takes one token; a successful sign-in gives it back, so only failures add up.
+ * The arithmetic is pure (unit-tested); the buckets themselves are rows in MariaDB so every app
+ * instance and a restarted server see the same counts.
+ */
+export interface BucketPolicy {
+  capacity: number
+  refillMs: number
+}
+
+export interface BucketState {
+  tokens: number
+  updatedAt: number
+}
+
+/** The limits in force. Values are our own choice, in line with common practice for sign-in throttling. */
+export const POLICIES = {
+  /** Wrong passwords for one e-mail address: 5 in a row, then one more every 3 minutes. */
+  signInAccount: { capacity: 5, refillMs: 3 * 60_000 },
+  /** Wrong passwords from one client address, whatever the e-mail: 20, then one every 30 s. */
+  signInAddress: { capacity: 20, refillMs: 30_000 },
+  /** E-mailed links asked for one address: 3, then one every 5 minutes. */
+  linkAccount: { capacity: 3, refillMs: 5 * 60_000 },
+  /** E-mailed links and sign-ups asked from one client address: 10, then one a minute. */
+  linkAddress: { capacity: 10, refillMs: 60_000 },
+} satisfies Record<string, BucketPolicy>
+
+/** Tokens in the bucket at `now`: what was left plus what has dripped back since, never above capacity. */
+export function tokensAt(state: BucketState | undefined, policy: BucketPolicy, now: number): number {
+  if (!state) return policy.capacity
+  const elapsed = Math.max(0, now - state.updatedAt)
+  return Math.min(policy.capacity, state.tokens + elapsed / policy.refillMs)
+}
+
+/** Takes one token if there is one; otherwise says how long until there will be. */
+export function take(state: BucketState | undefined, policy: BucketPolicy, now: number): { allowed: boolean, next: BucketState, retryAfterMs: number } {
+  const tokens = tokensAt(state, policy, now)
+  if (tokens >= 1) return { allowed: true, next: { tokens: tokens - 1, updatedAt: now }, retryAfterMs: 0 }
+  return { allowed: false, next: { tokens, updatedAt: now }, retryAfterMs: Math.ceil((1 - tokens) * policy.refillMs) }
+}
+
+/** Gives one token back (after a successful attempt), never above capacity. */
+export function giveBack(state: BucketState | undefined, policy: BucketPolicy, now: number): BucketState {
+  return { tokens: Math.min(policy.capacity, tokensAt(state, policy, now) + 1), updatedAt: now }
+}
+
+export interface BucketRequest {
+  key: string
+  policy: BucketPolicy
+}
+
+type Db = MySql2Database<typeof schema>
+const { rateLimitBuckets } = schema
+
+/**
+ * Takes one token from every bucket, all or nothing, in one transaction with the rows locked
+ * (keys in a fixed order, so two requests cannot deadlock). A refusal changes no bucket.
+ */
+export async function takeTokens(db: Db, requests: BucketRequest[], now = Date.now()): Promise<{ allowed: boolean, retryAfterMs: number }> {
+  const sorted = [...requests].sort((a, b) => a.key.localeCompare(b.key))
+  const keys = sorted.map(r => r.key)
+  return db.transaction(async (tx) => {
+    await tx.insert(rateLimitBuckets)
+      .values(sorted.map(r => ({ key: r.key, tokens: r.policy.capacity, updatedAt: new Date(now) })))
+      .onDuplicateKeyUpdate({ set: { key: sql`bucket_key` } })
+    const rows = await tx.select().from(rateLimitBuckets).where(inArray(rateLimitBuckets.key, keys)).for('update')
+    const byKey = new Map(rows.map(r => [r.key, { tokens: r.tokens, updatedAt: r.updatedAt.getTime() }]))
+    const results = sorted.map(r => ({ r, result: take(byKey.get(r.key), r.policy, now) }))
+    const refused = results.filter(x => !x.result.allowed)
+    if (refused.length) return { allowed: false, retryAfterMs: Math.max(...refused.map(x => x.result.retryAfterMs)) }
+    for (const { r, result } of results) {
+      await tx.update(rateLimitBuckets).set({ tokens: result.next.tokens, updatedAt: new Date(now) }).where(eq(rateLimitBuckets.key, r.key))
+    }
+    return { allowed: true, retryAfterMs: 0 }
+  })
+}
+
+/** Gives back the token taken for an attempt that succeeded. */
+export async function giveBackTokens(db: Db, requests: BucketRequest[], now = Date.now()): Promise<void> {
+  const sorted = [...requests].sort((a, b) => a.key.localeCompare(b.key))
+  await db.transaction(async (tx) => {
+    const rows = await tx.select().from(rateLimitBuckets).where(inArray(rateLimitBuckets.key, sorted.map(r => r.key))).for('update')
+    const byKey = new Map(rows.map(r => [r.key, { tokens: r.tokens, updatedAt: r.updatedAt.getTime() }]))
+    for (const r of sorted) {
+      const state = byKey.get(r.key)
+      if (!state) continue
+      const next = giveBack(state, r.policy, now)
+      await tx.update(rateLimitBuckets).set({ tokens: next.tokens, updatedAt: new Date(now) }).where(eq(rateLimitBuckets.key, r.key))
+    }
+  })
+}
+
+/** Drops buckets untouched for a day: by then every policy above has refilled them completely. */
+export async function pruneBuckets(db: Db, now = Date.now()): Promise<void> {
+  await db.delete(rateLimitBuckets).where(lt(rateLimitBuckets.updatedAt, new Date(now - 86_400_000)))
+}
+
+/** Bucket keys: one per e-mail address and one per client address, for each kind of attempt. */
+export const bucketKey = {
+  signInAccount: (email: string) => `sign-in:account:${email.toLowerCase()}`,
+  signInAddress: (address: string) => `sign-in:address:${address}`,
+  linkAccount: (email: string) => `link:account:${email.toLowerCase()}`,
+  linkAddress: (address: string) => `link:address:${address}`,
+}

@@ -1,0 +1,105 @@
+import { getToken, type JWT } from '@auth/core/jwt'
+import { verify } from '@node-rs/argon2'
+import { eq } from 'drizzle-orm'
+import type { H3Event } from 'h3'
+import type { Role } from '#shared/schemas/auth'
+import type { SessionUser } from '#shared/types/auth'
+import { activeUser, assertOwner, assertRole, currentPasswordNeeded, type AccountRow } from '../auth/policy'
+import { bucketKey, giveBackTokens, POLICIES, takeTokens } from '../auth/rate-limit'
+import { builderProfiles, users, type BuilderProfile } from '../database/schema'
+
+/** The full address of the sign-in routes (AUTH_ORIGIN), which also says whether cookies are https-only. */
+export function authOrigin(event?: H3Event): URL {
+  const configured = process.env.AUTH_ORIGIN
+  if (configured) return new URL(configured)
+  return new URL('/api/auth', event ? getRequestURL(event) : 'http://127.0.0.1:3000')
+}
+
+/** The site's own origin, for links in e-mails. */
+export function siteOrigin(event?: H3Event): string {
+  return useRuntimeConfig().public.siteUrl || authOrigin(event).origin
+}
+
+export function authSecret(): string {
+  const secret = useRuntimeConfig().authSecret
+  if (!secret) throw createError({ status: 503, message: 'Sign-in is not configured (set NUXT_AUTH_SECRET).' })
+  return secret
+}
+
+/** The decoded session token of the request, or null (no cookie, tampered, or expired). */
+export async function readSession(event: H3Event): Promise<JWT | null> {
+  if (event.context.authToken !== undefined) return event.context.authToken as JWT | null
+  const token = await getToken({ req: { headers: event.headers }, secret: authSecret(), secureCookie: authOrigin(event).protocol === 'https:' })
+  event.context.authToken = token
+  return token
+}
+
+/** The columns a guard needs, read fresh on every request so that a suspension or a role change takes effect at once. */
+export async function loadAccount(id: number): Promise<AccountRow | undefined> {
+  const [row] = await useDb().select({
+    id: users.id, name: users.name, email: users.email, role: users.role, unitPreference: users.unitPreference,
+    emailVerifiedAt: users.emailVerifiedAt, suspendedAt: users.suspendedAt,
+  }).from(users).where(eq(users.id, id)).limit(1)
+  return row
+}
+
+/** The signed-in user: 401 when anonymous, when the session is stale, or when the account is suspended. */
+export async function requireUser(event: H3Event): Promise<SessionUser> {
+  if (event.context.user) return event.context.user as SessionUser
+  const token = await readSession(event)
+  const id = Number(token?.sub)
+  const user = activeUser(Number.isSafeInteger(id) && id > 0 ? await loadAccount(id) : undefined)
+  event.context.user = user
+  return user
+}
+
+/** The signed-in user with one of the roles: 401 when anonymous, 403 for another role. */
+export async function requireRole(event: H3Event, ...roles: Role[]): Promise<SessionUser> {
+  return assertRole(await requireUser(event), roles)
+}
+
+/** The signed-in builder and their shop: every route that acts for a shop starts here. */
+export async function requireBuilderProfile(event: H3Event): Promise<{ user: SessionUser, shop: BuilderProfile }> {
+  const user = await requireRole(event, 'builder')
+  const [shop] = await useDb().select().from(builderProfiles).where(eq(builderProfiles.userId, user.id)).limit(1)
+  if (!shop) throw createError({ status: 403, message: 'This builder account has no shop profile yet.' })
+  return { user, shop }
+}
+
+/** A shop the caller owns, by slug: 404 when no shop has it, 403 when it is someone else's (shops are public, so it is visible). */
+export async function requireOwnShop(event: H3Event, slug: string): Promise<{ user: SessionUser, shop: BuilderProfile }> {
+  const user = await requireUser(event)
+  const [shop] = await useDb().select().from(builderProfiles).where(eq(builderProfiles.slug, slug)).limit(1)
+  if (!shop) throw createError({ status: 404, message: 'No shop has that address.' })
+  assertOwner(user, shop.userId, 'shop')
+  return { user, shop }
+}
+
+/**
+ * The client's address for rate limits. Behind a load balancer (NUXT_TRUST_PROXY=1) it is the last
+ * X-Forwarded-For entry, the one our proxy added; the entries before it are whatever the client sent.
+ */
+export function clientAddress(event: H3Event): string {
+  if (useRuntimeConfig().trustProxy) {
+    const forwarded = getRequestHeader(event, 'x-forwarded-for')?.split(',').map(s => s.trim()).filter(Boolean)
+    if (forwarded?.length) return forwarded[forwarded.length - 1]!
+  }
+  return event.node.req.socket?.remoteAddress ?? 'unknown'
+}
+
+/**
+ * Asks for the current password before a password or e-mail change, unless the account has none
+ * or the session began with an e-mailed link minutes ago. Wrong guesses count against the same
+ * per-account limit as sign-in.
+ */
+export async function confirmCurrentPassword(event: H3Event, user: SessionUser, currentPassword: string | undefined): Promise<void> {
+  const db = useDb()
+  const [row] = await db.select({ passwordHash: users.passwordHash }).from(users).where(eq(users.id, user.id)).limit(1)
+  const session = await readSession(event)
+  if (!row?.passwordHash || !currentPasswordNeeded(true, { method: session?.method, authAt: session?.authAt })) return
+  if (!currentPassword) throw fieldError('currentPassword', 'Enter your current password.')
+  const buckets = [{ key: bucketKey.signInAccount(user.email), policy: POLICIES.signInAccount }]
+  if (!(await takeTokens(db, buckets)).allowed) throw createError({ status: 429, message: 'Too many wrong passwords: wait a few minutes, or sign in with an e-mailed link.' })
+  if (!(await verify(row.passwordHash, currentPassword))) throw fieldError('currentPassword', 'That is not your current password.')
+  await giveBackTokens(db, buckets)
+}

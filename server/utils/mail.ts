@@ -1,0 +1,40 @@
+import nodemailer, { type Transporter } from 'nodemailer'
+
+export interface OutgoingMail {
+  to: string
+  subject: string
+  text: string
+  html?: string
+}
+
+let transport: Transporter | undefined
+
+/** The one SMTP transport of the server (the local mail catcher in development and tests). */
+function useTransport(): Transporter {
+  if (!transport) {
+    const { smtpHost, smtpPort } = useRuntimeConfig()
+    transport = nodemailer.createTransport({
+      host: smtpHost,
+      port: Number(smtpPort),
+      secure: false,
+      ignoreTLS: smtpHost === '127.0.0.1' || smtpHost === 'localhost',
+      connectionTimeout: 10_000,
+      greetingTimeout: 10_000,
+    })
+  }
+  return transport
+}
+
+/** Sends one message from the configured sender; rejects when the SMTP server refuses it. */
+export async function sendMail({ to, subject, text, html }: OutgoingMail): Promise<void> {
+  await useTransport().sendMail({ from: useRuntimeConfig().mailFrom, to, subject, text, html })
+}
+
+/**
+ * Sends after the response has gone: used where how long the answer takes must not tell whether
+ * an address is registered. A failure is logged, never shown to the caller.
+ */
+export function sendMailLater(event: { waitUntil?: (p: Promise<unknown>) => void }, mail: OutgoingMail): void {
+  const sending = sendMail(mail).catch((err: Error) => console.error(`[mail] could not send "${mail.subject}" to ${mail.to}: ${err.message}`))
+  if (event.waitUntil) event.waitUntil(sending)
+}

@@ -1,0 +1,20 @@
+// What Torquewright adds to Auth.js's user and token types (module augmentation).
+import type { Role, UnitSystem } from '../schemas/auth'
+
+declare module '@auth/core/types' {
+  interface User {
+    role?: Role
+    units?: UnitSystem
+  }
+}
+
+declare module '@auth/core/jwt' {
+  interface JWT {
+    role?: Role
+    units?: UnitSystem
+    /** How the session began: 'password' or 'link' (the provider id). */
+    method?: string
+    /** When the session began (ms since the epoch). */
+    authAt?: number
+  }
+}
