@@ -1,0 +1,13 @@
+import { shopPatchSchema } from '#shared/schemas/auth'
+import { slugParams } from '#shared/schemas/common'
+import { updateShop } from '../../services/shops'
+
+/** Changes a shop's name, region or description. Only the builder who owns the shop; others get 403, an unknown shop 404. */
+export default defineEventHandler(async (event) => {
+  await requireRole(event, 'builder')
+  const { slug } = await getValidatedRouterParams(event, validator(slugParams))
+  const { shop } = await requireOwnShop(event, slug)
+  const patch = await readValidatedBody(event, validator(shopPatchSchema))
+  const updated = await updateShop(useDb(), shop.id, patch)
+  return { slug: updated.slug, shopName: updated.shopName, region: updated.region, bio: updated.bio }
+})

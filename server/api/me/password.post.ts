@@ -1,0 +1,15 @@
+import { hash } from '@node-rs/argon2'
+import { passwordChangeSchema } from '#shared/schemas/auth'
+import { setPasswordHash } from '../../services/accounts'
+
+/**
+ * Sets a new password. The current one is asked for, except when the account has none yet or the
+ * session began with an e-mailed link minutes ago (how a forgotten password is replaced).
+ */
+export default defineEventHandler(async (event) => {
+  const user = await requireUser(event)
+  const { currentPassword, newPassword } = await readValidatedBody(event, validator(passwordChangeSchema))
+  await confirmCurrentPassword(event, user, currentPassword)
+  await setPasswordHash(useDb(), user.id, await hash(newPassword))
+  return { message: 'Your password is changed.' }
+})

@@ -1,0 +1,32 @@
+import { count, desc, eq } from 'drizzle-orm'
+import { displacementCi } from '../../shared/engine/geometry'
+import type { OwnBuildRow } from '../../shared/types/auth'
+import { builderProfiles, builds, dynoPulls, type BuilderProfile } from '../database/schema'
+import type { Database } from '../database/types'
+
+/** A shop's own builds for its dashboard, drafts and archived ones included, most recently changed first. */
+export async function listOwnBuilds(db: Database, builderId: number): Promise<OwnBuildRow[]> {
+  const rows = await db.select({ build: builds, pulls: count(dynoPulls.id) }).from(builds)
+    .leftJoin(dynoPulls, eq(dynoPulls.buildId, builds.id))
+    .where(eq(builds.builderId, builderId))
+    .groupBy(builds.id)
+    .orderBy(desc(builds.updatedAt), desc(builds.id))
+  return rows.map(({ build, pulls }) => ({
+    slug: build.slug,
+    title: build.title,
+    status: build.status,
+    displacementCi: displacementCi(build.boreIn, build.strokeIn, build.cylinders),
+    peakHp: build.peakHp,
+    peakTq: build.peakTq,
+    verified: build.verifiedAt !== null,
+    pulls,
+    updatedAt: build.updatedAt.toISOString(),
+  }))
+}
+
+/** Changes a shop's name, region or description. The slug stays, so links to the shop keep working. */
+export async function updateShop(db: Database, shopId: number, patch: { shopName?: string, region?: string, bio?: string }): Promise<BuilderProfile> {
+  await db.update(builderProfiles).set(patch).where(eq(builderProfiles.id, shopId))
+  const [updated] = await db.select().from(builderProfiles).where(eq(builderProfiles.id, shopId))
+  return updated!
+}
