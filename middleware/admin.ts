@@ -1,0 +1,2 @@
+/** Pages for admins only (accounts). */
+export default defineNuxtRouteMiddleware(to => pageAccess(to, ['admin']))

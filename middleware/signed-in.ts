@@ -1,0 +1,2 @@
+/** Pages for any signed-in user (the account page). */
+export default defineNuxtRouteMiddleware(to => pageAccess(to))

@@ -1,0 +1,34 @@
+import { ciToCc, hpToKw, inToMm, lbFtToNm } from '../engine/units'
+import type { UnitSystem } from '../schemas/auth'
+
+/**
+ * Figures as the viewer reads them: the app stores imperial values (hp, lb·ft, cubic inches,
+ * inches) and converts for metric viewers with the NIST SP 811 factors of shared/engine/units.
+ */
+export type FigureKind = 'power' | 'torque' | 'displacement' | 'length'
+
+export interface DisplayFigure {
+  value: number
+  unit: string
+  digits: number
+}
+
+const IMPERIAL: Record<FigureKind, string> = { power: 'hp', torque: 'lb·ft', displacement: 'ci', length: 'in' }
+const METRIC: Record<FigureKind, string> = { power: 'kW', torque: 'N·m', displacement: 'L', length: 'mm' }
+
+/** A stored (imperial) figure in the viewer's system; `digits` is the precision the imperial figure was shown with. */
+export function toDisplay(kind: FigureKind, imperial: number, system: UnitSystem, digits = 0): DisplayFigure {
+  if (system === 'imperial') return { value: imperial, unit: IMPERIAL[kind], digits }
+  switch (kind) {
+    case 'power': return { value: hpToKw(imperial), unit: METRIC.power, digits }
+    case 'torque': return { value: lbFtToNm(imperial), unit: METRIC.torque, digits }
+    // Litres read to two decimals (5.74 L) where cubic inches read to none or one (350 ci).
+    case 'displacement': return { value: ciToCc(imperial) / 1000, unit: METRIC.displacement, digits: digits + 2 }
+    // Millimetres need one digit fewer than inches to the same precision (4.030 in → 102.36 mm).
+    case 'length': return { value: inToMm(imperial), unit: METRIC.length, digits: Math.max(0, digits - 1) }
+  }
+}
+
+export function unitLabel(kind: FigureKind, system: UnitSystem): string {
+  return (system === 'imperial' ? IMPERIAL : METRIC)[kind]
+}
