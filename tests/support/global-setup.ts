@@ -43,7 +43,7 @@ export default async function setup(project: TestProject) {
   const mail = await startMailCatcher()
   const port = await freePort()
   const server = await startBuiltServer(cfg, appEnv(cfg, {
-    database: cfg.db.testName, port, smtpPort: mail.smtpPort, uploadsDir, extra: { TW_TEST_MODE: '1' },
+    database: cfg.db.testName, port, smtpPort: mail.smtpPort, uploadsDir, extra: { TW_TEST_MODE: '1', NUXT_TRUST_PROXY: '1' },
   }), 'pipe')
   let serverLog = ''
   server.stdout?.on('data', (d) => {

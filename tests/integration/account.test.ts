@@ -1,0 +1,160 @@
+import { and, eq } from 'drizzle-orm'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { freshAddress, issuePaths, json, linkToken, makeAccount, session, signIn, uniqueEmail, waitForMail, type CookieJar } from '../support/auth'
+import { api, schema, testDb } from '../support/context'
+
+let ctx: Awaited<ReturnType<typeof testDb>>
+beforeAll(async () => {
+  ctx = await testDb()
+})
+afterAll(async () => {
+  await ctx.close()
+})
+
+async function signedInAccount(role: 'racer' | 'builder' = 'racer') {
+  const account = await makeAccount({ role })
+  const { code, jar } = await signIn('password', { email: account.email, password: account.password })
+  expect(code).toBeNull()
+  return { ...account, jar }
+}
+const send = (method: string, path: string, body: unknown, jar: CookieJar) => api(path, json(method, body, jar, freshAddress()))
+const userRow = async (id: number) => (await ctx.db.select().from(schema.users).where(eq(schema.users.id, id)))[0]!
+
+describe('GET and PATCH /api/me', () => {
+  it('answers the account with its shop, and saves the name and the unit preference', async () => {
+    const me = await signedInAccount('builder')
+    const got = await api('/api/me', { headers: { cookie: me.jar.header() } })
+    expect(got.status).toBe(200)
+    expect(got.body).toMatchObject({ id: me.id, email: me.email, role: 'builder', units: 'imperial', emailVerified: true, hasPassword: true, shop: { slug: me.shopSlug } })
+    expect(got.body).not.toHaveProperty('passwordHash')
+
+    const res = await send('PATCH', '/api/me', { name: '  Ada Quill  ', unitPreference: 'metric' }, me.jar)
+    expect(res.status).toBe(200)
+    expect(res.body).toMatchObject({ name: 'Ada Quill', units: 'metric' })
+    expect(await userRow(me.id)).toMatchObject({ name: 'Ada Quill', unitPreference: 'metric' })
+    expect((await session(me.jar))?.user).toMatchObject({ name: 'Ada Quill', units: 'metric' })
+  })
+
+  it.each([
+    [{ unitPreference: 'furlongs' }, 'unitPreference'],
+    [{ name: 'x' }, 'name'],
+    [{}, ''],
+    [{ role: 'admin' }, ''],
+  ])('refuses %j with a 400 and changes nothing', async (body, field) => {
+    const me = await signedInAccount()
+    const before = await userRow(me.id)
+    const res = await send('PATCH', '/api/me', body, me.jar)
+    expect(res.status).toBe(400)
+    if (field) expect(res.body.message).toContain(field)
+    const after = await userRow(me.id)
+    expect(after).toMatchObject({ name: before.name, role: 'racer', unitPreference: before.unitPreference })
+  })
+})
+
+describe('POST /api/me/password', () => {
+  it('asks for the current password, then the new one signs in and the old one does not', async () => {
+    const me = await signedInAccount()
+    const missing = await send('POST', '/api/me/password', { newPassword: 'a brand new passphrase' }, me.jar)
+    expect(missing.status).toBe(400)
+    expect(issuePaths(missing.body)).toEqual(['currentPassword'])
+    const wrong = await send('POST', '/api/me/password', { currentPassword: 'not it at all', newPassword: 'a brand new passphrase' }, me.jar)
+    expect(wrong.status).toBe(400)
+    expect(wrong.body.message).toContain('not your current password')
+    const short = await send('POST', '/api/me/password', { currentPassword: me.password, newPassword: 'short' }, me.jar)
+    expect(short.status).toBe(400)
+    expect(short.body.message).toContain('at least 10 characters')
+    const hashBefore = (await userRow(me.id)).passwordHash
+
+    const ok = await send('POST', '/api/me/password', { currentPassword: me.password, newPassword: 'a brand new passphrase' }, me.jar)
+    expect(ok.status).toBe(200)
+    expect((await userRow(me.id)).passwordHash).not.toBe(hashBefore)
+    expect((await signIn('password', { email: me.email, password: 'a brand new passphrase' })).code).toBeNull()
+    expect((await signIn('password', { email: me.email, password: me.password })).code).toBe('invalid')
+  })
+
+  it('lets a session that began with an e-mailed link set a new password without the old one (the forgotten-password path)', async () => {
+    const account = await makeAccount({ role: 'racer' })
+    await api('/api/account/sign-in-link', json('POST', { email: account.email }, null, freshAddress()))
+    const { jar } = await signIn('link', { token: linkToken(await waitForMail(account.email)) })
+    const res = await send('POST', '/api/me/password', { newPassword: 'remembered at last' }, jar)
+    expect(res.status).toBe(200)
+    expect((await signIn('password', { email: account.email, password: 'remembered at last' })).code).toBeNull()
+  })
+})
+
+describe('POST /api/me/email', () => {
+  it('moves the account only when the link sent to the new address is used, and tells the old address', async () => {
+    const me = await signedInAccount()
+    const next = uniqueEmail('moved')
+    const res = await send('POST', '/api/me/email', { email: next, currentPassword: me.password }, me.jar)
+    expect(res.status).toBe(202)
+    expect((await userRow(me.id)).email).toBe(me.email)
+    const [pending] = await ctx.db.select().from(schema.authTokens).where(and(eq(schema.authTokens.userId, me.id), eq(schema.authTokens.purpose, 'change_email')))
+    expect(pending!.newEmail).toBe(next)
+
+    const used = await signIn('link', { token: linkToken(await waitForMail(next)) })
+    expect(used.code).toBeNull()
+    expect((await userRow(me.id)).email).toBe(next)
+    const notice = await waitForMail(me.email, m => m.subject.includes('was changed'))
+    expect(notice.text).toContain(next)
+    expect((await signIn('password', { email: next, password: me.password })).code).toBeNull()
+  })
+
+  it('answers the same for an address another account has, and moves nothing', async () => {
+    const me = await signedInAccount()
+    const other = await makeAccount({ role: 'racer' })
+    const res = await send('POST', '/api/me/email', { email: other.email, currentPassword: me.password }, me.jar)
+    expect(res.status).toBe(202)
+    const notice = await waitForMail(other.email, m => m.subject.includes('wanted this address'))
+    expect(notice.text).not.toMatch(/token=/)
+    expect((await userRow(me.id)).email).toBe(me.email)
+  })
+
+  it.each([
+    [{ email: 'nope' }, 'email'],
+    [{ email: uniqueEmail('x') }, 'currentPassword'],
+    [{ email: uniqueEmail('x'), currentPassword: 'wrong password' }, 'currentPassword'],
+  ])('refuses %j with a 400 naming %s', async (body, field) => {
+    const me = await signedInAccount()
+    const res = await send('POST', '/api/me/email', body, me.jar)
+    expect(res.status).toBe(400)
+    expect(issuePaths(res.body)).toContain(field)
+  })
+
+  it('refuses the address the account already has', async () => {
+    const me = await signedInAccount()
+    const res = await send('POST', '/api/me/email', { email: me.email, currentPassword: me.password }, me.jar)
+    expect(res.status).toBe(400)
+    expect(res.body.message).toContain('already your e-mail')
+  })
+})
+
+describe('a shop owner\'s routes', () => {
+  it('lists only the caller\'s own builds, drafts included', async () => {
+    const me = await signedInAccount('builder')
+    const [shop] = await ctx.db.select().from(schema.builderProfiles).where(eq(schema.builderProfiles.slug, me.shopSlug!))
+    const [template] = await ctx.db.select().from(schema.builds).limit(1)
+    const { id: _id, slug: _slug, createdAt: _c, updatedAt: _u, ...columns } = template!
+    await ctx.db.insert(schema.builds).values({ ...columns, builderId: shop!.id, slug: `own-draft-${shop!.id}`, status: 'draft', publishedAt: null })
+    const res = await api('/api/me/builds', { headers: { cookie: me.jar.header() } })
+    expect(res.status).toBe(200)
+    expect(res.body.shop.slug).toBe(me.shopSlug)
+    expect(res.body.builds).toHaveLength(1)
+    expect(res.body.builds[0]).toMatchObject({ slug: `own-draft-${shop!.id}`, status: 'draft', pulls: 0 })
+  })
+
+  it('changes the shop profile for its owner (the slug stays) and refuses another builder with 403', async () => {
+    const owner = await signedInAccount('builder')
+    const stranger = await signedInAccount('builder')
+    const refused = await send('PATCH', `/api/builders/${owner.shopSlug}`, { shopName: 'Taken Over' }, stranger.jar)
+    expect(refused.status).toBe(403)
+    const ok = await send('PATCH', `/api/builders/${owner.shopSlug}`, { shopName: 'Larkspur Engine Room', bio: 'Small shop, big records.' }, owner.jar)
+    expect(ok.status).toBe(200)
+    expect(ok.body).toMatchObject({ slug: owner.shopSlug, shopName: 'Larkspur Engine Room', bio: 'Small shop, big records.' })
+    const [row] = await ctx.db.select().from(schema.builderProfiles).where(eq(schema.builderProfiles.slug, owner.shopSlug!))
+    expect(row!.shopName).toBe('Larkspur Engine Room')
+    const bad = await send('PATCH', `/api/builders/${owner.shopSlug}`, { region: 'x' }, owner.jar)
+    expect(bad.status).toBe(400)
+    expect(bad.body.message).toContain('region')
+  })
+})
