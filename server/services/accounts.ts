@@ -206,14 +206,15 @@ export async function setSuspended(db: Database, actorId: number, userId: number
     const [user] = await tx.select().from(users).where(eq(users.id, userId)).for('update')
     if (!user) throw createError({ status: 404, message: 'No account has that id.' })
     if ((user.suspendedAt !== null) === suspended) return
-    await tx.update(users).set({ suspendedAt: suspended ? new Date() : null }).where(eq(users.id, userId))
+    const suspendedAt = suspended ? new Date() : null
+    await tx.update(users).set({ suspendedAt }).where(eq(users.id, userId))
     await writeAudit(tx, {
       actorId,
       action: suspended ? 'account.suspend' : 'account.restore',
       entityType: 'user',
       entityId: userId,
       before: { suspendedAt: user.suspendedAt?.toISOString() ?? null },
-      after: { suspendedAt: suspended ? new Date().toISOString() : null },
+      after: { suspendedAt: suspendedAt?.toISOString() ?? null },
       note: user.email,
     })
   })

@@ -17,7 +17,7 @@ afterAll(async () => {
 })
 
 const patchUser = (id: number, body: unknown, jar = admin) => api(`/api/admin/users/${id}`, json('PATCH', body, jar, freshAddress()))
-const audits = (id: number) => ctx.db.select().from(schema.auditLog).where(and(eq(schema.auditLog.subjectType, 'user'), eq(schema.auditLog.subjectId, id))).orderBy(desc(schema.auditLog.id))
+const audits = (id: number) => ctx.db.select().from(schema.auditLog).where(and(eq(schema.auditLog.entityType, 'user'), eq(schema.auditLog.entityId, id))).orderBy(desc(schema.auditLog.id))
 
 describe('suspending an account', () => {
   it('ends the open session on its next request, refuses sign-in and links, and a restore undoes it', async () => {
@@ -42,7 +42,8 @@ describe('suspending an account', () => {
 
     const [entry] = await audits(account.id)
     const [adminRow] = await ctx.db.select().from(schema.users).where(eq(schema.users.email, PERSONAS.admin))
-    expect(entry).toMatchObject({ action: 'account.suspend', actorId: adminRow!.id })
+    expect(entry).toMatchObject({ action: 'account.suspend', actorId: adminRow!.id, before: { suspendedAt: null }, note: account.email })
+    expect(entry!.after!.suspendedAt).toBe((await ctx.db.select().from(schema.users).where(eq(schema.users.id, account.id)))[0]!.suspendedAt!.toISOString())
 
     expect((await patchUser(account.id, { suspended: false })).body.suspended).toBe(false)
     expect((await signIn('password', { email: account.email, password: account.password })).code).toBeNull()
@@ -77,7 +78,7 @@ describe('making admins', () => {
     expect(res.status).toBe(200)
     expect(res.body.role).toBe('admin')
     expect((await api('/api/admin/users', { headers: { cookie: jar.header() } })).status).toBe(200)
-    expect((await audits(account.id))[0]).toMatchObject({ action: 'account.make_admin', detail: { email: account.email, from: 'racer' } })
+    expect((await audits(account.id))[0]).toMatchObject({ action: 'account.make_admin', before: { role: 'racer' }, after: { role: 'admin' }, note: account.email })
   })
 
   it('refuses to make a shop account an admin (one role per user)', async () => {
