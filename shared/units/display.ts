@@ -1,11 +1,11 @@
-import { ciToCc, hpToKw, inToMm, lbFtToNm } from '../engine/units'
+import { ciToCc, fToC, hpToKw, inHgToKpa, inToMm, lbFtToNm } from '../engine/units'
 import type { UnitSystem } from '../schemas/auth'
 
 /**
  * Figures as the viewer reads them: the app stores imperial values (hp, lb·ft, cubic inches,
  * inches) and converts for metric viewers with the NIST SP 811 factors of shared/engine/units.
  */
-export type FigureKind = 'power' | 'torque' | 'displacement' | 'length'
+export type FigureKind = 'power' | 'torque' | 'displacement' | 'length' | 'specificPower' | 'pressure' | 'temperature'
 
 export interface DisplayFigure {
   value: number
@@ -13,8 +13,8 @@ export interface DisplayFigure {
   digits: number
 }
 
-const IMPERIAL: Record<FigureKind, string> = { power: 'hp', torque: 'lb·ft', displacement: 'ci', length: 'in' }
-const METRIC: Record<FigureKind, string> = { power: 'kW', torque: 'N·m', displacement: 'L', length: 'mm' }
+const IMPERIAL: Record<FigureKind, string> = { power: 'hp', torque: 'lb·ft', displacement: 'ci', length: 'in', specificPower: 'hp/ci', pressure: 'inHg', temperature: '°F' }
+const METRIC: Record<FigureKind, string> = { power: 'kW', torque: 'N·m', displacement: 'L', length: 'mm', specificPower: 'kW/L', pressure: 'kPa', temperature: '°C' }
 
 /** A stored (imperial) figure in the viewer's system; `digits` is the precision the imperial figure was shown with. */
 export function toDisplay(kind: FigureKind, imperial: number, system: UnitSystem, digits = 0): DisplayFigure {
@@ -26,6 +26,11 @@ export function toDisplay(kind: FigureKind, imperial: number, system: UnitSystem
     case 'displacement': return { value: ciToCc(imperial) / 1000, unit: METRIC.displacement, digits: digits + 2 }
     // Millimetres need one digit fewer than inches to the same precision (4.030 in → 102.36 mm).
     case 'length': return { value: inToMm(imperial), unit: METRIC.length, digits: Math.max(0, digits - 1) }
+    // hp per cubic inch to kW per litre: about 45.5 times the number, so one decimal reads as well as two did.
+    case 'specificPower': return { value: hpToKw(imperial) / (ciToCc(1) / 1000), unit: METRIC.specificPower, digits: Math.max(0, digits - 1) }
+    // Barometer: 29.92 inHg reads 101.3 kPa, so one decimal either way.
+    case 'pressure': return { value: inHgToKpa(imperial), unit: METRIC.pressure, digits }
+    case 'temperature': return { value: fToC(imperial), unit: METRIC.temperature, digits }
   }
 }
 

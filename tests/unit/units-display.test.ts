@@ -31,6 +31,19 @@ describe('figures in the viewer\'s units (factors from NIST SP 811, Appendix B)'
     expect(toDisplay('length', 4.03, 'metric').value).toBeCloseTo(102.362, 6)
   })
 
+  it('1 hp/in³ = 45.505 kW/L (0.745699872 kW over 0.016387064 L, NIST SP 811 B.8)', () => {
+    expect(toDisplay('specificPower', 1, 'metric', 2)).toMatchObject({ unit: 'kW/L', digits: 1 })
+    expect(toDisplay('specificPower', 1, 'metric').value).toBeCloseTo(0.745699872 / 0.016387064, 6)
+    expect(toDisplay('specificPower', 1.5, 'imperial', 2)).toEqual({ value: 1.5, unit: 'hp/ci', digits: 2 })
+  })
+
+  it('weather: 1 inHg (32 °F) = 3.386389 kPa and t/°C = (t/°F − 32)/1.8 (NIST SP 811 B.8)', () => {
+    expect(toDisplay('pressure', 29.92, 'metric', 2)).toMatchObject({ unit: 'kPa', digits: 2 })
+    expect(toDisplay('pressure', 29.92, 'metric').value).toBeCloseTo(101.32076, 4)
+    expect(toDisplay('temperature', 77, 'metric', 1)).toEqual({ value: 25, unit: '°C', digits: 1 })
+    expect(toDisplay('temperature', 60, 'imperial', 1)).toEqual({ value: 60, unit: '°F', digits: 1 })
+  })
+
   it('labels units per system', () => {
     expect([unitLabel('power', 'metric'), unitLabel('torque', 'imperial')]).toEqual(['kW', 'lb·ft'])
   })
