@@ -31,6 +31,8 @@ describe('build page in Chromium', () => {
 
     const { page, requests } = browser
     await page.goto(`${baseUrl()}/builds/${row!.slug}`, { waitUntil: 'networkidle' })
+    // The chart mounts on the client after hydration; wait for it rather than race it.
+    await page.locator('canvas').first().waitFor()
     expect(await page.locator('canvas').count()).toBeGreaterThan(0)
     const shown = async () => Number((await page.locator('[data-test="peak-hp"]').innerText()).replace(/,/g, ''))
     expect(await shown()).toBeCloseTo(expectedPeak('SAE_J1349_2004'), 1)
