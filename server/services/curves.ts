@@ -35,7 +35,15 @@ export async function curvesForBuild(db: Database, read: ReadStoredText, buildId
   const pulls: CurvePull[] = []
   const raw = new Map<number, PullPoint[]>()
   for (const { pull, storageKey } of rows) {
-    const points = await rawPoints(read, storageKey)
+    let points: PullPoint[]
+    try {
+      points = await rawPoints(read, storageKey)
+    }
+    catch (err) {
+      // One unreadable file must not take the public page down: leave that pull out and say so in the log.
+      console.error(`pull ${pull.id}: ${(err as Error).message}`)
+      continue
+    }
     const weather = weatherOf(pull)
     const converted = convertCurve(points, { standard: pull.declaredStandard as CorrectionStandard, weather }, { standard: target, weather })
     raw.set(pull.id, converted.points)
