@@ -2,7 +2,7 @@ import type { z } from 'zod'
 import { computed, reactive, watch } from 'vue'
 import { rangeErrorMessage, rewriteValue, type ToolField, type ToolInput, type ToolValues } from '#shared/schemas/tools'
 import type { UnitSystem } from '#shared/tools/quantities'
-import { useToolUnitsStore } from '~/stores/tool-units'
+import { useUnitsStore } from '~/stores/units'
 
 export interface ToolFormOptions<K extends string, R> {
   fields: readonly ToolField<K>[]
@@ -20,7 +20,7 @@ export interface ToolFormOptions<K extends string, R> {
  * recomputed as the person types and rewritten into the other units when the system changes.
  */
 export function useToolForm<K extends string, R>(options: ToolFormOptions<K, R>) {
-  const units = useToolUnitsStore()
+  const units = useUnitsStore()
   const system = computed(() => units.system)
   const start = {} as ToolValues<K>
   for (const f of options.fields) start[f.key] = rewriteValue(f, options.defaults[f.key], 'imperial', units.system)

@@ -153,7 +153,7 @@ export const fuelFields = [
 ] as const satisfies readonly ToolField[]
 
 export const correctionFields = [
-  { key: 'baroInHg', label: 'Barometer', quantity: 'barometer', range: { imperial: [20, 32.5], metric: [680, 1100] }, digits: { imperial: 2, metric: 0 }, hint: 'Station pressure, not corrected to sea level' },
+  { key: 'baroInHg', label: 'Barometer', quantity: 'barometer', range: { imperial: [20, 32.5], metric: [68, 110] }, digits: { imperial: 2, metric: 1 }, hint: 'Station pressure, not corrected to sea level' },
   { key: 'airTempF', label: 'Air temperature', quantity: 'temperature', range: { imperial: [-20, 130], metric: [-29, 54] }, digits: { imperial: 0, metric: 1 }, hint: 'At the engine\'s air inlet' },
   { key: 'humidityPct', label: 'Relative humidity', unit: '%', range: same(0, 100), digits: both(0) },
   { key: 'observedHp', label: 'Observed power', quantity: 'power', range: { imperial: [1, 5000], metric: [0.75, 3700] }, digits: { imperial: 1, metric: 1 }, optional: true, hint: 'Optional: as read on the dyno' },

@@ -4,12 +4,13 @@
  */
 import { ciToLitres, litresToCi } from '../engine/geometry'
 import {
-  bsfcToImperial, bsfcToMetric, cfmToM3Min, cToF, fToC, ftMinToMs, hpToKw, inHgToMbar, inToMm, kgHrToLbHr, kpaToPsi, kwToHp,
-  lbFtToNm, lbHrToKgHr, m3MinToCfm, mbarToInHg, mmToIn, msToFtMin, nmToLbFt, psiToKpa,
+  bsfcToImperial, bsfcToMetric, cfmToM3Min, cToF, fToC, ftMinToMs, hpToKw, inHgToKpa, inToMm, kgHrToLbHr, kpaToInHg, kpaToPsi,
+  kwToHp, lbFtToNm, lbHrToKgHr, m3MinToCfm, mmToIn, msToFtMin, nmToLbFt, psiToKpa,
 } from '../engine/units'
+import type { UnitSystem } from '../schemas/auth'
 
-export const UNIT_SYSTEMS = ['imperial', 'metric'] as const
-export type UnitSystem = (typeof UNIT_SYSTEMS)[number]
+// The app's one pair of unit systems (the viewer's preference, stores/units.ts).
+export { UNIT_SYSTEMS, type UnitSystem } from '../schemas/auth'
 
 export interface QuantityUnits {
   imperial: string
@@ -19,13 +20,16 @@ export interface QuantityUnits {
   toImperial: (value: number) => number
 }
 
-/** Imperial is what the engine module computes in; metric is converted on the way in and out. */
+/**
+ * Imperial is what the engine module computes in; metric is converted on the way in and out.
+ * Labels match shared/units/display.ts, which shows stored figures across the rest of the app.
+ */
 export const QUANTITIES = {
   length: { imperial: 'in', metric: 'mm', toMetric: inToMm, toImperial: mmToIn },
   displacement: { imperial: 'ci', metric: 'L', toMetric: ciToLitres, toImperial: litresToCi },
   power: { imperial: 'hp', metric: 'kW', toMetric: hpToKw, toImperial: kwToHp },
   torque: { imperial: 'lb·ft', metric: 'N·m', toMetric: lbFtToNm, toImperial: nmToLbFt },
-  barometer: { imperial: 'inHg', metric: 'mbar', toMetric: inHgToMbar, toImperial: mbarToInHg },
+  barometer: { imperial: 'inHg', metric: 'kPa', toMetric: inHgToKpa, toImperial: kpaToInHg },
   temperature: { imperial: '°F', metric: '°C', toMetric: fToC, toImperial: cToF },
   pressure: { imperial: 'psi', metric: 'kPa', toMetric: psiToKpa, toImperial: kpaToPsi },
   pistonSpeed: { imperial: 'ft/min', metric: 'm/s', toMetric: ftMinToMs, toImperial: msToFtMin },

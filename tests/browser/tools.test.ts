@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import {
   airflowCfm, bmepKpa, bmepPsi, camEvents, cToF, ciToLitres, correctionValidity, displacementCi, dynamicCompressionRatio, fuelDefaults,
-  hpFromTorque, hpPerCi, injectorSizeLbHr, kwFromNm, lbHrToCcMin, mbarToInHg, meanPistonSpeedFtMin, mmToIn, rodStrokeRatio,
+  hpFromTorque, hpPerCi, injectorSizeLbHr, kwFromNm, lbHrToCcMin, kpaToInHg, meanPistonSpeedFtMin, mmToIn, rodStrokeRatio,
   staticCompressionRatio, type CamEvents, type CorrectionStandard,
 } from '../../shared/engine'
 import { baseUrl } from '../support/context'
@@ -28,9 +28,19 @@ async function fill(entries: Record<string, string | number>) {
 async function expectFigure(test: string, expected: number, digits: number) {
   await expect.poll(() => text(test), { timeout: 5000 }).toBe(shown(expected, digits))
 }
+/** Typing before Vue has hydrated the page would be overwritten: wait for the mounted app. */
+async function hydrated() {
+  await browser.page.waitForFunction(() => Boolean((document.querySelector('#__nuxt') as { __vue_app__?: unknown } | null)?.__vue_app__))
+}
+/** The page as a new anonymous visitor sees it: imperial (the unit choice an earlier test left in this browser is cleared). */
 async function openTools() {
-  await browser.page.goto(`${baseUrl()}/tools`, { waitUntil: 'networkidle' })
-  await at('displacement-card').waitFor()
+  const { page } = browser
+  await page.goto(`${baseUrl()}/tools`)
+  // The key stores/units.ts keeps an anonymous visitor's choice under.
+  await page.evaluate(() => localStorage.removeItem('torquewright.units'))
+  await page.reload({ waitUntil: 'networkidle' })
+  await hydrated()
+  await expect.poll(() => at('tools-units-imperial').getAttribute('aria-checked')).toBe('true')
 }
 
 describe('calculators page in Chromium', () => {
@@ -39,7 +49,7 @@ describe('calculators page in Chromium', () => {
     await page.goto(`${baseUrl()}/`, { waitUntil: 'networkidle' })
     await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Calculators' }).click()
     await page.waitForURL(/\/tools$/)
-    await at('displacement-card').waitFor()
+    await hydrated()
 
     const engine = { boreIn: 4.125, strokeIn: 4, cylinders: 8, rodLengthIn: 6.125 }
     await fill({ 'displacement-boreIn': '4.125', 'displacement-strokeIn': '4.000', 'displacement-cylinders': '8', 'displacement-rodLengthIn': '6.125' })
@@ -64,8 +74,10 @@ describe('calculators page in Chromium', () => {
     await expectFigure('power-per-ci', hpPerCi(hp, Number(ci.toFixed(1))), 3)
 
     // Metric: the page rewrites what was typed; the figures must equal the module's for the values now on screen.
-    await at('units-metric').click()
+    await at('tools-units-metric').click()
     await expect.poll(() => text('displacement-boreIn-unit')).toBe('mm')
+    // One unit choice for the whole app: the header's toggle shows it too.
+    expect(await at('units-toggle-metric').getAttribute('aria-pressed')).toBe('true')
     expect(await at('displacement-boreIn').inputValue()).toBe((4.125 * 25.4).toFixed(2))
     const metric = {
       boreIn: mmToIn(await value('displacement-boreIn')), strokeIn: mmToIn(await value('displacement-strokeIn')),
@@ -155,11 +167,18 @@ describe('calculators page in Chromium', () => {
     await expectFigure('correction-factor', check('DIN_70020').factor, 4)
     expect(await text('caution-dyno')).toMatch(/dyno cell/)
 
-    await at('units-metric').click()
-    await expect.poll(() => text('correction-baroInHg-unit')).toBe('mbar')
-    const metric = { baroInHg: mbarToInHg(await value('correction-baroInHg')), airTempF: cToF(await value('correction-airTempF')), humidityPct: await value('correction-humidityPct') }
+    await at('tools-units-metric').click()
+    await expect.poll(() => text('correction-baroInHg-unit')).toBe('kPa')
+    const metric = { baroInHg: kpaToInHg(await value('correction-baroInHg')), airTempF: cToF(await value('correction-airTempF')), humidityPct: await value('correction-humidityPct') }
     await expectFigure('correction-factor', check('DIN_70020', metric).factor, 4)
     expect(await at('correction-corrected').getAttribute('data-unit')).toBe('kW')
+
+    // The choice outlives the page: a reload comes back in metric, with the defaults written in metric.
+    await browser.page.reload({ waitUntil: 'networkidle' })
+    await hydrated()
+    await expect.poll(() => text('correction-baroInHg-unit')).toBe('kPa')
+    const defaults = { baroInHg: kpaToInHg(await value('correction-baroInHg')), airTempF: cToF(await value('correction-airTempF')), humidityPct: await value('correction-humidityPct') }
+    await expectFigure('correction-factor', check('SAE_J1349_2004', defaults).factor, 4)
   })
 
   it('a bad input shows a message beside its field and no figure, including the module\'s own refusals', async () => {
@@ -187,7 +206,7 @@ describe('calculators page in Chromium', () => {
     await expect.poll(() => text('fuel-injectors-error')).toBe('Injectors must lie between 1 and 32')
     expect(await at('fuel-injector-lbhr').count()).toBe(0)
 
-    await at('units-metric').click()
+    await at('tools-units-metric').click()
     await fill({ 'correction-airTempF': '70' })
     await expect.poll(() => text('correction-airTempF-error')).toBe('Air temperature must lie between -29 and 54 °C')
     expect(await at('correction-factor').count()).toBe(0)

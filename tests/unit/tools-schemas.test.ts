@@ -58,8 +58,10 @@ describe('calculator inputs: units and messages', () => {
 
   it('percent fields reach the module as fractions, and an empty optional field as undefined', () => {
     expect(fuelSchema('imperial').safeParse({ hp: '600', bsfc: '0.5', injectors: '8', maxDutyCycle: '80' }).data!.maxDutyCycle).toBeCloseTo(0.8, 12)
-    const weather = correctionSchema('metric').safeParse({ baroInHg: '1013.25', airTempF: '25', humidityPct: '0', observedHp: '' })
+    const weather = correctionSchema('metric').safeParse({ baroInHg: '101.325', airTempF: '25', humidityPct: '0', observedHp: '' })
     expect(weather.data!.airTempF).toBeCloseTo(77, 10)
+    // 1 inHg = 3.386389 kPa (NIST SP 811 B.8): 101.325 kPa is 29.921 inHg.
+    expect(weather.data!.baroInHg).toBeCloseTo(29.921, 3)
     expect(weather.data!.observedHp).toBeUndefined()
   })
 
