@@ -1,5 +1,5 @@
 import { createHash, randomUUID } from 'node:crypto'
-import type { H3Event } from 'h3'
+import { createError, getRequestHeader, type H3Event } from 'h3'
 import { fileTypeFromBuffer } from 'file-type'
 
 /** Size limits per kind of upload, in bytes. */
