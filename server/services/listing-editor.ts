@@ -1,7 +1,7 @@
 import { randomBytes } from 'node:crypto'
 import { createError } from 'h3'
 import { and, asc, count, desc, eq, inArray, like, ne } from 'drizzle-orm'
-import { buildDraftPatch, buildPublishSchema, MAX_PARTS, REQUIRED_FOR_PUBLISH, type BuildDraftPatch } from '#shared/schemas/build'
+import { buildDraftPatch, MAX_PARTS, publishProblems, REQUIRED_FOR_PUBLISH, type BuildDraftPatch } from '#shared/schemas/build'
 import type { EditorBuild, EditorFields, OwnBuildRow, PublishIssue } from '#shared/types/editor'
 import { buildParts, buildPhotos, builds, dynoPulls, type Build } from '../database/schema'
 import type { Database } from '../database/types'
@@ -46,10 +46,7 @@ export async function ownBuild(db: Database | Tx, shop: ShopRef, buildId: number
 
 /** The publish check over a stored row: the same zod schema the editor page runs. */
 export function publishIssues(build: Build, livePulls: number): PublishIssue[] {
-  const result = buildPublishSchema.safeParse(fieldsOf(build))
-  const issues = result.success ? [] : result.error.issues.map(i => ({ path: i.path.join('.'), message: i.message }))
-  if (livePulls === 0) issues.push({ path: 'pulls', message: 'Add at least one dyno pull: a listing shows what the build has proven' })
-  return issues
+  return publishProblems(fieldsOf(build) as unknown as Record<string, unknown>, livePulls)
 }
 
 function fieldsOf(build: Build): EditorFields {

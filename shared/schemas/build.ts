@@ -146,6 +146,20 @@ export const buildPublishSchema = publishObject.superRefine(crossChecks)
 
 export type PublishableBuild = z.infer<typeof buildPublishSchema>
 
+/**
+ * Everything that keeps a listing from being published, by field: the publish schema's issues, and
+ * a pull to show. The editor shows these as the builder types; the server runs the same on publish.
+ */
+export function publishProblems(fields: Record<string, unknown>, livePulls: number): { path: string, message: string }[] {
+  const result = buildPublishSchema.safeParse(fields)
+  const missing = (i: z.core.$ZodIssue) => i.code === 'invalid_type' && i.path.length === 1 && (fields[String(i.path[0])] ?? null) === null
+  const issues = result.success
+    ? []
+    : result.error.issues.map(i => ({ path: i.path.join('.'), message: missing(i) ? 'Required to publish' : i.message }))
+  if (livePulls === 0) issues.push({ path: 'pulls', message: 'Add at least one dyno pull: a listing shows what the build has proven' })
+  return issues
+}
+
 /** A status change from the editor. */
 export const buildStatusAction = z.object({
   action: z.enum(['publish', 'unpublish', 'archive', 'restore'], { error: 'action is publish, unpublish, archive or restore' }),
