@@ -1,8 +1,8 @@
 import { randomBytes } from 'node:crypto'
 import { createError } from 'h3'
-import { and, asc, count, desc, eq, inArray, like, ne } from 'drizzle-orm'
+import { and, asc, count, eq, inArray, like, ne } from 'drizzle-orm'
 import { buildDraftPatch, MAX_PARTS, publishProblems, REQUIRED_FOR_PUBLISH, type BuildDraftPatch } from '#shared/schemas/build'
-import type { EditorBuild, EditorFields, OwnBuildRow, PublishIssue } from '#shared/types/editor'
+import type { EditorBuild, EditorFields, PublishIssue } from '#shared/types/editor'
 import { buildParts, buildPhotos, builds, dynoPulls, type Build } from '../database/schema'
 import type { Database } from '../database/types'
 import { deleteFileRows, discard, type Tx, type UploadStore } from './listing-files'
@@ -76,18 +76,6 @@ export async function refreshHeadline(tx: Tx, buildId: number): Promise<void> {
     peakTqRpm: headline?.peakTqRpm ?? null,
     verifiedAt: verified.length ? (build?.verifiedAt ?? new Date()) : null,
   }).where(eq(builds.id, buildId))
-}
-
-/** The shop's builds, most recently changed first. */
-export async function listOwnBuilds(db: Database, shop: ShopRef): Promise<OwnBuildRow[]> {
-  const rows = await db.select({ build: builds, pulls: count(dynoPulls.id) }).from(builds)
-    .leftJoin(dynoPulls, eq(dynoPulls.buildId, builds.id))
-    .where(eq(builds.builderId, shop.id))
-    .groupBy(builds.id)
-    .orderBy(desc(builds.updatedAt), desc(builds.id))
-  return rows.map(({ build: b, pulls }) => ({
-    id: b.id, slug: b.slug, title: b.title, status: b.status, pulls, peakHp: b.peakHp, verified: b.verifiedAt !== null, updatedAt: b.updatedAt.toISOString(),
-  }))
 }
 
 /** A new draft with only its title. Returns its id. */

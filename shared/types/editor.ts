@@ -75,17 +75,6 @@ export interface EditorBuild {
   publishIssues: PublishIssue[]
 }
 
-export interface OwnBuildRow {
-  id: number
-  slug: string
-  title: string
-  status: BuildStatus
-  pulls: number
-  peakHp: number | null
-  verified: boolean
-  updatedAt: string
-}
-
 /** The parse preview of a pull file: the curve, the parser's warnings and the evidence report, nothing saved. */
 export interface PullPreview {
   points: { rpm: number, hp: number, lbFt: number }[]

@@ -1,6 +1,7 @@
 import { eq, inArray } from 'drizzle-orm'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { changeStatus, createDraft, deleteBuild, editorBuild, listOwnBuilds, slugify, updateBuild } from '../../server/services/listing-editor'
+import { changeStatus, createDraft, deleteBuild, editorBuild, slugify, updateBuild } from '../../server/services/listing-editor'
+import { listOwnBuilds } from '../../server/services/shops'
 import { savePull } from '../../server/services/evidence-uploads'
 import { addPhoto } from '../../server/services/listing-photos'
 import { getPublishedBuild } from '../../server/services/listings'
@@ -44,8 +45,9 @@ describe('listing drafts (service, real MariaDB)', () => {
     expect(build!.boreIn).toBeNull()
     expect(build!.priceCents).toBeNull()
     expect(build!.slug).toMatch(/^draft-[0-9a-f]{12}$/)
-    expect((await listOwnBuilds(db, shops.mine)).map(b => b.id)).toContain(id)
-    expect((await listOwnBuilds(db, shops.other)).map(b => b.id)).not.toContain(id)
+    const listed = (await listOwnBuilds(db, shops.mine.id)).find(b => b.id === id)
+    expect(listed).toMatchObject({ status: 'draft', displacementCi: null, pulls: 0 })
+    expect((await listOwnBuilds(db, shops.other.id)).map(b => b.id)).not.toContain(id)
   })
 
   it('autosaves any subset of fields and replaces the parts list in order, totals in integer cents', async () => {
