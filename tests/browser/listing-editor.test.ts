@@ -5,17 +5,24 @@ import { evaluatePull } from '../../shared/pulls/evaluate'
 import { partsTotalCents } from '../../shared/schemas/build'
 import { DEMO_PASSWORD, PERSONAS } from '../support/auth'
 import { isLocal, openBrowser } from '../support/browser'
-import { baseUrl } from '../support/context'
-import { COMPLETE_COMBINATION, inventedPullCsv } from '../support/listings'
+import { baseUrl, testDb } from '../support/context'
+import { buildIds, COMPLETE_COMBINATION, inventedPullCsv, removeBuildsSince } from '../support/listings'
 
 let browser: Awaited<ReturnType<typeof openBrowser>>
 let page: Page
+let seeded: Set<number>
 beforeAll(async () => {
+  const { db, close } = await testDb()
+  seeded = await buildIds(db)
+  await close()
   browser = await openBrowser()
   page = browser.page
 })
 afterAll(async () => {
   await browser?.close()
+  const { db, close } = await testDb()
+  await removeBuildsSince(db, seeded)
+  await close()
 })
 
 // The pull the builder uploads: an invented curve, declared under DIN 70020 on a warm, humid day.

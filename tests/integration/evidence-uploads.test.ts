@@ -10,18 +10,21 @@ import type { Database } from '../../server/database/types'
 import { convertCurve, parsePull, peaks } from '../../shared/engine'
 import { UPLOAD_LIMITS } from '../../server/utils/uploads'
 import { schema, testDb } from '../support/context'
-import { COMPLETE_COMBINATION, fileRowCount, inventedPullCsv, pullMeta, pullsOf, storedKeys, testUploadStore, testUploadsDir, twoShops } from '../support/listings'
+import { buildIds, COMPLETE_COMBINATION, fileRowCount, inventedPullCsv, pullMeta, pullsOf, removeBuildsSince, storedKeys, testUploadsDir, testUploadStore, twoShops } from '../support/listings'
 
 let ctx: Awaited<ReturnType<typeof testDb>>
+let seeded: Set<number>
 let db: Database
 let shops: Awaited<ReturnType<typeof twoShops>>
 const store = testUploadStore()
 beforeAll(async () => {
   ctx = await testDb()
+  seeded = await buildIds(ctx.db)
   db = ctx.db as unknown as Database
   shops = await twoShops(ctx.db)
 })
 afterAll(async () => {
+  await removeBuildsSince(ctx.db, seeded)
   await ctx.close()
 })
 

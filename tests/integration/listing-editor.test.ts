@@ -9,18 +9,21 @@ import type { Database } from '../../server/database/types'
 import { displacementCi } from '../../shared/engine'
 import { partsTotalCents } from '../../shared/schemas/build'
 import { schema, testDb } from '../support/context'
-import { COMPLETE_COMBINATION, inventedPullCsv, pullMeta, storedKeys, testUploadStore, twoShops } from '../support/listings'
+import { buildIds, COMPLETE_COMBINATION, inventedPullCsv, pullMeta, removeBuildsSince, storedKeys, testUploadStore, twoShops } from '../support/listings'
 
 let ctx: Awaited<ReturnType<typeof testDb>>
+let seeded: Set<number>
 let db: Database
 let shops: Awaited<ReturnType<typeof twoShops>>
 const store = testUploadStore()
 beforeAll(async () => {
   ctx = await testDb()
+  seeded = await buildIds(ctx.db)
   db = ctx.db as unknown as Database
   shops = await twoShops(ctx.db)
 })
 afterAll(async () => {
+  await removeBuildsSince(ctx.db, seeded)
   await ctx.close()
 })
 

@@ -4,15 +4,18 @@ import { hpToKw, peaks, convertCurve, parsePull, type CorrectionStandard } from 
 import { UPLOAD_LIMITS } from '../../shared/uploads'
 import { PERSONAS, signedIn, type CookieJar } from '../support/auth'
 import { api, schema, testDb } from '../support/context'
-import { COMPLETE_COMBINATION, fileRowCount, inventedPullCsv, pullMeta, storedKeys } from '../support/listings'
+import { buildIds, COMPLETE_COMBINATION, fileRowCount, inventedPullCsv, pullMeta, removeBuildsSince, storedKeys } from '../support/listings'
 
 let ctx: Awaited<ReturnType<typeof testDb>>
+let seeded: Set<number>
 const jars: Record<'builder' | 'otherBuilder' | 'racer' | 'admin', CookieJar> = {} as never
 beforeAll(async () => {
   ctx = await testDb()
+  seeded = await buildIds(ctx.db)
   for (const who of ['builder', 'otherBuilder', 'racer', 'admin'] as const) jars[who] = await signedIn(PERSONAS[who])
 })
 afterAll(async () => {
+  await removeBuildsSince(ctx.db, seeded)
   await ctx.close()
 })
 

@@ -8,6 +8,8 @@ import { loadConfig } from '../../scripts/lib/config'
 import { makeCurve, pullCsv } from '../../scripts/lib/demo-data'
 import { seededRandom } from '../../scripts/lib/random'
 import * as schema from '../../server/database/schema'
+import type { Database } from '../../server/database/types'
+import { deleteBuild } from '../../server/services/listing-editor'
 import type { UploadStore } from '../../server/services/listing-files'
 import type { PullMeta } from '../../shared/schemas/build'
 
@@ -107,4 +109,22 @@ export async function fileRowCount(db: Db): Promise<number> {
 
 export async function pullsOf(db: Db, buildId: number) {
   return db.select().from(schema.dynoPulls).where(eq(schema.dynoPulls.buildId, buildId))
+}
+
+/** The ids of every build now in the test database, taken before a file starts making its own. */
+export async function buildIds(db: Db): Promise<Set<number>> {
+  return new Set((await db.select({ id: schema.builds.id }).from(schema.builds)).map(r => r.id))
+}
+
+/**
+ * Deletes the builds a test file made (those not in `before`) through the editor's own delete, with
+ * their pulls and files, so the files after it see the seeded listings as the seed left them.
+ */
+export async function removeBuildsSince(db: Db, before: Set<number>): Promise<void> {
+  const rows = await db.select({ id: schema.builds.id, shopId: schema.builderProfiles.id, userId: schema.builderProfiles.userId })
+    .from(schema.builds).innerJoin(schema.builderProfiles, eq(schema.builderProfiles.id, schema.builds.builderId))
+  const store = testUploadStore()
+  for (const row of rows.filter(r => !before.has(r.id))) {
+    await deleteBuild(db as unknown as Database, store, { id: row.shopId, userId: row.userId }, row.id)
+  }
 }
