@@ -36,7 +36,11 @@ export default defineNuxtConfig({
   typescript: {
     strict: true,
     tsConfig: { exclude: ['../tests/**', '../scripts/**', '../bench/**', '../*.config.ts'] },
-    nodeTsConfig: { include: ['../tests/**/*', '../scripts/**/*', '../bench/**/*', '../*.config.ts'] },
+    // Tests call services directly, and services import shared code through Nuxt's #shared alias.
+    nodeTsConfig: {
+      include: ['../tests/**/*', '../scripts/**/*', '../bench/**/*', '../*.config.ts'],
+      compilerOptions: { paths: { '#shared': ['../shared'], '#shared/*': ['../shared/*'] } },
+    },
   },
   telemetry: false,
   auth: {

@@ -1,7 +1,8 @@
 import { sql } from 'drizzle-orm'
 import {
-  bigint, char, datetime, decimal, double, index, int, json, mysqlEnum, mysqlTable, text, uniqueIndex, varchar,
+  bigint, char, check, datetime, decimal, double, index, int, json, mysqlEnum, mysqlTable, text, uniqueIndex, varchar,
 } from 'drizzle-orm/mysql-core'
+import { REQUIRED_FOR_PUBLISH } from '../../shared/schemas/build'
 import type { EvidenceCheck } from '../../shared/engine/types'
 import type { PullSummaryFigures } from '../../shared/pulls/summary'
 
@@ -60,33 +61,35 @@ export const builds = mysqlTable('builds', {
   builderId: ref('builder_id').notNull().references(() => builderProfiles.id, { onDelete: 'cascade' }),
   slug: varchar('slug', { length: 160 }).notNull(),
   title: varchar('title', { length: 160 }).notNull(),
-  summary: text('summary').notNull(),
-  engineFamily: varchar('engine_family', { length: 60 }).notNull(),
-  cylinders: int('cylinders').notNull(),
-  boreIn: inches('bore_in').notNull(),
-  strokeIn: inches('stroke_in').notNull(),
-  rodLengthIn: inches('rod_length_in').notNull(),
-  cylinderHeads: varchar('cylinder_heads', { length: 160 }).notNull(),
-  chamberCc: cc('chamber_cc').notNull(),
-  pistonCc: cc('piston_cc').notNull(),
-  gasketBoreIn: inches('gasket_bore_in').notNull(),
-  gasketThicknessIn: inches('gasket_thickness_in').notNull(),
-  deckClearanceIn: inches('deck_clearance_in').notNull(),
-  camIntakeDurationDeg: degrees('cam_intake_duration_deg').notNull(),
-  camExhaustDurationDeg: degrees('cam_exhaust_duration_deg').notNull(),
-  camIntakeLiftIn: inches('cam_intake_lift_in').notNull(),
-  camExhaustLiftIn: inches('cam_exhaust_lift_in').notNull(),
-  camLobeSeparationDeg: degrees('cam_lobe_separation_deg').notNull(),
-  camIntakeCenterlineDeg: degrees('cam_intake_centerline_deg').notNull(),
-  intakeManifold: varchar('intake_manifold', { length: 160 }).notNull(),
-  throttleBody: varchar('throttle_body', { length: 80 }).notNull(),
+  // The combination may be NULL only while the listing is a draft: publishing checks it with
+  // shared/schemas/build.ts and the builds_published_complete constraint below holds it in the table.
+  summary: text('summary'),
+  engineFamily: varchar('engine_family', { length: 60 }),
+  cylinders: int('cylinders'),
+  boreIn: inches('bore_in'),
+  strokeIn: inches('stroke_in'),
+  rodLengthIn: inches('rod_length_in'),
+  cylinderHeads: varchar('cylinder_heads', { length: 160 }),
+  chamberCc: cc('chamber_cc'),
+  pistonCc: cc('piston_cc'),
+  gasketBoreIn: inches('gasket_bore_in'),
+  gasketThicknessIn: inches('gasket_thickness_in'),
+  deckClearanceIn: inches('deck_clearance_in'),
+  camIntakeDurationDeg: degrees('cam_intake_duration_deg'),
+  camExhaustDurationDeg: degrees('cam_exhaust_duration_deg'),
+  camIntakeLiftIn: inches('cam_intake_lift_in'),
+  camExhaustLiftIn: inches('cam_exhaust_lift_in'),
+  camLobeSeparationDeg: degrees('cam_lobe_separation_deg'),
+  camIntakeCenterlineDeg: degrees('cam_intake_centerline_deg'),
+  intakeManifold: varchar('intake_manifold', { length: 160 }),
+  throttleBody: varchar('throttle_body', { length: 80 }),
   injectorSizeLbHr: decimal('injector_size_lb_hr', { precision: 6, scale: 1, mode: 'number' }),
   injectorCount: int('injector_count'),
-  fuel: mysqlEnum('fuel', fuels).notNull(),
-  aspiration: mysqlEnum('aspiration', aspirations).notNull(),
-  engineManagement: varchar('engine_management', { length: 120 }).notNull(),
-  intendedUse: mysqlEnum('intended_use', uses).notNull(),
-  priceCents: bigint('price_cents', { mode: 'number', unsigned: true }).notNull(),
+  fuel: mysqlEnum('fuel', fuels),
+  aspiration: mysqlEnum('aspiration', aspirations),
+  engineManagement: varchar('engine_management', { length: 120 }),
+  intendedUse: mysqlEnum('intended_use', uses),
+  priceCents: bigint('price_cents', { mode: 'number', unsigned: true }),
   status: mysqlEnum('status', buildStatuses).notNull().default('draft'),
   publishedAt: datetime('published_at', { mode: 'date', fsp: 3 }),
   // Denormalised from the verified (or best submitted) pull, under SAE J1349 (2004).
@@ -101,6 +104,7 @@ export const builds = mysqlTable('builds', {
   uniqueIndex('builds_slug_unique').on(t.slug),
   index('builds_builder_idx').on(t.builderId),
   index('builds_status_idx').on(t.status),
+  check('builds_published_complete', sql`${t.status} <> 'published' OR (${sql.join(REQUIRED_FOR_PUBLISH.map(k => sql`${t[k]} IS NOT NULL`), sql` AND `)})`),
 ])
 
 export const buildParts = mysqlTable('build_parts', {
@@ -166,6 +170,20 @@ export const dynoPulls = mysqlTable('dyno_pulls', {
   index('dyno_pulls_status_idx').on(t.status, t.createdAt),
 ])
 
+// ── Listing editor: a build's photos, in the order the builder set ──
+
+export const buildPhotos = mysqlTable('build_photos', {
+  id: id(),
+  buildId: ref('build_id').notNull().references(() => builds.id, { onDelete: 'cascade' }),
+  fileId: ref('file_id').notNull().references(() => files.id),
+  position: int('position').notNull(),
+  caption: varchar('caption', { length: 160 }).notNull().default(''),
+  createdAt: createdAt(),
+}, t => [
+  index('build_photos_build_idx').on(t.buildId, t.position),
+  uniqueIndex('build_photos_file_unique').on(t.fileId),
+])
+
 export type User = typeof users.$inferSelect
 export type NewUser = typeof users.$inferInsert
 export type BuilderProfile = typeof builderProfiles.$inferSelect
@@ -174,6 +192,7 @@ export type NewBuild = typeof builds.$inferInsert
 export type BuildPart = typeof buildParts.$inferSelect
 export type StoredFile = typeof files.$inferSelect
 export type DynoPull = typeof dynoPulls.$inferSelect
+export type BuildPhoto = typeof buildPhotos.$inferSelect
 
 // ── Audit: every privileged action, written in the same transaction as the change ──
 

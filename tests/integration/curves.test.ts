@@ -139,7 +139,7 @@ describe('builder profile figures', () => {
     const rows = await ctx.db.select().from(schema.builds).where(and(eq(schema.builds.builderId, shop!.id), eq(schema.builds.status, 'published'), isNotNull(schema.builds.verifiedAt)))
     const res = await api(`/api/builders/${shop!.slug}`)
     expect(res.body.figures.verifiedBuilds).toBe(rows.length)
-    const perCi = rows.map(r => r.peakHp! / ((Math.PI / 4) * r.boreIn ** 2 * r.strokeIn * r.cylinders)).sort((a, b) => a - b)
+    const perCi = rows.map(r => r.peakHp! / ((Math.PI / 4) * r.boreIn! ** 2 * r.strokeIn! * r.cylinders!)).sort((a, b) => a - b)
     const m = Math.floor(perCi.length / 2)
     const median = perCi.length % 2 ? perCi[m]! : (perCi[m - 1]! + perCi[m]!) / 2
     expect(res.body.figures.medianHpPerCi).toBeCloseTo(median, 6)
