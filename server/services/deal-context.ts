@@ -5,7 +5,7 @@ import { eq, or, sql, type SQL } from 'drizzle-orm'
 import { createError } from 'h3'
 import type Stripe from 'stripe'
 import { builderProfiles, dealEvents, quoteRequests, users } from '../database/schema'
-import type { Database } from '../utils/db'
+import type { Database } from '../database/types'
 
 export type DbTransaction = Parameters<Parameters<Database['transaction']>[0]>[0]
 export type Executor = Database | DbTransaction
@@ -107,4 +107,3 @@ export function sideOf(actor: DealActor, parties: { racerId: number, builderId: 
   if (actor.builderId !== null && actor.builderId === parties.builderId) return 'builder'
   return null
 }
-

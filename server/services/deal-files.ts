@@ -1,35 +1,14 @@
 // Files sent with a deal: request attachments, message attachments, proof of work and delivery
-// pulls. Stored through the uploads storage, size-limited, type-sniffed and hashed; each file is
-// attached once, and can be read only by the parties of the request it belongs to.
-import { createHash, randomUUID } from 'node:crypto'
+// pulls. The route reads, limits and sniffs the upload (server/utils/uploads.ts); here it is stored
+// and recorded, attached once, and readable only by the parties of the request it belongs to.
 import { and, eq, inArray, isNull, or } from 'drizzle-orm'
-import { fileTypeFromBuffer } from 'file-type'
-import { createError } from 'h3'
 import type { Storage } from 'unstorage'
 import {
   deliveryPulls, files, milestoneProofs, milestones, orders, quoteRequests, requestAttachments, type StoredFile,
 } from '../database/schema'
 import { type DealActor, type Executor, requestVisibleTo, unprocessable } from './deal-context'
 
-export const FILE_LIMITS = { bytes: 10 * 1024 * 1024, pullBytes: 2 * 1024 * 1024 } as const
-
 export type DealFileKind = 'attachment' | 'photo' | 'proof' | 'pull'
-
-const BINARY_TYPES = new Set(['image/jpeg', 'image/png', 'image/webp', 'image/gif', 'application/pdf'])
-
-/** What a file really is, from its bytes: an image or PDF by signature, otherwise UTF-8 text without NULs. */
-export async function sniffType(data: Uint8Array, name: string): Promise<string | null> {
-  const found = await fileTypeFromBuffer(data)
-  if (found) return BINARY_TYPES.has(found.mime) ? found.mime : null
-  if (data.includes(0)) return null
-  try {
-    new TextDecoder('utf-8', { fatal: true }).decode(data)
-  }
-  catch {
-    return null
-  }
-  return /\.(csv|tsv)$/i.test(name) ? 'text/csv' : 'text/plain'
-}
 
 export interface UploadedFile {
   id: number
@@ -38,21 +17,14 @@ export interface UploadedFile {
   sizeBytes: number
 }
 
-/** Stores one upload for its owner and records it; refuses what is too large or of a kind the deal does not take. */
-export async function storeDealFile(db: Executor, storage: Storage, ownerId: number, upload: { name: string, data: Uint8Array, kind: DealFileKind }): Promise<UploadedFile> {
-  const limit = upload.kind === 'pull' ? FILE_LIMITS.pullBytes : FILE_LIMITS.bytes
-  if (upload.data.byteLength === 0) throw createError({ status: 400, message: 'The file is empty.' })
-  if (upload.data.byteLength > limit) throw createError({ status: 413, message: `The file is larger than ${limit / 1024 / 1024} MB.` })
-  const mime = await sniffType(upload.data, upload.name)
-  if (!mime) throw createError({ status: 415, message: 'Send a photo (JPEG, PNG, WebP, GIF), a PDF, or a text or CSV file.' })
-  if (upload.kind === 'pull' && !mime.startsWith('text/')) throw createError({ status: 415, message: 'A pull file is a text file: export the pull as CSV or tab-separated text.' })
-  if (upload.kind === 'photo' && !mime.startsWith('image/')) throw createError({ status: 415, message: 'A photo is a JPEG, PNG, WebP or GIF image.' })
-  const sha256 = createHash('sha256').update(upload.data).digest('hex')
-  const storageKey = `deals/${ownerId}/${randomUUID()}`
-  await storage.setItemRaw(storageKey, Buffer.from(upload.data))
+/** Stores an upload that was already limited and sniffed, and records it for its owner. */
+export async function storeDealFile(db: Executor, storage: Storage, ownerId: number, upload: { name: string, bytes: Buffer, mime: string, sha256: string, storageKey: string, kind: DealFileKind }): Promise<UploadedFile> {
+  await storage.setItemRaw(upload.storageKey, upload.bytes)
   const name = upload.name.replace(/[\\/\0]/g, '_').slice(0, 255) || 'file'
-  const [row] = await db.insert(files).values({ ownerId, kind: upload.kind, mime, sizeBytes: upload.data.byteLength, sha256, storageKey, originalName: name }).$returningId()
-  return { id: row!.id, name, mime, sizeBytes: upload.data.byteLength }
+  const [row] = await db.insert(files).values({
+    ownerId, kind: upload.kind, mime: upload.mime, sizeBytes: upload.bytes.byteLength, sha256: upload.sha256, storageKey: upload.storageKey, originalName: name,
+  }).$returningId()
+  return { id: row!.id, name, mime: upload.mime, sizeBytes: upload.bytes.byteLength }
 }
 
 /** Checks that files are the user's own uploads of the given kinds and not yet attached anywhere; answers their ids. */

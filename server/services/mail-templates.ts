@@ -1,5 +1,5 @@
 // The deal e-mails, in Torquewright's own words, each as plain text and simple HTML.
-import { formatCents } from '../../shared/money'
+import { formatCents } from '#shared/money'
 
 export interface RenderedMail {
   subject: string
@@ -7,16 +7,16 @@ export interface RenderedMail {
   html: string
 }
 
-export type DealMail =
-  | { kind: 'new_request', shopName: string, racerName: string, title: string, link: string }
-  | { kind: 'new_message', recipientName: string, senderName: string, title: string, excerpt: string, link: string }
-  | { kind: 'quote_sent', racerName: string, shopName: string, title: string, totalCents: number, revision: number, validUntil: string, link: string }
-  | { kind: 'quote_accepted', shopName: string, racerName: string, title: string, totalCents: number, link: string }
-  | { kind: 'milestone_funded', recipientName: string, milestone: string, amountCents: number, title: string, link: string }
-  | { kind: 'milestone_submitted', racerName: string, shopName: string, milestone: string, autoApproveDays: number, link: string }
-  | { kind: 'milestone_approved', recipientName: string, milestone: string, automatic: boolean, link: string }
-  | { kind: 'milestone_released', shopName: string, milestone: string, payoutCents: number, feeCents: number, link: string }
-  | { kind: 'milestone_refunded', recipientName: string, milestone: string, amountCents: number, reason: string, link: string }
+export type DealMail
+  = | { kind: 'new_request', shopName: string, racerName: string, title: string, link: string }
+    | { kind: 'new_message', recipientName: string, senderName: string, title: string, excerpt: string, link: string }
+    | { kind: 'quote_sent', racerName: string, shopName: string, title: string, totalCents: number, revision: number, validUntil: string, link: string }
+    | { kind: 'quote_accepted', shopName: string, racerName: string, title: string, totalCents: number, link: string }
+    | { kind: 'milestone_funded', recipientName: string, milestone: string, amountCents: number, title: string, link: string }
+    | { kind: 'milestone_submitted', racerName: string, shopName: string, milestone: string, autoApproveDays: number, link: string }
+    | { kind: 'milestone_approved', recipientName: string, milestone: string, automatic: boolean, link: string }
+    | { kind: 'milestone_released', shopName: string, milestone: string, payoutCents: number, feeCents: number, link: string }
+    | { kind: 'milestone_refunded', recipientName: string, milestone: string, amountCents: number, reason: string, link: string }
 
 // The tokens of tailwind.config.ts (ink, paper, copper), written out because e-mail has no stylesheet.
 const INK = '#1d2230'

@@ -5,11 +5,11 @@
 import { and, asc, desc, eq, inArray, isNotNull, lte } from 'drizzle-orm'
 import { isError } from 'h3'
 import type { Storage } from 'unstorage'
-import { evaluateDelivery } from '../../shared/deals/delivery'
-import { parsePull } from '../../shared/engine/parse'
-import { isCorrectionStandard } from '../../shared/engine/correction'
-import type { DeliveryPullFields, SubmitMilestoneInput } from '../../shared/schemas/deals'
-import type { MilestoneView, OrderView } from '../../shared/types/deals'
+import { evaluateDelivery } from '#shared/deals/delivery'
+import { parsePull } from '#shared/engine/parse'
+import { isCorrectionStandard } from '#shared/engine/correction'
+import type { DeliveryPullFields, SubmitMilestoneInput } from '#shared/schemas/deals'
+import type { MilestoneView, OrderView } from '#shared/types/deals'
 import {
   builderProfiles, dealEvents, deliveryPulls, dynoPulls, files, milestoneProofs, milestones, orders, payments, quoteRequests,
   quoteRevisions, users, type Milestone, type Order,
@@ -20,6 +20,7 @@ import {
 } from './deal-context'
 import { claimFiles } from './deal-files'
 import { postEvent } from './deals'
+import { writeAudit } from './audit'
 import { enqueueMail } from './outbox'
 import { assertParty, lockMilestone, markReleased, refundHeld, transferRelease } from './payments'
 
@@ -169,6 +170,7 @@ export async function settleDispute(ctx: DealContext, actor: DealActor, mileston
   await ctx.db.transaction(async (tx) => {
     const { order, milestone } = await lockMilestone(tx, milestoneId)
     if (milestone.state !== 'disputed') throw conflict(`Only a disputed milestone is settled; this one is ${milestone.state.replace('_', ' ')}.`)
+    await writeAudit(tx, { actorId: actor.id, action: 'dispute.settle', entityType: 'milestone', entityId: milestoneId, before: { state: milestone.state }, after: { outcome }, note: note || null })
     await recordDealEvent(tx, { requestId: order.requestId, orderId: order.id, milestoneId, actorId: actor.id, action: 'dispute_settled', detail: `${outcome}${note ? `: ${note}` : ''}` })
     if (outcome === 'refund') await refundHeld(ctx, tx, order, milestone, `the dispute was settled in the racer's favour${note ? ` (${note})` : ''}.`, actor.id)
     else await approveLocked(ctx, tx, order, milestone, actor.id, false)
@@ -207,6 +209,7 @@ export async function cancelOrder(ctx: DealContext, actor: DealActor, orderId: n
       }
     }
     await tx.update(orders).set({ status: 'cancelled', cancelledAt: now, cancelledBy: actor.id }).where(eq(orders.id, orderId))
+    await writeAudit(tx, { actorId: actor.id, action: 'order.cancel', entityType: 'order', entityId: orderId, before: { status: order.status }, after: { status: 'cancelled', refundedCents }, note: reason })
     await recordDealEvent(tx, { requestId: order.requestId, orderId, actorId: actor.id, action: 'order_cancelled', detail: reason })
     await postEvent(tx, order.requestId, actor.id, `${actor.name} cancelled the order: ${reason}`, now)
     return { refundedCents }

@@ -2,7 +2,7 @@
 // by the drainer and retried with a growing wait, so none is lost while SMTP is down.
 import { and, asc, eq, inArray, isNull, lte, lt } from 'drizzle-orm'
 import { mailOutbox, type OutboxMail } from '../database/schema'
-import type { Database } from '../utils/db'
+import type { Database } from '../database/types'
 import type { Executor } from './deal-context'
 import { renderDealMail, type DealMail } from './mail-templates'
 

@@ -4,7 +4,7 @@
 import { and, desc, eq, inArray } from 'drizzle-orm'
 import { createError } from 'h3'
 import Stripe from 'stripe'
-import { CURRENCY } from '../../shared/money'
+import { CURRENCY } from '#shared/money'
 import {
   builderProfiles, milestones, orders, payments, payoutAccounts, stripeEvents, users, type Milestone, type Order,
 } from '../database/schema'
@@ -13,6 +13,7 @@ import {
   recordDealEvent,
 } from './deal-context'
 import { postEvent } from './deals'
+import { writeAudit } from './audit'
 import { enqueueMail } from './outbox'
 
 export interface StripeSettings {
@@ -202,6 +203,7 @@ async function onCheckoutCompleted(ctx: DealContext, tx: DbTransaction, session:
   if (!piId) return `rejected: session ${session.id} has no payment to refund`
   const refund = await ctx.stripe.refunds.create({ payment_intent: piId, reason: 'requested_by_customer', metadata: { milestone_id: String(milestone.id) } }, { idempotencyKey: `late-refund-${session.id}` })
   await tx.insert(payments).values({ milestoneId: milestone.id, kind: 'refund', status: 'succeeded', amountCents: refund.amount, stripePaymentIntentId: piId, stripeRefundId: refund.id, createdAt: now })
+  await writeAudit(tx, { actorId: null, action: 'payment.refund', entityType: 'milestone', entityId: milestone.id, after: { refund: refund.id, amountCents: refund.amount }, note: why })
   await recordDealEvent(tx, { requestId: order.requestId, orderId: order.id, milestoneId: milestone.id, action: 'payment_refunded', detail: `${refund.id}: ${why}` })
   const parties = await partiesOf(tx, order.requestId)
   await enqueueMail(tx, parties.racerEmail, {
@@ -316,6 +318,7 @@ export async function markReleased(ctx: DealContext, tx: DbTransaction, order: O
     await tx.insert(payments).values({ milestoneId: milestone.id, kind: 'transfer', status: 'succeeded', amountCents: transfer.amount, stripeTransferId: transfer.id, createdAt: now })
   }
   await tx.update(milestones).set({ state: 'released', releasedAt: now }).where(eq(milestones.id, milestone.id))
+  await writeAudit(tx, { actorId: null, action: 'milestone.release', entityType: 'milestone', entityId: milestone.id, before: { state: milestone.state }, after: { state: 'released', transfer: transfer.id, amountCents: transfer.amount } })
   await recordDealEvent(tx, { requestId: order.requestId, orderId: order.id, milestoneId: milestone.id, action: 'milestone_released', detail: `transfer ${transfer.id}` })
   await postEvent(tx, order.requestId, null, `"${milestone.title}" was paid out to the shop.`, now)
   const parties = await partiesOf(tx, order.requestId)
@@ -350,6 +353,7 @@ export async function refundHeld(ctx: DealContext, tx: DbTransaction, order: Ord
     await tx.insert(payments).values({ milestoneId: milestone.id, kind: 'refund', status: 'succeeded', amountCents: refund.amount, stripePaymentIntentId: funding.stripePaymentIntentId, stripeRefundId: refund.id, createdAt: now })
   }
   await tx.update(milestones).set({ state: 'refunded', refundedAt: now }).where(eq(milestones.id, milestone.id))
+  await writeAudit(tx, { actorId, action: 'milestone.refund', entityType: 'milestone', entityId: milestone.id, before: { state: milestone.state }, after: { state: 'refunded', refund: refund.id, amountCents: refund.amount }, note: reason })
   await recordDealEvent(tx, { requestId: order.requestId, orderId: order.id, milestoneId: milestone.id, actorId, action: 'milestone_refunded', detail: `${refund.id}: ${reason}` })
   await postEvent(tx, order.requestId, actorId, `The deposit for "${milestone.title}" was refunded: ${reason}`, now)
   const parties = await partiesOf(tx, order.requestId)
@@ -357,4 +361,3 @@ export async function refundHeld(ctx: DealContext, tx: DbTransaction, order: Ord
   await enqueueMail(tx, parties.racerEmail, { ...mail, recipientName: parties.racerName }, `refunded:${milestone.id}:racer`)
   await enqueueMail(tx, parties.builderEmail, { ...mail, recipientName: parties.shopName }, `refunded:${milestone.id}:builder`)
 }
-
