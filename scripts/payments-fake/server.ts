@@ -214,11 +214,23 @@ export async function createPaymentsFake(options: PaymentsFakeOptions): Promise<
   function handleControl(req: IncomingMessage, res: ServerResponse, url: URL) {
     if (url.pathname === '/_fake/health') return sendJson(res, 200, JSON.stringify({ ok: true }))
     if (url.pathname === '/_fake/deliveries' && req.method === 'GET') return sendJson(res, 200, JSON.stringify(webhooks.deliveries))
+    if (url.pathname === '/_fake/events' && req.method === 'GET') {
+      const list = [...ledger.events.values()].map(e => ({ id: e.id, type: e.type, created: e.created, objectId: (e.data.object as { id?: string }).id ?? null }))
+      return sendJson(res, 200, JSON.stringify(list))
+    }
+    if (url.pathname === '/_fake/webhooks/hold' && req.method === 'POST') {
+      webhooks.hold()
+      return sendJson(res, 200, JSON.stringify({ holding: true }))
+    }
+    if (url.pathname === '/_fake/webhooks/release' && req.method === 'POST') {
+      return sendJson(res, 200, JSON.stringify({ released: webhooks.release() }))
+    }
     const resend = url.pathname.match(/^\/_fake\/events\/([^/]+)\/resend$/)
     if (resend && req.method === 'POST') {
       const event = ledger.events.get(resend[1]!)
       if (!event) return sendJson(res, 404, JSON.stringify({ error: { type: 'invalid_request_error', message: 'No such event' } }))
-      webhooks.send(event)
+      // A resend goes out at once, even while other events are held.
+      webhooks.send(event, { now: true })
       return sendJson(res, 202, JSON.stringify({ resent: event.id }))
     }
     return sendJson(res, 404, JSON.stringify({ error: { type: 'invalid_request_error', message: 'No such control route' } }))

@@ -31,17 +31,33 @@ export class WebhookSender {
   private pending = new Set<ReturnType<typeof setTimeout>>()
   private inFlight = 0
   private closed = false
+  /** While held, new events wait here instead of going out (tests use it to deliver in an order of their choosing). */
+  private held: { delivery: Delivery, payload: string }[] | null = null
 
   constructor(private readonly options: WebhookSenderOptions) {}
 
-  send(event: FakeEvent): Delivery {
+  send(event: FakeEvent, options: { now?: boolean } = {}): Delivery {
     const delivery: Delivery = { eventId: event.id, type: event.type, attempts: 0, lastStatus: null, lastError: null, delivered: false }
     this.deliveries.push(delivery)
     if (!this.options.url) return delivery
     // Like the real service, pretty-printed JSON: the app must verify the bytes it received, not a re-serialisation.
     const payload = JSON.stringify(event, null, 2)
-    this.schedule(delivery, payload, 0)
+    if (this.held && !options.now) this.held.push({ delivery, payload })
+    else this.schedule(delivery, payload, 0)
     return delivery
+  }
+
+  /** Holds every new event until release(). */
+  hold() {
+    this.held ??= []
+  }
+
+  /** Sends what was held, in the order it was made, and stops holding. */
+  release() {
+    const queued = this.held ?? []
+    this.held = null
+    for (const { delivery, payload } of queued) this.schedule(delivery, payload, 0)
+    return queued.length
   }
 
   private schedule(delivery: Delivery, payload: string, waitMs: number) {

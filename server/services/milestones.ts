@@ -198,8 +198,8 @@ export async function cancelOrder(ctx: DealContext, actor: DealActor, orderId: n
         const open = await tx.select().from(payments).where(and(eq(payments.milestoneId, m.id), eq(payments.kind, 'checkout'), eq(payments.status, 'open')))
         for (const p of open) {
           // If the racer completes the page meanwhile, the completion event finds the milestone cancelled and refunds it.
-          await ctx.stripe.checkout.sessions.expire(p.stripeCheckoutSessionId!).catch(() => null)
-          await tx.update(payments).set({ status: 'expired' }).where(eq(payments.id, p.id))
+          const expired = await ctx.stripe.checkout.sessions.expire(p.stripeCheckoutSessionId!).then(() => true, () => false)
+          if (expired) await tx.update(payments).set({ status: 'expired' }).where(eq(payments.id, p.id))
         }
         await tx.update(milestones).set({ state: 'cancelled' }).where(eq(milestones.id, m.id))
       }

@@ -28,6 +28,7 @@ declare module 'vitest' {
   export interface ProvidedContext {
     baseUrl: string
     mailApiUrl: string
+    mailSmtpPort: number
     databaseUrl: string
     paymentsUrl: string
     paymentsKeys: { secretKey: string, webhookSecret: string }
@@ -71,6 +72,7 @@ export default async function setup(project: TestProject) {
 
   project.provide('baseUrl', `http://127.0.0.1:${port}`)
   project.provide('mailApiUrl', mail.apiUrl)
+  project.provide('mailSmtpPort', mail.smtpPort)
   project.provide('databaseUrl', url)
   project.provide('paymentsUrl', payments.url)
   project.provide('paymentsKeys', keys)
