@@ -1,6 +1,7 @@
 /**
  * Whether a delivery pull releases a guaranteed milestone: the pull must pass the automatic
- * evidence checks (no check fails), the engine must be inside the request's displacement cap, and
+ * evidence checks (no check fails, and the correction lies inside the standard's band), the engine
+ * must be inside the request's displacement cap, and
  * its peak power under the quoted standard must reach the guaranteed figure less the tolerance.
  */
 import { convertCurve, isCorrectionStandard } from '../engine/correction'
@@ -59,7 +60,9 @@ export function evaluateDelivery(input: DeliveryInput): DeliveryEvaluation {
     { points: input.points, declared: { standard: input.declaredStandard }, weather: input.weather, columns: input.columns ?? null },
     { aspiration: input.aspiration, displacementCi: displacement, strokeIn: input.strokeIn, fingerprintsOfOtherBuilds: input.fingerprintsOfOtherBuilds ?? [] },
   )
-  const reasons = checks.filter(c => c.outcome === 'fail').map(c => c.message)
+  // Money moves on this pull, so a correction outside the standard's allowed band (a warning on a
+  // listing) is refused here too: the figure under the quoted standard depends on it.
+  const reasons = checks.filter(c => c.outcome === 'fail' || (c.id === 'correction-factor' && c.outcome === 'warn')).map(c => c.message)
   if (input.displacementCapCi !== null && displacement > input.displacementCapCi + 1e-9) {
     reasons.push(`The engine displaces ${displacement.toFixed(1)} ci, over the ${input.displacementCapCi} ci cap of the request.`)
   }

@@ -206,7 +206,7 @@ describe('cancelling an order', () => {
 })
 
 describe('a guaranteed final milestone', () => {
-  // An invented curve: torque rising to ~585 lb·ft near 5,400 rpm, on a 427.7 ci V8 (4.125 × 4.000 in).
+  // An invented curve: torque rising to ~585 lb·ft near 5,400 rpm, on a 427.6 ci V8 (4.125 × 4.000 in).
   const curve = (scale: number) => {
     const rows = ['RPM,Torque (lb-ft),Power (hp)']
     for (let rpm = 3000; rpm <= 7200; rpm += 100) {
