@@ -1,10 +1,10 @@
 // Quote requests, quotes with their revisions, acceptance into an order, and the views of both.
 import { and, asc, desc, eq, inArray, isNull } from 'drizzle-orm'
-import { apportion, feeCents, formatCents, lineTotalCents, sumCents } from '#shared/money'
-import type { QuoteInput, QuoteRequestInput } from '#shared/schemas/deals'
+import { apportion, feeCents, formatCents, lineTotalCents, sumCents } from '../../shared/money'
+import type { QuoteInput, QuoteRequestInput } from '../../shared/schemas/deals'
 import type {
   DashboardOrderRow, DashboardRequestRow, DashboardView, QuoteRevisionView, QuoteView, RequestView,
-} from '#shared/types/deals'
+} from '../../shared/types/deals'
 import {
   builderProfiles, builds, files, milestones, orders, quoteLineItems, quoteMilestones, quoteRequests, quoteRevisions, quotes,
   requestAttachments, requestMessages, users, type QuoteRevision,

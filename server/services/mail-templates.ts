@@ -1,5 +1,5 @@
 // The deal e-mails, in Torquewright's own words, each as plain text and simple HTML.
-import { formatCents } from '#shared/money'
+import { formatCents } from '../../shared/money'
 
 export interface RenderedMail {
   subject: string

@@ -1,7 +1,7 @@
 // Request threads: messages both ways with attachments, how far each party has read, unread
 // counts, and an e-mail to the other party when they are not on the thread's page.
 import { and, asc, count, eq, gt, inArray, sql } from 'drizzle-orm'
-import type { MessageInput } from '#shared/schemas/deals'
+import type { MessageInput } from '../../shared/schemas/deals'
 import { files, messageReads, quoteRequests, requestAttachments, requestMessages, users } from '../database/schema'
 import { type DealActor, type DealContext, type Executor, notFound, partiesOf, requestVisibleTo, sideOf } from './deal-context'
 import { claimFiles } from './deal-files'

@@ -5,11 +5,11 @@
 import { and, asc, desc, eq, inArray, isNotNull, lte } from 'drizzle-orm'
 import { isError } from 'h3'
 import type { Storage } from 'unstorage'
-import { evaluateDelivery } from '#shared/deals/delivery'
-import { parsePull } from '#shared/engine/parse'
-import { isCorrectionStandard } from '#shared/engine/correction'
-import type { DeliveryPullFields, SubmitMilestoneInput } from '#shared/schemas/deals'
-import type { MilestoneView, OrderView } from '#shared/types/deals'
+import { evaluateDelivery } from '../../shared/deals/delivery'
+import { parsePull } from '../../shared/engine/parse'
+import { isCorrectionStandard } from '../../shared/engine/correction'
+import type { DeliveryPullFields, SubmitMilestoneInput } from '../../shared/schemas/deals'
+import type { MilestoneView, OrderView } from '../../shared/types/deals'
 import {
   builderProfiles, dealEvents, deliveryPulls, dynoPulls, files, milestoneProofs, milestones, orders, payments, quoteRequests,
   quoteRevisions, users, type Milestone, type Order,

@@ -4,7 +4,7 @@
 import { and, desc, eq, inArray } from 'drizzle-orm'
 import { createError } from 'h3'
 import Stripe from 'stripe'
-import { CURRENCY } from '#shared/money'
+import { CURRENCY } from '../../shared/money'
 import {
   builderProfiles, milestones, orders, payments, payoutAccounts, stripeEvents, users, type Milestone, type Order,
 } from '../database/schema'

@@ -122,3 +122,10 @@ export const deliveryPullFieldsSchema = z.object({
   cylinders: z.coerce.number({ error: 'The cylinder count is a number' }).int('The cylinder count is a whole number').min(1).max(16, 'At most 16 cylinders'),
 })
 export type DeliveryPullFields = z.infer<typeof deliveryPullFieldsSchema>
+
+export const uploadQuery = z.object({
+  kind: z.enum(['attachment', 'photo', 'proof', 'pull'], { error: 'kind is attachment, photo, proof or pull' }),
+  name: z.string().trim().min(1, 'name is the file\'s name').max(255, 'name is at most 255 characters'),
+})
+
+export const deliveryPullSchema = deliveryPullFieldsSchema.extend({ fileId: idSchema })

@@ -1,0 +1,11 @@
+import { idParams } from '#shared/schemas/common'
+import { settleSchema } from '#shared/schemas/deals'
+import { settleDispute } from '../../../services/milestones'
+
+/** An admin settles a dispute by refund or release. */
+export default defineEventHandler(async (event) => {
+  const actor = await requireDealActor(event)
+  const { id } = await getValidatedRouterParams(event, validator(idParams))
+  const { outcome, note } = await readValidatedBody(event, validator(settleSchema))
+  return settleDispute(useDealContext(), actor, id, outcome, note)
+})

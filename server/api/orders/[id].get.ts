@@ -1,0 +1,9 @@
+import { idParams } from '#shared/schemas/common'
+import { getOrderView } from '../../services/milestones'
+
+/** An order with its milestone tracker, payments, documents and history; its parties (and admins) only. */
+export default defineEventHandler(async (event) => {
+  const actor = await requireDealActor(event)
+  const { id } = await getValidatedRouterParams(event, validator(idParams))
+  return getOrderView(useDealContext(), actor, id)
+})

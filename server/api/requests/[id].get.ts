@@ -1,0 +1,9 @@
+import { idParams } from '#shared/schemas/common'
+import { getRequestView } from '../../services/deals'
+
+/** One request with its quote (every revision) and order; its parties only (404 for anyone else). */
+export default defineEventHandler(async (event) => {
+  const actor = await requireDealActor(event)
+  const { id } = await getValidatedRouterParams(event, validator(idParams))
+  return getRequestView(useDealContext(), actor, id)
+})
