@@ -1,7 +1,7 @@
-import { CORRECTION_STANDARDS } from '../shared/engine/types'
+import { CORRECTION_STANDARDS } from '#shared/engine/types'
 
 /** Display helpers for the deal pages; amounts stay integer cents until formatCents. */
-export { formatCents, centsToDecimal, parseMoney } from '../shared/money'
+export { formatCents, centsToDecimal, parseMoney } from '#shared/money'
 
 export function standardLabel(id: string | null | undefined): string {
   return CORRECTION_STANDARDS.find(s => s.id === id)?.label ?? (id ?? '—')
@@ -25,4 +25,4 @@ export function formatBytes(n: number): string {
   return n < 1024 ? `${n} B` : n < 1024 * 1024 ? `${(n / 1024).toFixed(0)} KB` : `${(n / 1024 / 1024).toFixed(1)} MB`
 }
 
-export { REQUEST_STATUS_LABELS as REQUEST_STATUS_TEXT, MILESTONE_STATE_LABELS as MILESTONE_STATE_TEXT, ORDER_STATUS_LABELS as ORDER_STATUS_TEXT } from '../shared/deals/constants'
+export { REQUEST_STATUS_LABELS as REQUEST_STATUS_TEXT, MILESTONE_STATE_LABELS as MILESTONE_STATE_TEXT, ORDER_STATUS_LABELS as ORDER_STATUS_TEXT } from '#shared/deals/constants'

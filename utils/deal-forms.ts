@@ -1,5 +1,5 @@
-import type { QuoteRequestInput } from '../shared/schemas/deals'
-import { parseMoney } from '../shared/money'
+import type { QuoteRequestInput } from '#shared/schemas/deals'
+import { parseMoney } from '#shared/money'
 
 /** The request form as typed (every field text), and how it becomes the route's body. */
 export interface TargetFields { targetHp: string, targetTq: string, targetStandard: string, displacementCapCi: string }

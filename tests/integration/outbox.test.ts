@@ -2,18 +2,24 @@
 // drainers never send one mail twice. Sent over real SMTP (nodemailer) to the tests' mail catcher.
 // The rows here are scheduled far in the future so the app's own drainer leaves them to the test.
 import { randomUUID } from 'node:crypto'
-import { eq, inArray } from 'drizzle-orm'
+import { and, count, eq, inArray, isNull, lt } from 'drizzle-orm'
 import { createTransport } from 'nodemailer'
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
 import type { Database } from '../../server/database/types'
 import { MAX_ATTEMPTS, drainOutbox, enqueueMail, retryDelayMs, type OutgoingMail } from '../../server/services/outbox'
 import { mailFor } from '../support/context'
 import { dealTestContext, schema } from '../support/deals'
+import { eventually } from '../support/payments'
 
 let db: Database
 let close: () => Promise<void>
 beforeAll(async () => {
   ({ db, close } = await dealTestContext())
+  // Earlier files leave mail for the app's drainer; wait until it has sent it, so what is due here is ours alone.
+  await eventually('the app\'s outbox to empty', async () => {
+    const [left] = await db.select({ n: count() }).from(schema.mailOutbox).where(and(isNull(schema.mailOutbox.sentAt), lt(schema.mailOutbox.attempts, MAX_ATTEMPTS)))
+    return left!.n === 0
+  }, 90_000)
 })
 afterAll(async () => {
   await close()
