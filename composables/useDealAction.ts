@@ -25,3 +25,8 @@ export function useDealAction() {
   }
   return { pending, error, run }
 }
+
+/** POSTs JSON to a deal route. The address is a plain string, so the typed-routes inference stays shallow. */
+export function dealPost<T = unknown>(url: string, body?: unknown): Promise<T> {
+  return $fetch<T>(url, { method: 'POST', body: body as Record<string, unknown> | undefined }) as unknown as Promise<T>
+}

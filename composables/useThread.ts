@@ -16,7 +16,8 @@ export function useThread(requestId: MaybeRefOrGetter<number>) {
 
   async function poll() {
     try {
-      const res = await $fetch<{ messages: ThreadMessageView[], lastId: number }>(`/api/requests/${toValue(requestId)}/messages`, { query: { after: lastId.value } })
+      const url: string = `/api/requests/${toValue(requestId)}/messages`
+      const res = await $fetch<{ messages: ThreadMessageView[], lastId: number }>(url, { query: { after: lastId.value } })
       const known = new Set(messages.value.map(m => m.id))
       messages.value.push(...res.messages.filter(m => !known.has(m.id)))
       lastId.value = Math.max(lastId.value, res.lastId)

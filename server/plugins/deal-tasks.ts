@@ -15,7 +15,7 @@ export default defineNitroPlugin((nitroApp) => {
     if (draining || !c.databaseUrl) return
     draining = true
     try {
-      await drainOutbox(useDb(), sendOutboxMail)
+      await drainOutbox(useDb(), sendMail)
     }
     catch (error) {
       log('draining the outbox failed', error)

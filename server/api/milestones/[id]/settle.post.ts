@@ -4,8 +4,9 @@ import { settleDispute } from '../../../services/milestones'
 
 /** An admin settles a dispute by refund or release. */
 export default defineEventHandler(async (event) => {
-  const actor = await requireDealActor(event)
+  await requireRole(event, 'admin')
   const { id } = await getValidatedRouterParams(event, validator(idParams))
+  const { actor } = await requireMilestoneAccess(event, id)
   const { outcome, note } = await readValidatedBody(event, validator(settleSchema))
   return settleDispute(useDealContext(), actor, id, outcome, note)
 })

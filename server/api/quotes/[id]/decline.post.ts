@@ -4,8 +4,9 @@ import { declineQuote } from '../../../services/deals'
 
 /** The racer declines the current revision. */
 export default defineEventHandler(async (event) => {
-  const actor = await requireDealActor(event)
+  await requireUser(event)
   const { id } = await getValidatedRouterParams(event, validator(idParams))
+  const { actor } = await requireQuoteAccess(event, id, 'racer')
   const { reason } = await readValidatedBody(event, validator(declineQuoteSchema))
   await declineQuote(useDealContext(), actor, id, reason)
   return { ok: true }

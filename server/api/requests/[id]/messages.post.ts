@@ -4,8 +4,9 @@ import { postMessage } from '../../../services/messages'
 
 /** A message on the thread, from either party, with optional attachments. */
 export default defineEventHandler(async (event) => {
-  const actor = await requireDealActor(event)
+  await requireUser(event)
   const { id } = await getValidatedRouterParams(event, validator(idParams))
+  const { actor } = await requireRequestAccess(event, id, 'party')
   const input = await readValidatedBody(event, validator(messageSchema))
   setResponseStatus(event, 201)
   return postMessage(useDealContext(), actor, id, input)
