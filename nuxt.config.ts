@@ -23,6 +23,16 @@ export default defineNuxtConfig({
     uploadsDir: '',
     // NUXT_TRUST_PROXY=1 behind a load balancer: rate limits then key on its X-Forwarded-For entry.
     trustProxy: '',
+    // Payments: the SDK talks to the local fake when a host is set, to Stripe itself when not (README, Payments).
+    stripeSecretKey: '',
+    stripeWebhookSecret: '',
+    stripeApiHost: '',
+    stripeApiPort: '',
+    stripeApiProtocol: '',
+    platformFeeBps: 500,
+    autoApproveDays: 7,
+    dealTaskIntervalMs: 10 * 60_000,
+    outboxIntervalMs: 2000,
     public: { appName: 'Torquewright', siteUrl: '' },
   },
   dir: { shared: 'shared' },

@@ -3,6 +3,7 @@ import { randomBytes, createHash } from 'node:crypto'
 import { existsSync, mkdirSync, readdirSync, readFileSync, statSync, writeFileSync } from 'node:fs'
 import { join, resolve } from 'node:path'
 import { databaseUrl, type ServiceConfig } from './config'
+import { stripeEnvForFake, type PaymentsKeys } from './payments'
 import { run, waitFor } from './process'
 
 const SOURCE_ENTRIES = ['app.vue', 'error.vue', 'nuxt.config.ts', 'tailwind.config.ts', 'package-lock.json', 'assets', 'components', 'composables', 'layouts', 'middleware', 'pages', 'plugins', 'public', 'search', 'server', 'shared', 'stores', 'utils']
@@ -52,6 +53,8 @@ export interface AppEnvOptions {
   port: number
   smtpPort: number
   uploadsDir: string
+  /** The payments fake the app's Stripe client talks to; ignored when real Stripe keys are set in the environment. */
+  payments?: { port: number, keys: PaymentsKeys }
   extra?: Record<string, string>
 }
 
@@ -73,6 +76,8 @@ export function appEnv(cfg: ServiceConfig, opts: AppEnvOptions): NodeJS.ProcessE
     NUXT_SMTP_HOST: '127.0.0.1',
     NUXT_SMTP_PORT: String(opts.smtpPort),
     NUXT_UPLOADS_DIR: opts.uploadsDir,
+    // With NUXT_STRIPE_SECRET_KEY set by hand the same code talks to Stripe's test mode instead.
+    ...(opts.payments && !process.env.NUXT_STRIPE_SECRET_KEY ? stripeEnvForFake(opts.payments.port, opts.payments.keys) : {}),
     ...opts.extra,
   }
 }

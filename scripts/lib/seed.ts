@@ -9,6 +9,7 @@ import { evaluatePull } from '../../shared/pulls/evaluate'
 import type { EvidenceCheck } from '../../shared/engine/types'
 import type { PullSummaryFigures } from '../../shared/pulls/summary'
 import * as schema from '../../server/database/schema'
+import { seedDemoDeals } from './seed-deals'
 import { DEMO_ADMIN, DEMO_PASSWORD, DEMO_RACERS, DEMO_SHOPS, demoBuilds, pullCsv, type DemoPull } from './demo-data'
 
 const { builderProfiles, buildParts, builds, dynoPulls, files, users } = schema
@@ -118,6 +119,7 @@ export async function seedDemo(opts: { url: string, uploadsDir: string }): Promi
       })
       created++
     }
+    await seedDemoDeals(db)
     return { builds: all.length, created }
   }
   finally {
