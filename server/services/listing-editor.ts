@@ -13,11 +13,28 @@ export interface ShopRef {
   userId: number
 }
 
+type BuildListener = (buildId: number) => Promise<unknown>
+const listeners: BuildListener[] = []
+
+/** Registers work to run after a build changes (the search plugin keeps the index in step through it). */
+export function onBuildChanged(listener: BuildListener): void {
+  listeners.push(listener)
+}
+
 /**
  * Called after every write that changes a build or its pulls, once the transaction has committed.
- * The search index keeps itself in step through this hook (the search work fills it in).
+ * A listener's failure is logged, never passed on: the write itself has already succeeded.
  */
-export async function afterBuildChanged(_buildId: number): Promise<void> {}
+export async function afterBuildChanged(buildId: number): Promise<void> {
+  for (const listener of listeners) {
+    try {
+      await listener(buildId)
+    }
+    catch (err) {
+      console.error(`after change of build ${buildId}:`, err)
+    }
+  }
+}
 
 const EDITABLE_COLUMNS = ['title', ...REQUIRED_FOR_PUBLISH, 'injectorSizeLbHr', 'injectorCount'] as const satisfies (keyof EditorFields)[]
 
