@@ -10,6 +10,7 @@ import { builderProfiles, buildParts, builds, dynoPulls, files, type Build, type
 import type { Database } from '../database/types'
 import { readUploadText } from '../utils/storage'
 import type { ReadStoredText } from './curves'
+import { asPublished } from './listings'
 
 /** The one index of this server process: swapped whole by a rebuild, changed in place by syncBuild. */
 let current: SearchIndex = createSearchIndex()
@@ -96,7 +97,8 @@ async function figuresOf(read: ReadStoredText, pull: PullWithFile | undefined) {
   }
 }
 
-function documentOf(build: Build, shop: BuilderProfile, parts: string[], figures: Awaited<ReturnType<typeof figuresOf>>, stamp: string): SearchDocument {
+function documentOf(row: Build, shop: BuilderProfile, parts: string[], figures: Awaited<ReturnType<typeof figuresOf>>, stamp: string): SearchDocument {
+  const build = asPublished(row)
   return {
     id: build.id,
     slug: build.slug,

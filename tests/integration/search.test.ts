@@ -34,7 +34,7 @@ describe('GET /api/search over the seeded builds', () => {
 
   it('filters by displacement computed from bore, stroke and cylinders', async () => {
     const rows = await published()
-    const cis = rows.map(r => ({ slug: r.slug, ci: displacementCi(r.boreIn, r.strokeIn, r.cylinders) }))
+    const cis = rows.map(r => ({ slug: r.slug, ci: displacementCi(r.boreIn!, r.strokeIn!, r.cylinders!) }))
     const res = await api('/api/search?ciMin=400&ciMax=500&perPage=100')
     expect(res.status).toBe(200)
     const expected = cis.filter(c => c.ci >= 400 && c.ci <= 500).map(c => c.slug).sort()
@@ -45,7 +45,7 @@ describe('GET /api/search over the seeded builds', () => {
   it('ORs repeated values within a field and ANDs the fields, with facets that add up to the total', async () => {
     const rows = await published()
     const res = await api('/api/search?aspiration=na&aspiration=turbo&fuel=e85&perPage=100')
-    const expected = rows.filter(r => ['na', 'turbo'].includes(r.aspiration) && r.fuel === 'e85')
+    const expected = rows.filter(r => ['na', 'turbo'].includes(r.aspiration!) && r.fuel === 'e85')
     expect(res.body.total).toBe(expected.length)
     for (const counts of Object.values(res.body.facets) as Record<string, number>[]) {
       expect(Object.values(counts).reduce((a, b) => a + b, 0)).toBe(res.body.total)
@@ -151,7 +151,7 @@ describe('keeping the index in step with MariaDB', () => {
   it('a verified pull gives the build its recomputed figures and curve in the index', async () => {
     const [build] = await ctx.db.select().from(schema.builds).where(and(eq(schema.builds.status, 'published'), isNotNull(schema.builds.verifiedAt))).limit(1)
     await sync(build!.id)
-    const res = await api(`/api/search?ciMin=${displacementCi(build!.boreIn, build!.strokeIn, build!.cylinders) - 0.001}&ciMax=${displacementCi(build!.boreIn, build!.strokeIn, build!.cylinders) + 0.001}&bandFrom=4000&bandTo=5000`)
+    const res = await api(`/api/search?ciMin=${displacementCi(build!.boreIn!, build!.strokeIn!, build!.cylinders!) - 0.001}&ciMax=${displacementCi(build!.boreIn!, build!.strokeIn!, build!.cylinders!) + 0.001}&bandFrom=4000&bandTo=5000`)
     const hit = res.body.hits.find((h: { slug: string }) => h.slug === build!.slug)
     expect(hit.peakHp).toBeGreaterThan(0)
     expect(hit.bandAvgHp).toBeGreaterThan(0)
@@ -188,7 +188,7 @@ describe('GET /api/builders/for-target', () => {
   it('ranks shops by their verified builds near the target', async () => {
     const rows = (await published()).filter(r => r.verifiedAt !== null && r.peakHp !== null)
     const pick = rows[0]!
-    const ci = displacementCi(pick.boreIn, pick.strokeIn, pick.cylinders)
+    const ci = displacementCi(pick.boreIn!, pick.strokeIn!, pick.cylinders!)
     const res = await api(`/api/builders/for-target?ci=${ci.toFixed(1)}&hp=${pick.peakHp}&aspiration=${pick.aspiration}`)
     expect(res.status).toBe(200)
     expect(res.body.shops.length).toBeGreaterThan(0)
@@ -196,7 +196,7 @@ describe('GET /api/builders/for-target', () => {
     expect(res.body.shops.map((s: { builder: { slug: string } }) => s.builder.slug)).toContain(shop!.slug)
     const scores = res.body.shops.map((s: { score: number }) => s.score)
     expect(scores).toEqual([...scores].sort((a: number, b: number) => b - a))
-    const near = rows.filter(r => r.aspiration === pick.aspiration && Math.abs(displacementCi(r.boreIn, r.strokeIn, r.cylinders) - ci) <= 0.1 * ci && Math.abs(r.peakHp! - pick.peakHp!) <= 0.15 * pick.peakHp!)
+    const near = rows.filter(r => r.aspiration === pick.aspiration && Math.abs(displacementCi(r.boreIn!, r.strokeIn!, r.cylinders!) - ci) <= 0.1 * ci && Math.abs(r.peakHp! - pick.peakHp!) <= 0.15 * pick.peakHp!)
     const shopIds = await ctx.db.select().from(schema.builderProfiles).where(inArray(schema.builderProfiles.id, near.map(r => r.builderId)))
     expect(res.body.shops.length).toBe(Math.min(5, shopIds.length))
   })
