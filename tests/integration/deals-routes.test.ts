@@ -126,7 +126,7 @@ describe('paying over HTTP', () => {
 describe('attachments', () => {
   const pdf = Buffer.from('%PDF-1.4\n1 0 obj <<>> endobj\ntrailer <<>>\n%%EOF\n')
   const upload = (bytes: Buffer, kind: string, who: CookieJar, name = 'rules.pdf') =>
-    api(`/api/attachments?kind=${kind}&name=${name}`, { method: 'POST', headers: as(who, address, { 'content-type': 'application/octet-stream' }), body: bytes })
+    api(`/api/attachments?kind=${kind}&name=${name}`, { method: 'POST', headers: as(who, address, { 'content-type': 'application/octet-stream' }), body: new Uint8Array(bytes) })
 
   it('takes a sniffed PDF, attaches it to a message, and lets only the parties download it', async () => {
     const id = await newRequest()
