@@ -1,7 +1,7 @@
 import { createError } from 'h3'
 import { and, asc, count, desc, eq, inArray, ne } from 'drizzle-orm'
 import {
-  FINGERPRINT_TOLERANCE, convertCurve, displacementCi, evidenceOutcome, fingerprintDistance, parsePull, peaks, torqueAt,
+  CORRECTION_STANDARDS, FINGERPRINT_TOLERANCE, convertCurve, displacementCi, evidenceOutcome, fingerprintDistance, parsePull, peaks, torqueAt,
   type CorrectionStandard, type EvidenceCheck, type EvidenceOutcome, type PullPoint,
 } from '../../shared/engine'
 import { LISTING_STANDARD } from '../../shared/pulls/summary'
@@ -15,6 +15,7 @@ type Tx = Parameters<Parameters<Database['transaction']>[0]>[0]
 export type ReadStoredText = (storageKey: string) => Promise<string | null>
 
 const one = (n: number) => Math.round(n * 10) / 10
+const standardLabel = (id: string) => CORRECTION_STANDARDS.find(s => s.id === id)?.label ?? id
 /** The review page shows the first lines of the raw file; the whole file is a download. */
 const PREVIEW_LINES = 60
 /** A chart of more points than this shows every n-th sample (the raw values, not interpolated ones). */
@@ -173,8 +174,8 @@ export async function evidenceReview(db: Database, read: ReadStoredText, pullId:
   const duplicates = await linksFor(db, found)
 
   const curves = [
-    curveOf(`As filed (${declaredStandard})`, declaredStandard, points),
-    ...(declaredStandard === LISTING_STANDARD ? [] : [curveOf(`Under ${normalised.uncorrected ? 'no correction' : LISTING_STANDARD}`, normalised.uncorrected ? 'UNCORRECTED' : LISTING_STANDARD, normalised.points)]),
+    curveOf(`As filed (${standardLabel(declaredStandard)})`, declaredStandard, points),
+    ...(declaredStandard === LISTING_STANDARD ? [] : [curveOf(normalised.uncorrected ? 'Uncorrected (no weather)' : `Under ${standardLabel(LISTING_STANDARD)}`, normalised.uncorrected ? 'UNCORRECTED' : LISTING_STANDARD, normalised.points)]),
   ]
   const nearest = matches[0]
   if (nearest) {
