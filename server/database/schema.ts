@@ -211,6 +211,8 @@ export const auditLog = mysqlTable('audit_log', {
   index('audit_log_entity_idx').on(t.entityType, t.entityId),
   index('audit_log_created_idx').on(t.createdAt),
   index('audit_log_actor_idx').on(t.actorId),
+  // The admin page filters by action and lists the actions on record.
+  index('audit_log_action_idx').on(t.action, t.createdAt),
 ])
 
 export type AuditEntry = typeof auditLog.$inferSelect
