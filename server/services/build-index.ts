@@ -1,8 +1,10 @@
 import type { Database } from '../database/types'
+import { afterBuildChanged } from './listing-editor'
 
 /**
  * Keeps the search index in step after an admin changed a build (a verification, a rejection, an
- * unpublish), once the change has committed. The one call site for the admin's changes: the search
- * work's `syncBuild(db, buildId)` (server/services/search.ts) belongs here once it is on main.
+ * unpublish), once the change has committed: the same hook every listing write goes through.
  */
-export async function reindexBuildAfterAdminChange(_db: Database, _buildId: number): Promise<void> {}
+export async function reindexBuildAfterAdminChange(_db: Database, buildId: number): Promise<void> {
+  await afterBuildChanged(buildId)
+}
