@@ -50,40 +50,126 @@ export class Dictionary {
   }
 }
 
-/** Linear interpolation of the curve at `base` at fractional grid index x (x ≤ last). */
-function valueAtGrid(curves: Float32Array, base: number, last: number, x: number): number {
+/** Linear interpolation at fractional grid index x (x ≤ last) of a curve whose grid point k sits at values[base + k]. */
+function valueAtGrid(values: Float32Array, base: number, last: number, x: number): number {
   const k = Math.min(Math.floor(x), last - 1)
-  const y0 = curves[base + k] as number
-  return y0 + ((curves[base + k + 1] as number) - y0) * (x - k)
+  const y0 = values[base + k] as number
+  return y0 + ((values[base + k + 1] as number) - y0) * (x - k)
 }
 
 /**
- * Mean power over [fromRpm, toRpm] of a slot's curve on the grid, by the trapezoid rule over its
- * linear interpolant; NaN when the curve does not cover the whole band. `areas` holds the running
- * trapezoid area from the curve's first grid point, so the cost does not grow with the band.
+ * Power curves on the rpm grid, each stored only over the grid points its pull covers, in one
+ * append-only arena (compacted when removed curves make up most of it), with the running
+ * trapezoid area beside every value so a band average costs the same for any band.
  */
-export function bandAverageOnGrid(curves: Float32Array, areas: Float32Array, slot: number, first: number, last: number, fromRpm: number, toRpm: number): number {
-  if (first < 0) return Number.NaN
-  const a = (fromRpm - CURVE_MIN_RPM) / CURVE_STEP_RPM
-  const b = (toRpm - CURVE_MIN_RPM) / CURVE_STEP_RPM
-  if (a < first || b > last || b <= a) return Number.NaN
-  const base = slot * CURVE_POINTS
-  const ka = Math.min(Math.floor(a), last - 1)
-  const kb = Math.min(Math.floor(b), last - 1)
-  const ya = valueAtGrid(curves, base, last, a)
-  const yb = valueAtGrid(curves, base, last, b)
-  const areaA = (areas[base + ka] as number) + (((curves[base + ka] as number) + ya) / 2) * (a - ka)
-  const areaB = (areas[base + kb] as number) + (((curves[base + kb] as number) + yb) / 2) * (b - kb)
-  return (areaB - areaA) / (b - a)
-}
+export class CurveStore {
+  private values = new Float32Array(1 << 16)
+  private areas = new Float32Array(1 << 16)
+  private length = 0
+  private garbage = 0
+  private base = new Int32Array(0)
+  private first = new Int16Array(0)
+  private last = new Int16Array(0)
 
-/** Writes the running trapezoid areas of a slot's curve between grid points first and last. */
-export function fillAreas(curves: Float32Array, areas: Float32Array, slot: number, first: number, last: number): void {
-  const base = slot * CURVE_POINTS
-  let area = 0
-  for (let k = first; k <= last; k++) {
-    if (k > first) area += ((curves[base + k - 1] as number) + (curves[base + k] as number)) / 2
-    areas[base + k] = area
+  reserve(slots: number): void {
+    if (slots <= this.base.length) return
+    const previous = this.base.length
+    this.base = grown(this.base, slots)
+    this.first = grown(this.first, slots)
+    this.first.fill(-1, previous)
+    this.last = grown(this.last, slots)
+    this.last.fill(-1, previous)
+  }
+
+  reset(): void {
+    this.length = 0
+    this.garbage = 0
+    this.first.fill(-1)
+    this.last.fill(-1)
+  }
+
+  /** Forgets a slot's curve. */
+  clear(slot: number): void {
+    const first = this.first[slot] as number
+    if (first >= 0) this.garbage += (this.last[slot] as number) - first + 1
+    this.first[slot] = -1
+    this.last[slot] = -1
+  }
+
+  /** Stores hp values for grid points start, start + 1, … (points outside the grid are dropped). */
+  set(slot: number, start: number, hp: readonly number[]): void {
+    this.clear(slot)
+    const first = Math.max(0, start)
+    const last = Math.min(CURVE_POINTS - 1, start + hp.length - 1)
+    if (last < first) return
+    const n = last - first + 1
+    if (this.length + n > this.values.length) this.makeRoom(n)
+    const offset = this.length
+    let area = 0
+    for (let k = first; k <= last; k++) {
+      const v = hp[k - start] as number
+      if (k > first) area += ((this.values[offset + k - first - 1] as number) + v) / 2
+      this.values[offset + k - first] = v
+      this.areas[offset + k - first] = area
+    }
+    this.length += n
+    this.base[slot] = offset - first
+    this.first[slot] = first
+    this.last[slot] = last
+  }
+
+  private makeRoom(n: number): void {
+    const live = this.length - this.garbage
+    const size = Math.max(this.values.length, (live + n) * 2)
+    const values = this.garbage > this.length / 2 ? new Float32Array(size) : grown(this.values, size)
+    const areas = this.garbage > this.length / 2 ? new Float32Array(size) : grown(this.areas, size)
+    if (this.garbage > this.length / 2) {
+      let w = 0
+      for (let slot = 0; slot < this.first.length; slot++) {
+        const first = this.first[slot] as number
+        if (first < 0) continue
+        const count = (this.last[slot] as number) - first + 1
+        const from = (this.base[slot] as number) + first
+        values.set(this.values.subarray(from, from + count), w)
+        areas.set(this.areas.subarray(from, from + count), w)
+        this.base[slot] = w - first
+        w += count
+      }
+      this.length = w
+      this.garbage = 0
+    }
+    this.values = values
+    this.areas = areas
+  }
+
+  /** A slot's curve as stored, or null. */
+  get(slot: number): { startRpm: number, hp: number[] } | null {
+    const first = this.first[slot] as number
+    if (first < 0) return null
+    const from = (this.base[slot] as number) + first
+    return { startRpm: CURVE_MIN_RPM + first * CURVE_STEP_RPM, hp: Array.from(this.values.subarray(from, from + (this.last[slot] as number) - first + 1)) }
+  }
+
+  /**
+   * Mean power over [fromRpm, toRpm] by the trapezoid rule over the curve's linear interpolant;
+   * NaN when the pull does not cover the whole band.
+   */
+  average(slot: number, fromRpm: number, toRpm: number): number {
+    const first = this.first[slot] as number
+    if (first < 0) return Number.NaN
+    const last = this.last[slot] as number
+    const a = (fromRpm - CURVE_MIN_RPM) / CURVE_STEP_RPM
+    const b = (toRpm - CURVE_MIN_RPM) / CURVE_STEP_RPM
+    if (a < first || b > last || b <= a) return Number.NaN
+    const base = this.base[slot] as number
+    const values = this.values
+    const ka = Math.min(Math.floor(a), last - 1)
+    const kb = Math.min(Math.floor(b), last - 1)
+    const ya = valueAtGrid(values, base, last, a)
+    const yb = valueAtGrid(values, base, last, b)
+    const areaA = (this.areas[base + ka] as number) + (((values[base + ka] as number) + ya) / 2) * (a - ka)
+    const areaB = (this.areas[base + kb] as number) + (((values[base + kb] as number) + yb) / 2) * (b - kb)
+    return (areaB - areaA) / (b - a)
   }
 }
 

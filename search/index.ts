@@ -5,10 +5,10 @@
  * the unit tests and the bench all use this same module. See README "Search".
  */
 import { MAX_RESULT_WINDOW } from '../shared/schemas/search'
-import { bandAverageOnGrid, Dictionary, fillAreas, grown, TopK } from './columns'
+import { CurveStore, Dictionary, grown, TopK } from './columns'
 import { TextIndex } from './text'
 import {
-  ASPIRATIONS, CURVE_MIN_RPM, CURVE_POINTS, CURVE_STEP_RPM, FUELS, USES,
+  ASPIRATIONS, CURVE_MIN_RPM, CURVE_STEP_RPM, FUELS, USES,
   type IndexedEntry, type SearchDocument, type SearchFacets, type SearchHit, type SearchIndex, type SearchQuery, type SearchResult, type SearchSort,
 } from './types'
 
@@ -64,10 +64,7 @@ class EmbeddedIndex implements SearchIndex {
   private nextSlot = 0
   private stored: (Stored | undefined)[] = []
   private positionOfSlot = new Int32Array(0)
-  private curves = new Float32Array(0)
-  private areas = new Float32Array(0)
-  private curveFirst = new Int16Array(0)
-  private curveLast = new Int16Array(0)
+  private curves = new CurveStore()
   private cols: Columns = positionColumns(0)
   private families = new Dictionary()
   private regions = new Dictionary()
@@ -81,10 +78,7 @@ class EmbeddedIndex implements SearchIndex {
     if (slots <= this.capacity) return
     const size = Math.max(slots, this.capacity * 2, 64)
     this.positionOfSlot = grown(this.positionOfSlot, size)
-    this.curves = grown(this.curves, size * CURVE_POINTS)
-    this.areas = grown(this.areas, size * CURVE_POINTS)
-    this.curveFirst = grown(this.curveFirst, size)
-    this.curveLast = grown(this.curveLast, size)
+    this.curves.reserve(size)
     for (const key of Object.keys(this.cols) as (keyof Columns)[]) {
       (this.cols as Record<keyof Columns, Columns[keyof Columns]>)[key] = grown(this.cols[key], size)
     }
@@ -107,28 +101,10 @@ class EmbeddedIndex implements SearchIndex {
       aspiration: doc.aspiration, fuel: doc.fuel, verified: doc.verified, priceCents: doc.priceCents,
       publishedAt: doc.publishedAt, stamp: doc.stamp,
     }
-    const base = slot * CURVE_POINTS
-    this.curves.fill(0, base, base + CURVE_POINTS)
-    this.curveFirst[slot] = -1
-    this.curveLast[slot] = -1
-    const curve = doc.curve
-    if (curve && curve.hp.length > 0) {
-      const start = Math.round((curve.startRpm - CURVE_MIN_RPM) / CURVE_STEP_RPM)
-      let first = -1
-      let last = -1
-      for (let k = 0; k < curve.hp.length; k++) {
-        const g = start + k
-        if (g < 0 || g >= CURVE_POINTS) continue
-        this.curves[base + g] = curve.hp[k] as number
-        if (first < 0) first = g
-        last = g
-      }
-      this.curveFirst[slot] = first
-      this.curveLast[slot] = last
-      if (first >= 0) fillAreas(this.curves, this.areas, slot, first, last)
-    }
+    if (doc.curve && doc.curve.hp.length > 0) this.curves.set(slot, Math.round((doc.curve.startRpm - CURVE_MIN_RPM) / CURVE_STEP_RPM), doc.curve.hp)
+    else this.curves.clear(slot)
     this.text.add(slot, {
-      title: doc.title, summary: doc.summary, parts: doc.parts.join('\n'), heads: doc.heads,
+      title: doc.title, summary: doc.summary, parts: doc.parts, heads: doc.heads,
       camshaft: doc.camshaft, intake: doc.intake, builder: doc.builder.name,
     })
     this.families.retain(this.families.code(doc.family))
@@ -183,6 +159,7 @@ class EmbeddedIndex implements SearchIndex {
   private forgetSlot(slot: number): void {
     const s = this.stored[slot] as Stored
     this.text.remove(slot)
+    this.curves.clear(slot)
     const family = this.families.find(s.family)
     if (family !== undefined) this.families.release(family)
     const region = this.regions.find(s.region)
@@ -202,6 +179,7 @@ class EmbeddedIndex implements SearchIndex {
     this.families.clear()
     this.regions.clear()
     this.text.clear()
+    this.curves.reset()
     const slots: number[] = []
     for (const doc of docs) {
       if (this.slotOfId.has(doc.id)) throw new RangeError(`document ${doc.id} appears twice`)
@@ -243,13 +221,7 @@ class EmbeddedIndex implements SearchIndex {
     const slot = this.slotOfId.get(id)
     const s = slot === undefined ? undefined : this.stored[slot]
     if (slot === undefined || !s) return undefined
-    const first = this.curveFirst[slot] as number
-    const last = this.curveLast[slot] as number
-    const base = slot * CURVE_POINTS
-    return {
-      ...s, builder: { ...s.builder }, publishedAt: new Date(s.publishedAt).toISOString(),
-      curve: first < 0 ? null : { startRpm: CURVE_MIN_RPM + first * CURVE_STEP_RPM, hp: Array.from(this.curves.subarray(base + first, base + last + 1)) },
-    }
+    return { ...s, builder: { ...s.builder }, publishedAt: new Date(s.publishedAt).toISOString(), curve: this.curves.get(slot) }
   }
 
   stamps(): Map<number, string> {
@@ -260,7 +232,7 @@ class EmbeddedIndex implements SearchIndex {
 
   /** Mean power of a slot's curve over the band, NaN when the pull does not cover it. */
   private bandAverage(slot: number, from: number, to: number): number {
-    return bandAverageOnGrid(this.curves, this.areas, slot, this.curveFirst[slot] as number, this.curveLast[slot] as number, from, to)
+    return this.curves.average(slot, from, to)
   }
 
   query(params: SearchQuery): SearchResult {

@@ -11,7 +11,7 @@ import SearchableMap from 'minisearch/SearchableMap'
 /** The text fields of a document, with a bit each in a posting's field mask. */
 export const TEXT_FIELDS = ['title', 'summary', 'parts', 'heads', 'camshaft', 'intake', 'builder'] as const
 export type TextField = (typeof TEXT_FIELDS)[number]
-export type TextFields = Record<TextField, string>
+export type TextFields = Record<TextField, string | readonly string[]>
 
 /** How much a match in each field counts towards relevance: the title and the shop's name most. */
 const FIELD_BOOST: Record<TextField, number> = { title: 3, summary: 1, parts: 1, heads: 1.5, camshaft: 1.5, intake: 1.5, builder: 2 }
@@ -30,6 +30,11 @@ const STOP_WORDS = new Set(['a', 'an', 'and', 'at', 'by', 'for', 'in', 'of', 'on
 export const PREFIX_EXPANSION_CAP = 64
 /** Prefix expansion starts at this many typed characters. */
 export const PREFIX_MIN_LENGTH = 2
+
+/** Fields whose lines repeat across listings (shop names, heads, intakes, parts), so their term ids are remembered. */
+const REPEATING_FIELDS = Uint8Array.from(TEXT_FIELDS, f => (f === 'builder' || f === 'heads' || f === 'intake' || f === 'parts' ? 1 : 0))
+/** At most this many remembered lines. */
+const LINE_CACHE_SIZE = 200_000
 
 const tokenize = MiniSearch.getDefault('tokenize') as (text: string) => string[]
 
@@ -111,6 +116,8 @@ export class TextIndex {
   private termStart = new Int32Array(0)
   private termCount = new Int32Array(0)
   private scratch = new Int32Array(256)
+  private collected = 0
+  private lineCache = new Map<string, number[]>()
   private live = 0
   // Query scratch, per slot: which query last touched it, how many of its words it matched, its score.
   private queryStamp = new Uint32Array(0)
@@ -146,6 +153,7 @@ export class TextIndex {
   clear(): void {
     this.termIds.clear()
     this.vocabulary.clear()
+    this.lineCache.clear()
     this.postings = []
     this.arenaLength = 0
     this.arenaGarbage = 0
@@ -169,22 +177,45 @@ export class TextIndex {
     return id
   }
 
+  /** Term ids of one line of text, remembered: shop names, heads, intakes and parts lines repeat across listings. */
+  private lineTerms(line: string, cache: boolean): number[] {
+    let ids = cache ? this.lineCache.get(line) : undefined
+    if (!ids) {
+      const terms = termsOf(line)
+      ids = new Array<number>(terms.length)
+      for (let i = 0; i < terms.length; i++) ids[i] = this.termId(terms[i] as string)
+      if (cache) {
+        if (this.lineCache.size >= LINE_CACHE_SIZE) this.lineCache.clear()
+        this.lineCache.set(line, ids)
+      }
+    }
+    return ids
+  }
+
+  private collect(line: string, bit: number, stamp: number): void {
+    const ids = this.lineTerms(line, REPEATING_FIELDS[bit] === 1)
+    for (let i = 0; i < ids.length; i++) {
+      const id = ids[i] as number
+      if (this.seenStamp[id] !== stamp) {
+        this.seenStamp[id] = stamp
+        this.maskOfTerm[id] = 0
+        if (this.collected === this.scratch.length) this.scratch = grow(this.scratch, this.collected * 2)
+        this.scratch[this.collected++] = id
+      }
+      this.maskOfTerm[id] = (this.maskOfTerm[id] as number) | (1 << bit)
+    }
+  }
+
   /** Indexes a document's words at a slot (which must be empty). */
   add(slot: number, fields: TextFields): void {
     const stamp = ++this.seenCounter
-    let n = 0
+    this.collected = 0
     for (let bit = 0; bit < TEXT_FIELDS.length; bit++) {
-      for (const term of termsOf(fields[TEXT_FIELDS[bit] as TextField])) {
-        const id = this.termId(term)
-        if (this.seenStamp[id] !== stamp) {
-          this.seenStamp[id] = stamp
-          this.maskOfTerm[id] = 0
-          if (n === this.scratch.length) this.scratch = grow(this.scratch, n * 2)
-          this.scratch[n++] = id
-        }
-        this.maskOfTerm[id] = (this.maskOfTerm[id] as number) | (1 << bit)
-      }
+      const value = fields[TEXT_FIELDS[bit] as TextField]
+      if (typeof value === 'string') this.collect(value, bit, stamp)
+      else for (const line of value) this.collect(line, bit, stamp)
     }
+    const n = this.collected
     const version = this.version[slot] as number
     for (let i = 0; i < n; i++) {
       const id = this.scratch[i] as number

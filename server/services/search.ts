@@ -8,6 +8,8 @@ import { createSearchIndex, CURVE_STEP_RPM, type SearchDocument, type SearchInde
 import { syntheticDocuments } from '../../search/synthetic'
 import { builderProfiles, buildParts, builds, dynoPulls, files, type Build, type BuilderProfile, type DynoPull } from '../database/schema'
 import type { Database } from '../utils/db'
+import { readUploadText } from '../utils/storage'
+import type { ReadStoredText } from './curves'
 
 /** The one index of this server process: swapped whole by a rebuild, changed in place by syncBuild. */
 let current: SearchIndex = createSearchIndex()
@@ -57,15 +59,15 @@ function headlinePull(pulls: PullWithFile[]): PullWithFile | undefined {
 }
 
 /** Peaks and the grid curve under SAE J1349 (2004), recomputed from the raw pull file; the stored summary when the file is unreadable. */
-async function figuresOf(pull: PullWithFile | undefined) {
+async function figuresOf(read: ReadStoredText, pull: PullWithFile | undefined) {
   if (!pull) return { peakHp: null, peakHpRpm: null, peakTq: null, peakTqRpm: null, curve: null }
   const fallback = { peakHp: pull.summary.peakHp, peakHpRpm: pull.summary.peakHpRpm, peakTq: pull.summary.peakTq, peakTqRpm: pull.summary.peakTqRpm, curve: null }
-  const raw = await useStorage('uploads').getItemRaw<Buffer | string>(pull.storageKey)
-  if (raw === null || raw === undefined) {
+  const text = await read(pull.storageKey)
+  if (text === null) {
     console.warn(`search: pull file ${pull.storageKey} of build ${pull.buildId} is missing; indexing its stored figures without a curve`)
     return fallback
   }
-  const parsed = parsePull(typeof raw === 'string' ? raw : new Uint8Array(raw))
+  const parsed = parsePull(text)
   if (!parsed.ok) return fallback
   const weather = pull.baroInHg !== null && pull.airTempF !== null && pull.humidityPct !== null
     ? { baroInHg: pull.baroInHg, airTempF: pull.airTempF, humidityPct: pull.humidityPct }
@@ -110,7 +112,7 @@ function documentOf(build: Build, shop: BuilderProfile, parts: string[], figures
 }
 
 /** Search documents of the published builds (all, or the given ids), read from MariaDB and the pull files. */
-export async function loadSearchDocuments(db: Database, ids?: number[]): Promise<SearchDocument[]> {
+export async function loadSearchDocuments(db: Database, ids?: number[], read: ReadStoredText = readUploadText): Promise<SearchDocument[]> {
   if (ids && ids.length === 0) return []
   const published = eq(builds.status, 'published')
   const where = ids ? and(published, inArray(builds.id, ids)) : published
@@ -136,15 +138,15 @@ export async function loadSearchDocuments(db: Database, ids?: number[]): Promise
   }
   const docs: SearchDocument[] = []
   for (const { build, shop } of rows) {
-    const figures = await figuresOf(headlinePull(pullsOf.get(build.id) ?? []))
+    const figures = await figuresOf(read, headlinePull(pullsOf.get(build.id) ?? []))
     docs.push(documentOf(build, shop, partsOf.get(build.id) ?? [], figures, stamps.get(build.id) ?? ''))
   }
   return docs
 }
 
 /** One build's search document, or null when the build is not published (drafts, archived, deleted). */
-export async function buildSearchDocument(db: Database, buildId: number): Promise<SearchDocument | null> {
-  const [doc] = await loadSearchDocuments(db, [buildId])
+export async function buildSearchDocument(db: Database, buildId: number, read: ReadStoredText = readUploadText): Promise<SearchDocument | null> {
+  const [doc] = await loadSearchDocuments(db, [buildId], read)
   return doc ?? null
 }
 
