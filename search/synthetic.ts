@@ -103,12 +103,12 @@ export function syntheticDocuments(count: number, opts: { seed?: number, shops?:
     const aspiration = r.pick(ASPIRATIONS)
     const fuel = aspiration === 'turbo' ? r.pick(['e85', 'race_gas', 'pump_gas'] as const) : r.pick(FUELS)
     const use = r.pick(USES)
-    const bore = round(r.between(...family.bore), 3)
-    const stroke = round(r.between(...family.stroke), 3)
+    const bore = round(r.between(family.bore[0], family.bore[1]), 3)
+    const stroke = round(r.between(family.stroke[0], family.stroke[1]), 3)
     const ci = (Math.PI / 4) * bore * bore * stroke * family.cylinders
-    const redline = Math.round(r.between(...family.redline) / 100) * 100
+    const redline = Math.round(r.between(family.redline[0], family.redline[1]) / 100) * 100
     const boosted = aspiration === 'turbo' || aspiration === 'supercharged'
-    const c = r.next() < 0.02 ? null : curve(r, ci * r.between(...SPECIFIC[aspiration]), redline, boosted)
+    const c = r.next() < 0.02 ? null : curve(r, ci * r.between(SPECIFIC[aspiration][0], SPECIFIC[aspiration][1]), redline, boosted)
     const heads = r.pick(HEADS)
     const intake = r.pick(INTAKES)
     const duration = r.int(boosted ? 224 : 234, boosted ? 248 : 276)
