@@ -180,18 +180,17 @@ class EmbeddedIndex implements SearchIndex {
     this.regions.clear()
     this.text.clear()
     this.curves.reset()
-    const slots: number[] = []
-    for (const doc of docs) {
+    // Slots are handed out in displacement order, so a range scan reads the curves and records in memory order.
+    const sorted = [...docs].sort((a, b) => a.displacementCi - b.displacementCi || a.id - b.id)
+    for (let p = 0; p < sorted.length; p++) {
+      const doc = sorted[p] as SearchDocument
       if (this.slotOfId.has(doc.id)) throw new RangeError(`document ${doc.id} appears twice`)
       const slot = this.allocateSlot()
       this.slotOfId.set(doc.id, slot)
       this.writeSlot(slot, doc)
-      slots.push(slot)
+      this.writePosition(p, slot)
     }
-    const key = (slot: number) => this.stored[slot] as Stored
-    slots.sort((a, b) => key(a).displacementCi - key(b).displacementCi || key(a).id - key(b).id)
-    slots.forEach((slot, p) => this.writePosition(p, slot))
-    this.count = slots.length
+    this.count = sorted.length
   }
 
   upsert(doc: SearchDocument): void {

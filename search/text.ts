@@ -26,8 +26,13 @@ for (let mask = 1; mask < BOOST_BY_MASK.length; mask++) {
 
 /** Words too common in listings to narrow anything down. */
 const STOP_WORDS = new Set(['a', 'an', 'and', 'at', 'by', 'for', 'in', 'of', 'on', 'the', 'to', 'with', 'use'])
-/** A short last word expands to at most this many vocabulary terms (the most common ones), so one typed letter stays cheap. */
-export const PREFIX_EXPANSION_CAP = 64
+/**
+ * A typed prefix expands to at most this many vocabulary terms, the most common first: fewer for
+ * very short prefixes, so the first letters of a word stay cheap (common practice in as-you-type search).
+ */
+export function prefixCap(length: number): number {
+  return length <= 2 ? 8 : length === 3 ? 16 : 64
+}
 /** Prefix expansion starts at this many typed characters. */
 export const PREFIX_MIN_LENGTH = 2
 
@@ -277,9 +282,10 @@ export class TextIndex {
       for (const [term, id] of this.vocabulary.atPrefix(word).entries()) {
         if (term !== word && (this.postings[id] as Postings).live > 0) longer.push({ term: id, weight: 0.55 + 0.4 * (word.length / term.length) })
       }
-      if (longer.length > PREFIX_EXPANSION_CAP) {
+      const cap = prefixCap(word.length)
+      if (longer.length > cap) {
         longer.sort((a, b) => (this.postings[b.term] as Postings).live - (this.postings[a.term] as Postings).live)
-        longer.length = PREFIX_EXPANSION_CAP
+        longer.length = cap
       }
       for (const e of longer) if (!found.has(e.term)) found.set(e.term, e.weight)
     }
