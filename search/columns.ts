@@ -234,6 +234,11 @@ export class TopK {
     this.slots[i] = slot
   }
 
+  /** The key a newcomer must beat once the heap is full (Infinity until then). */
+  get threshold(): number {
+    return this.size < this.k ? Infinity : this.keys[0] as number
+  }
+
   /** The kept slots, best first. */
   sorted(): number[] {
     const order = Array.from({ length: this.size }, (_, i) => i)

@@ -313,6 +313,11 @@ class EmbeddedIndex implements SearchIndex {
       else if (sortCode === 2) key = price[p] as number
       else if (sortCode === 3) key = Math.abs(hp - target)
       else {
+        // A band average never exceeds the peak: once the kept list is full, a build whose peak
+        // is already below the weakest kept average cannot get in, so its average is not computed
+        // (0.01 hp of slack covers the curve being stored in single precision).
+        const threshold = top.threshold
+        if (Number.isFinite(threshold) && !(hp + 0.01 >= -threshold)) continue
         const avg = this.bandAverage(slot, bandFrom, bandTo)
         key = Number.isNaN(avg) ? Infinity : -avg
       }
