@@ -7,7 +7,7 @@ import { LISTING_STANDARD } from '#shared/pulls/summary'
 import { createSearchIndex, CURVE_STEP_RPM, type SearchDocument, type SearchIndex } from '../../search/index'
 import { syntheticDocuments } from '../../search/synthetic'
 import { builderProfiles, buildParts, builds, dynoPulls, files, type Build, type BuilderProfile, type DynoPull } from '../database/schema'
-import type { Database } from '../utils/db'
+import type { Database } from '../database/types'
 import { readUploadText } from '../utils/storage'
 import type { ReadStoredText } from './curves'
 
