@@ -36,17 +36,28 @@ export function prefixCap(length: number): number {
 /** Prefix expansion starts at this many typed characters. */
 export const PREFIX_MIN_LENGTH = 2
 
-/** Fields whose lines repeat across listings (shop names, heads, intakes, parts), so their term ids are remembered. */
-const REPEATING_FIELDS = Uint8Array.from(TEXT_FIELDS, f => (f === 'builder' || f === 'heads' || f === 'intake' || f === 'parts' ? 1 : 0))
+/** Fields whose text repeats across listings (shop names, heads, intakes), so their term ids are remembered. */
+const REPEATING_FIELDS = Uint8Array.from(TEXT_FIELDS, f => (f === 'builder' || f === 'heads' || f === 'intake' ? 1 : 0))
 /** At most this many remembered lines. */
 const LINE_CACHE_SIZE = 200_000
 
-const tokenize = MiniSearch.getDefault('tokenize') as (text: string) => string[]
+/** MiniSearch's own tokenizer. */
+export const tokenize = MiniSearch.getDefault('tokenize') as (text: string) => string[]
+
+/**
+ * The same split as MiniSearch's tokenizer (line breaks, Unicode spaces and punctuation) for text
+ * that is plain ASCII, without the cost of a Unicode-class regular expression; a unit test keeps
+ * the two in agreement.
+ */
+const ASCII_SEPARATORS = /[\n\r !-#%-*,-/:;?@[-\]_{}]+/
+// eslint-disable-next-line no-control-regex -- the test for plain ASCII text
+const NOT_ASCII = /[^\x00-\x7F]/
 
 /** The index terms of a text: MiniSearch's tokenizer, lower case, without stop words. */
 export function termsOf(text: string): string[] {
   const out: string[] = []
-  for (const term of tokenize(text.toLowerCase())) {
+  const lower = text.toLowerCase()
+  for (const term of NOT_ASCII.test(lower) ? tokenize(lower) : lower.split(ASCII_SEPARATORS)) {
     if (term && !STOP_WORDS.has(term)) out.push(term)
   }
   return out
@@ -182,7 +193,7 @@ export class TextIndex {
     return id
   }
 
-  /** Term ids of one line of text, remembered: shop names, heads, intakes and parts lines repeat across listings. */
+  /** Term ids of one line of text, remembered for the fields whose text repeats across listings. */
   private lineTerms(line: string, cache: boolean): number[] {
     let ids = cache ? this.lineCache.get(line) : undefined
     if (!ids) {

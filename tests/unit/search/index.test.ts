@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import { createSearchIndex, type SearchDocument, type SearchQuery } from '../../../search/index'
 import { syntheticDocuments } from '../../../search/synthetic'
+import { termsOf, tokenize } from '../../../search/text'
 import { referenceBand, referenceFacets, referenceFilter, referenceSort, seededFilterQueries } from './reference'
 
 const docs = syntheticDocuments(4000, { seed: 4242, shops: 60 })
@@ -183,5 +184,23 @@ describe('keeping in step', () => {
 
   it('refuses the same id twice in one build', () => {
     expect(() => createSearchIndex().build([docs[0]!, docs[0]!])).toThrow(RangeError)
+  })
+})
+
+describe('tokenizing', () => {
+  it('splits plain ASCII text exactly as MiniSearch\'s tokenizer does', () => {
+    const lines = [
+      ...docs.slice(0, 300).flatMap(d => [d.title, d.summary, ...d.parts, d.heads, d.camshaft, d.intake, d.builder.name]),
+      'a!b"c#d$e%f&g\'h(i)j*k+l,m-n.o/p:q;r<s=t>u?v@w[x\\y]z^_`{|}~end',
+      'tabs\tstay\tinside, line\nbreaks\r\nsplit',
+    ]
+    for (const line of lines) {
+      const lower = line.toLowerCase()
+      expect(termsOf(line)).toEqual(tokenize(lower).filter(t => t && !['a', 'an', 'and', 'at', 'by', 'for', 'in', 'of', 'on', 'the', 'to', 'with', 'use'].includes(t)))
+    }
+  })
+
+  it('falls back to MiniSearch\'s tokenizer for text beyond ASCII', () => {
+    expect(termsOf('Zylinderköpfe — 23° «portiert»')).toEqual(['zylinderköpfe', '23°', 'portiert'])
   })
 })
