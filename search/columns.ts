@@ -182,8 +182,10 @@ export class TopK {
   private ids: Float64Array
   private slots: Int32Array
   size = 0
+  readonly capacity: number
 
   constructor(private readonly k: number) {
+    this.capacity = k
     this.keys = new Float64Array(k)
     this.ids = new Float64Array(k)
     this.slots = new Int32Array(k)

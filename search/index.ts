@@ -278,6 +278,8 @@ class EmbeddedIndex implements SearchIndex {
     const positionOfSlot = this.positionOfSlot
     const from = viaText ? 0 : lo
     const to = viaText ? (text as { count: number }).count : text && text.count === 0 ? lo : hi
+    const candidates = sort === 'band' ? this.candidateBuffer() : this.noCandidates
+    let candidateCount = 0
     const sortCode = sort === 'relevance' ? (text ? 0 : 1) : sort === 'newest' ? 1 : sort === 'price' ? 2 : sort === 'target' ? 3 : 4
     const { hp: hps, tq: tqs, aspiration: aspirations, fuel: fuels, use: uses, verified, price, family, region, slot: slots, published, id: ids } = c
     for (let i = from; i < to; i++) {
@@ -313,16 +315,13 @@ class EmbeddedIndex implements SearchIndex {
       else if (sortCode === 2) key = price[p] as number
       else if (sortCode === 3) key = Math.abs(hp - target)
       else {
-        // A band average never exceeds the peak: once the kept list is full, a build whose peak
-        // is already below the weakest kept average cannot get in, so its average is not computed
-        // (0.01 hp of slack covers the curve being stored in single precision).
-        const threshold = top.threshold
-        if (Number.isFinite(threshold) && !(hp + 0.01 >= -threshold)) continue
-        const avg = this.bandAverage(slot, bandFrom, bandTo)
-        key = Number.isNaN(avg) ? Infinity : -avg
+        // Band sort: keep the candidate and rank it after the scan (see rankByBand).
+        candidates[candidateCount++] = p
+        continue
       }
       top.offer(key, ids[p] as number, slot)
     }
+    if (sortCode === 4) this.rankByBand(top, candidates, candidateCount, bandFrom, bandTo)
 
     const hits = top.sorted().slice((page - 1) * perPage).map((slot) => {
       const { stamp: _stamp, ...s } = this.stored[slot] as Stored
@@ -335,6 +334,49 @@ class EmbeddedIndex implements SearchIndex {
       return hit
     })
     return { total, page, perPage, hits, facets: this.facets(aspirationCounts, fuelCounts, familyCounts) }
+  }
+
+  private candidates = new Int32Array(0)
+  private readonly noCandidates = new Int32Array(0)
+  private computedStamp = new Uint32Array(0)
+  private computedCounter = 0
+
+  private candidateBuffer(): Int32Array {
+    if (this.candidates.length < this.count) this.candidates = new Int32Array(this.capacity)
+    return this.candidates
+  }
+
+  /**
+   * Ranks band-sort candidates without averaging every curve. A band average never exceeds the
+   * build's peak, so the strongest peaks are averaged first; once the kept list is full, a
+   * build whose peak is below its weakest average cannot get in and is skipped (0.01 hp of slack
+   * covers curves stored in single precision). The result is the same as averaging them all.
+   */
+  private rankByBand(top: TopK, positions: Int32Array, n: number, from: number, to: number): void {
+    const { hp, slot: slots, id: ids } = this.cols
+    if (this.computedStamp.length < this.capacity) this.computedStamp = new Uint32Array(this.capacity)
+    const stamp = ++this.computedCounter
+    const strongest = new TopK(Math.min(n, Math.max(4 * top.capacity, 200)))
+    for (let i = 0; i < n; i++) {
+      const p = positions[i] as number
+      const peak = hp[p] as number
+      strongest.offer(Number.isNaN(peak) ? Infinity : -peak, ids[p] as number, p)
+    }
+    for (const p of strongest.sorted()) {
+      const slot = slots[p] as number
+      this.computedStamp[slot] = stamp
+      const avg = this.bandAverage(slot, from, to)
+      top.offer(Number.isNaN(avg) ? Infinity : -avg, ids[p] as number, slot)
+    }
+    for (let i = 0; i < n; i++) {
+      const p = positions[i] as number
+      const slot = slots[p] as number
+      if (this.computedStamp[slot] === stamp) continue
+      const threshold = top.threshold
+      if (Number.isFinite(threshold) && !((hp[p] as number) + 0.01 >= -threshold)) continue
+      const avg = this.bandAverage(slot, from, to)
+      top.offer(Number.isNaN(avg) ? Infinity : -avg, ids[p] as number, slot)
+    }
   }
 
   /** A lookup of allowed dictionary codes, or null when the filter is absent. */

@@ -127,6 +127,8 @@ export class TextIndex {
   private version = new Uint32Array(0)
   // Each slot's term ids, in one append-only arena (start, count per slot; count −1 when empty).
   private arena = new Int32Array(1 << 16)
+  /** The field mask of each arena entry. */
+  private arenaMasks = new Uint8Array(1 << 16)
   private arenaLength = 0
   private arenaGarbage = 0
   private termStart = new Int32Array(0)
@@ -239,6 +241,7 @@ export class TextIndex {
     }
     if (this.arenaLength + n > this.arena.length) this.growArena(n)
     this.arena.set(this.scratch.subarray(0, n), this.arenaLength)
+    for (let i = 0; i < n; i++) this.arenaMasks[this.arenaLength + i] = this.maskOfTerm[this.scratch[i] as number] as number
     this.termStart[slot] = this.arenaLength
     this.termCount[slot] = n
     this.arenaLength += n
@@ -249,21 +252,25 @@ export class TextIndex {
   private growArena(n: number): void {
     if (this.arenaGarbage > this.arenaLength / 2) {
       const next = new Int32Array(Math.max(this.arena.length, (this.arenaLength - this.arenaGarbage + n) * 2))
+      const masks = new Uint8Array(next.length)
       let w = 0
       for (let slot = 0; slot < this.termCount.length; slot++) {
         const count = this.termCount[slot] as number
         if (count < 0) continue
         const start = this.termStart[slot] as number
         next.set(this.arena.subarray(start, start + count), w)
+        masks.set(this.arenaMasks.subarray(start, start + count), w)
         this.termStart[slot] = w
         w += count
       }
       this.arena = next
+      this.arenaMasks = masks
       this.arenaLength = w
       this.arenaGarbage = 0
       if (w + n <= next.length) return
     }
     this.arena = grow(this.arena, Math.max(this.arena.length * 2, this.arenaLength + n))
+    this.arenaMasks = grow(this.arenaMasks, this.arena.length)
   }
 
   /** Forgets the words at a slot: its postings become stale at once and are compacted later. */
@@ -329,10 +336,18 @@ export class TextIndex {
     const n = this.live
     const { version, queryStamp, matched, score, wordStamp, wordBest, touched } = this
     let count = 0
+    const termsPerDocument = this.live > 0 ? (this.arenaLength - this.arenaGarbage) / this.live : 0
     for (let i = 0; i < plan.length; i++) {
       const word = ++this.wordCounter
+      const step = plan[i] as { expansions: Expansion[], size: number }
+      if (i > 0 && count * termsPerDocument < step.size) {
+        // Few candidates left: look the word up in each candidate's own terms instead of walking postings.
+        count = this.narrow(step.expansions, word, count, i)
+        if (count === 0) break
+        continue
+      }
       count = 0
-      for (const { term, weight } of (plan[i] as { expansions: Expansion[] }).expansions) {
+      for (const { term, weight } of step.expansions) {
         const p = this.postings[term] as Postings
         if (p.live === 0) continue
         const idf = Math.log(1 + (n - p.live + 0.5) / (p.live + 0.5))
@@ -368,6 +383,43 @@ export class TextIndex {
     }
     this.lastWordCount = plan.length
     return { slots: this.touched, count }
+  }
+
+  private termStamp = new Uint32Array(0)
+  private termWeight = new Float64Array(0)
+
+  /** Keeps the first `count` touched slots that hold one of the expansions, adding their best match to the score. */
+  private narrow(expansions: Expansion[], word: number, count: number, i: number): number {
+    if (this.termStamp.length < this.postings.length) {
+      this.termStamp = grow(this.termStamp, this.postings.length * 2)
+      this.termWeight = grow(this.termWeight, this.postings.length * 2)
+    }
+    const n = this.live
+    for (const { term, weight } of expansions) {
+      const live = (this.postings[term] as Postings).live
+      this.termStamp[term] = word
+      this.termWeight[term] = weight * Math.log(1 + (n - live + 0.5) / (live + 0.5))
+    }
+    const { touched, termStart, termCount, arena, arenaMasks, termStamp, termWeight, score, matched } = this
+    let kept = 0
+    for (let t = 0; t < count; t++) {
+      const slot = touched[t] as number
+      const start = termStart[slot] as number
+      const end = start + (termCount[slot] as number)
+      let best = 0
+      for (let j = start; j < end; j++) {
+        const id = arena[j] as number
+        if (termStamp[id] !== word) continue
+        const s = (termWeight[id] as number) * (BOOST_BY_MASK[arenaMasks[j] as number] as number)
+        if (s > best) best = s
+      }
+      if (best > 0) {
+        touched[kept++] = slot
+        score[slot] = (score[slot] as number) + best
+        matched[slot] = i + 1
+      }
+    }
+    return kept
   }
 
   /** Whether the slot matched every word of the last query. */

@@ -78,8 +78,25 @@ describe('band queries', () => {
     const covered = averages.filter((a): a is number => a !== null)
     for (let i = 1; i < covered.length; i++) expect(covered[i]!).toBeLessThanOrEqual(covered[i - 1]! + 0.05)
     expect(averages.indexOf(null) === -1 || averages.slice(averages.indexOf(null)).every(a => a === null)).toBe(true)
-    // The top of the list matches the reference wherever neighbours differ by more than rounding.
+    // The order matches the reference wherever neighbours differ by more than single-precision rounding.
     expect(result.hits[0]!.id).toBe(expected[0]!.id)
+  })
+
+  it.each([
+    [{ bandFrom: 3500, bandTo: 6000, sort: 'band', perPage: 50, page: 3 }],
+    [{ bandFrom: 4500, bandTo: 7500, sort: 'band', aspiration: ['turbo'], ciMin: 300, ciMax: 420, perPage: 100 }],
+    [{ bandFrom: 6000, bandTo: 8500, sort: 'band', perPage: 100 }],
+  ] as [SearchQuery][])('ranks every page like the reference that averages every build: %j', (q) => {
+    const expected = referenceSort(referenceFilter(docs, q), q)
+    const result = index.query(q)
+    expect(result.total).toBe(expected.length)
+    const from = ((q.page ?? 1) - 1) * (q.perPage ?? 24)
+    const avg = (d: SearchDocument) => referenceBand(d, q.bandFrom!, q.bandTo!) ?? -1
+    result.hits.forEach((hit, i) => {
+      const want = expected[from + i]!
+      if (hit.id !== want.id) expect(Math.abs(avg(docs.find(d => d.id === hit.id)!) - avg(want))).toBeLessThan(0.01)
+    })
+    expect(result.hits.length).toBe(Math.min(q.perPage ?? 24, Math.max(0, expected.length - from)))
   })
 
   it('leaves bandAvgHp null for a pull that stops short of the band', () => {
@@ -104,6 +121,27 @@ describe('text', () => {
     const expected = docs.filter(d => words(d).includes('supercharged') && words(d).includes('methanol') && d.displacementCi >= 400)
     expect(index.query(q).total).toBe(expected.length)
     expect(expected.length).toBeGreaterThan(0)
+  })
+
+  it('narrows a rare word by a common one exactly as a scan would (candidate lookup path)', () => {
+    // The last word of a summary is an invented word held by a handful of listings.
+    const rare = [...new Set(docs.slice(0, 15).map(d => d.summary.replace(/\.$/, '').split(', ').at(-1)!))]
+    // Each word alone (typos tolerated) through the index; the two-word query must give the intersection.
+    const alone = (q: string) => new Set(index.query({ q: `${q} `, perPage: 10_000 }).hits.map(h => h.id))
+    const commons = ['heads', 'pushrod', 'forged'].map(word => ({ word, ids: alone(word) }))
+    let checked = 0
+    for (const word of rare) {
+      const own = alone(word)
+      expect(own.size).toBeLessThan(docs.length / 100)
+      for (const common of commons) {
+        const expected = [...own].filter(id => common.ids.has(id)).sort((a, b) => a - b)
+        const result = index.query({ q: `${word} ${common.word} `, perPage: 100 })
+        expect(result.total).toBe(expected.length)
+        expect(result.hits.map(h => h.id).sort((a, b) => a - b)).toEqual(expected)
+        checked += expected.length
+      }
+    }
+    expect(checked).toBeGreaterThan(0)
   })
 
   it('matches the last word as a prefix while the racer types', () => {
