@@ -338,8 +338,6 @@ class EmbeddedIndex implements SearchIndex {
 
   private candidates = new Int32Array(0)
   private readonly noCandidates = new Int32Array(0)
-  private computedStamp = new Uint32Array(0)
-  private computedCounter = 0
 
   private candidateBuffer(): Int32Array {
     if (this.candidates.length < this.count) this.candidates = new Int32Array(this.capacity)
@@ -348,32 +346,18 @@ class EmbeddedIndex implements SearchIndex {
 
   /**
    * Ranks band-sort candidates without averaging every curve. A band average never exceeds the
-   * build's peak, so the strongest peaks are averaged first; once the kept list is full, a
-   * build whose peak is below its weakest average cannot get in and is skipped (0.01 hp of slack
-   * covers curves stored in single precision). The result is the same as averaging them all.
+   * build's peak, and bigger engines tend to make more power, so candidates are visited from the
+   * largest displacement down; once the kept list is full, a build whose peak is below its weakest
+   * average cannot get in and is skipped (0.01 hp of slack covers curves stored in single
+   * precision). The result is the same as averaging them all.
    */
   private rankByBand(top: TopK, positions: Int32Array, n: number, from: number, to: number): void {
     const { hp, slot: slots, id: ids } = this.cols
-    if (this.computedStamp.length < this.capacity) this.computedStamp = new Uint32Array(this.capacity)
-    const stamp = ++this.computedCounter
-    const strongest = new TopK(Math.min(n, Math.max(4 * top.capacity, 200)))
-    for (let i = 0; i < n; i++) {
+    for (let i = n - 1; i >= 0; i--) {
       const p = positions[i] as number
-      const peak = hp[p] as number
-      strongest.offer(Number.isNaN(peak) ? Infinity : -peak, ids[p] as number, p)
-    }
-    for (const p of strongest.sorted()) {
-      const slot = slots[p] as number
-      this.computedStamp[slot] = stamp
-      const avg = this.bandAverage(slot, from, to)
-      top.offer(Number.isNaN(avg) ? Infinity : -avg, ids[p] as number, slot)
-    }
-    for (let i = 0; i < n; i++) {
-      const p = positions[i] as number
-      const slot = slots[p] as number
-      if (this.computedStamp[slot] === stamp) continue
       const threshold = top.threshold
-      if (Number.isFinite(threshold) && !((hp[p] as number) + 0.01 >= -threshold)) continue
+      if (threshold !== Infinity && !((hp[p] as number) + 0.01 >= -threshold)) continue
+      const slot = slots[p] as number
       const avg = this.bandAverage(slot, from, to)
       top.offer(Number.isNaN(avg) ? Infinity : -avg, ids[p] as number, slot)
     }

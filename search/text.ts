@@ -63,10 +63,13 @@ export function termsOf(text: string): string[] {
   return out
 }
 
-/** Allowed edits for a typed word: none below 4 characters, one up to 7, two from 8 (common practice in typo-tolerant search). */
+/** Allowed edits for a typed word: none below 5 characters, one up to 8, two from 9 (common practice in typo-tolerant search). */
 export function maxEdits(term: string): number {
-  return term.length < 4 ? 0 : term.length < 8 ? 1 : 2
+  return term.length < 5 ? 0 : term.length < 9 ? 1 : 2
 }
+
+/** Prefix expansions remembered per typed prefix, until the vocabulary grows or this many are kept. */
+const PREFIX_CACHE_SIZE = 2000
 
 /** Versions live in the top 24 bits of a posting's word, the field mask in the low 8. */
 const VERSION_MASK = 0xFFFFFF
@@ -172,6 +175,7 @@ export class TextIndex {
     this.termIds.clear()
     this.vocabulary.clear()
     this.lineCache.clear()
+    this.prefixCache.clear()
     this.postings = []
     this.arenaLength = 0
     this.arenaGarbage = 0
@@ -296,18 +300,10 @@ export class TextIndex {
     const exact = this.termIds.get(word)
     if (exact !== undefined) found.set(exact, 1)
     if (asPrefix && word.length >= PREFIX_MIN_LENGTH) {
-      const longer: Expansion[] = []
-      for (const [term, id] of this.vocabulary.atPrefix(word).entries()) {
-        if (term !== word && (this.postings[id] as Postings).live > 0) longer.push({ term: id, weight: 0.55 + 0.4 * (word.length / term.length) })
-      }
-      const cap = prefixCap(word.length)
-      if (longer.length > cap) {
-        longer.sort((a, b) => (this.postings[b.term] as Postings).live - (this.postings[a.term] as Postings).live)
-        longer.length = cap
-      }
-      for (const e of longer) if (!found.has(e.term)) found.set(e.term, e.weight)
+      for (const e of this.longerTerms(word)) if (!found.has(e.term)) found.set(e.term, e.weight)
     }
-    const edits = maxEdits(word)
+    // The word still being typed is taken as a typo only when nothing starts with it.
+    const edits = asPrefix && found.size > 0 ? 0 : maxEdits(word)
     if (edits > 0) {
       for (const [, [id, distance]] of this.vocabulary.fuzzyGet(word, edits)) {
         const weight = distance === 0 ? 1 : 0.45 / distance
@@ -315,6 +311,30 @@ export class TextIndex {
       }
     }
     return [...found].map(([term, weight]) => ({ term, weight }))
+  }
+
+  private prefixCache = new Map<string, Expansion[]>()
+  private prefixCacheVocabulary = 0
+
+  /** The most common longer terms starting with a prefix (MiniSearch's radix tree), remembered per prefix. */
+  private longerTerms(word: string): Expansion[] {
+    if (this.prefixCacheVocabulary !== this.termIds.size || this.prefixCache.size >= PREFIX_CACHE_SIZE) {
+      this.prefixCache.clear()
+      this.prefixCacheVocabulary = this.termIds.size
+    }
+    const cached = this.prefixCache.get(word)
+    if (cached) return cached
+    const longer: Expansion[] = []
+    for (const [term, id] of this.vocabulary.atPrefix(word).entries()) {
+      if (term !== word && (this.postings[id] as Postings).live > 0) longer.push({ term: id, weight: 0.55 + 0.4 * (word.length / term.length) })
+    }
+    const cap = prefixCap(word.length)
+    if (longer.length > cap) {
+      longer.sort((a, b) => (this.postings[b.term] as Postings).live - (this.postings[a.term] as Postings).live)
+      longer.length = cap
+    }
+    this.prefixCache.set(word, longer)
+    return longer
   }
 
   /**
