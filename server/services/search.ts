@@ -73,9 +73,19 @@ async function figuresOf(read: ReadStoredText, pull: PullWithFile | undefined) {
     ? { baroInHg: pull.baroInHg, airTempF: pull.airTempF, humidityPct: pull.humidityPct }
     : null
   const declared = isCorrectionStandard(pull.declaredStandard) ? pull.declaredStandard : 'UNCORRECTED'
-  const points = convertCurve(parsed.points, { standard: declared, weather }, { standard: LISTING_STANDARD, weather }).points
-  const pk = peaks(points)
-  const grid = resample(points, CURVE_STEP_RPM)
+  const recomputed = (() => {
+    try {
+      const points = convertCurve(parsed.points, { standard: declared, weather }, { standard: LISTING_STANDARD, weather }).points
+      return { pk: peaks(points), grid: resample(points, CURVE_STEP_RPM) }
+    }
+    catch (err) {
+      // A stored file the engine module refuses (it was checked on upload) must not stop the whole index.
+      console.warn(`search: pull ${pull.id} of build ${pull.buildId} could not be recomputed (${(err as Error).message}); indexing its stored figures`)
+      return null
+    }
+  })()
+  if (!recomputed) return fallback
+  const { pk, grid } = recomputed
   const one = (n: number) => Math.round(n * 10) / 10
   return {
     peakHp: one(pk.peakHp),
