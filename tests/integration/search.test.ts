@@ -1,11 +1,14 @@
 import { and, eq, inArray, isNotNull, ne } from 'drizzle-orm'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { displacementCi } from '../../shared/engine/geometry'
+import { PERSONAS, signedIn, type CookieJar } from '../support/auth'
 import { api, schema, testDb } from '../support/context'
 
 let ctx: Awaited<ReturnType<typeof testDb>>
+let admin: CookieJar
 beforeAll(async () => {
   ctx = await testDb()
+  admin = await signedIn(PERSONAS.admin)
   // The index is built at start; wait until it holds the seeded builds.
   for (let i = 0; i < 50; i++) {
     if ((await api('/api/search?perPage=1')).body?.total > 0) break
@@ -16,7 +19,9 @@ afterAll(async () => {
   await ctx.close()
 })
 
-const sync = (buildId: number) => api('/api/testing/search/sync', { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ buildId }) })
+/** The test-mode hook the listing editor's writes stand in for (admins only). */
+const sync = (buildId: number) => api('/api/testing/search/sync', { method: 'POST', headers: { 'content-type': 'application/json', 'cookie': admin.header() }, body: JSON.stringify({ buildId }) })
+const check = () => api('/api/testing/search/check', { method: 'POST', headers: { cookie: admin.header() } })
 const published = () => ctx.db.select().from(schema.builds).where(eq(schema.builds.status, 'published'))
 
 describe('GET /api/search over the seeded builds', () => {
@@ -164,11 +169,11 @@ describe('keeping the index in step with MariaDB', () => {
     await ctx.db.update(schema.builds).set({ title: 'Driftwood combination nobody synced' }).where(eq(schema.builds.id, victim!.id))
     try {
       expect((await api('/api/search?q=driftwood')).body.total).toBe(0)
-      const check = await api('/api/testing/search/check', { method: 'POST' })
-      expect(check.status).toBe(200)
-      expect(check.body.updated).toBeGreaterThanOrEqual(1)
+      const checked = await check()
+      expect(checked.status).toBe(200)
+      expect(checked.body.updated).toBeGreaterThanOrEqual(1)
       expect((await api('/api/search?q=driftwood')).body.hits.map((h: { slug: string }) => h.slug)).toEqual([victim!.slug])
-      const again = await api('/api/testing/search/check', { method: 'POST' })
+      const again = await check()
       expect(again.body).toMatchObject({ added: 0, updated: 0, removed: 0 })
     }
     finally {
@@ -177,8 +182,14 @@ describe('keeping the index in step with MariaDB', () => {
     }
   })
 
+  it('refuses the sync hook to a stranger (401) and to a racer (403)', async () => {
+    expect((await api('/api/testing/search/sync', { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ buildId: 1 }) })).status).toBe(401)
+    const racer = await signedIn(PERSONAS.racer)
+    expect((await api('/api/testing/search/sync', { method: 'POST', headers: { 'content-type': 'application/json', 'cookie': racer.header() }, body: JSON.stringify({ buildId: 1 }) })).status).toBe(403)
+  })
+
   it('refuses a bad sync request with a 400 and writes nothing', async () => {
-    const res = await api('/api/testing/search/sync', { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ buildId: 'seven' }) })
+    const res = await api('/api/testing/search/sync', { method: 'POST', headers: { 'content-type': 'application/json', 'cookie': admin.header() }, body: JSON.stringify({ buildId: 'seven' }) })
     expect(res.status).toBe(400)
     expect(res.body.message).toContain('buildId')
   })
