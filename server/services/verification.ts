@@ -1,4 +1,6 @@
 import { createError } from 'h3'
+import type { PublishedBuild } from './listings'
+import { REQUIRED_FOR_PUBLISH } from '#shared/schemas/build'
 import { and, asc, count, desc, eq, inArray, ne } from 'drizzle-orm'
 import {
   CORRECTION_STANDARDS, FINGERPRINT_TOLERANCE, convertCurve, displacementCi, evidenceOutcome, fingerprintDistance, parsePull, peaks, torqueAt,
@@ -133,7 +135,11 @@ async function parsedFile(read: ReadStoredText, storageKey: string): Promise<{ t
   return { text, points: parsed.points }
 }
 
-function combinationOf(b: Build): EvidenceReview['combination'] {
+function combinationOf(row: Build): EvidenceReview['combination'] {
+  // A draft may carry submitted pulls before its combination is complete: review waits for it.
+  const missing = REQUIRED_FOR_PUBLISH.filter(k => row[k] === null)
+  if (missing.length) throw createError({ status: 409, message: `The build's combination is not complete yet (${missing.join(', ')}); review its evidence once the shop fills it in.` })
+  const b = row as PublishedBuild
   return {
     engineFamily: b.engineFamily, cylinders: b.cylinders, boreIn: b.boreIn, strokeIn: b.strokeIn, rodLengthIn: b.rodLengthIn,
     displacementCi: displacementCi(b.boreIn, b.strokeIn, b.cylinders), aspiration: b.aspiration, fuel: b.fuel, intendedUse: b.intendedUse,

@@ -75,7 +75,7 @@ describe('the evidence queue', () => {
     expect(review.recomputed.normalised.peakHp).toBeCloseTo(pull.summary.peakHp, 1)
     expect(review.checks.map(c => c.id)).toEqual(pull.checks!.map(c => c.id))
     expect(review.combination).toMatchObject({ boreIn: build.boreIn, strokeIn: build.strokeIn, cylinders: build.cylinders, aspiration: build.aspiration })
-    expect(review.combination.displacementCi).toBeCloseTo((Math.PI / 4) * build.boreIn ** 2 * build.strokeIn * build.cylinders, 6)
+    expect(review.combination.displacementCi).toBeCloseTo((Math.PI / 4) * build.boreIn! ** 2 * build.strokeIn! * build.cylinders!, 6)
     expect(review.build.shop.ownerEmail).toMatch(/@/)
     expect(review.duplicates[0]).toMatchObject({ slug: item.duplicate!.slug, outcome: 'fail' })
     expect(review.curves.at(-1)!.label).toContain(item.duplicate!.title)
