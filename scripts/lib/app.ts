@@ -90,14 +90,21 @@ export async function startBuiltServer(cfg: ServiceConfig, env: NodeJS.ProcessEn
     exited = true
   })
   const url = `http://127.0.0.1:${env.PORT}/api/health`
-  await waitFor(`the app on ${url}`, async () => {
-    if (exited) throw new Error('the app server exited while starting')
-    try {
-      return (await fetch(url)).ok
-    }
-    catch {
-      return false
-    }
-  }, 60_000)
+  try {
+    await waitFor(`the app on ${url}`, async () => {
+      if (exited) throw new Error('the app server exited while starting')
+      try {
+        return (await fetch(url)).ok
+      }
+      catch {
+        return false
+      }
+    }, 60_000)
+  }
+  catch (err) {
+    // A server that never became ready is stopped here, since the caller never gets hold of it.
+    child.kill('SIGTERM')
+    throw err
+  }
   return child
 }
