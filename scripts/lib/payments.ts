@@ -56,6 +56,8 @@ export async function startPaymentsFake(cfg: ServiceConfig): Promise<boolean> {
       TW_PAYMENTS_SECRET_KEY: keys.secretKey,
       TW_PAYMENTS_WEBHOOK_SECRET: keys.webhookSecret,
       TW_PAYMENTS_WEBHOOK_URL: webhookUrl(cfg.app.port),
+      // The demo keeps its payments across restarts, so a deposit paid yesterday can be paid out today.
+      TW_PAYMENTS_STATE_FILE: resolve(cfg.dataDir, 'payments-fake-state.json'),
     },
   })
   child.unref()

@@ -34,6 +34,9 @@ export type PayResult
     | { outcome: 'declined', message: string }
     | { outcome: 'closed', message: string }
 
+export const LEDGER_TABLES = ['accounts', 'sessions', 'paymentIntents', 'charges', 'refunds', 'transfers', 'events'] as const
+export type LedgerTable = (typeof LEDGER_TABLES)[number]
+
 export class Ledger {
   readonly accounts = new Map<string, FakeAccount>()
   readonly sessions = new Map<string, FakeSession>()
@@ -42,6 +45,19 @@ export class Ledger {
   readonly refunds = new Map<string, FakeRefund>()
   readonly transfers = new Map<string, FakeTransfer>()
   readonly events = new Map<string, FakeEvent>()
+
+  /** Everything the books hold, as plain JSON (for a demo that keeps its payments across restarts). */
+  snapshot(): Record<LedgerTable, [string, unknown][]> {
+    return Object.fromEntries(LEDGER_TABLES.map(t => [t, [...this[t].entries()]])) as Record<LedgerTable, [string, unknown][]>
+  }
+
+  restore(state: Partial<Record<LedgerTable, [string, unknown][]>>): void {
+    for (const t of LEDGER_TABLES) {
+      const map = this[t] as Map<string, unknown>
+      map.clear()
+      for (const [id, value] of state[t] ?? []) map.set(id, value)
+    }
+  }
 
   constructor(
     private readonly publicUrl: () => string,

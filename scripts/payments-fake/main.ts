@@ -16,6 +16,7 @@ const fake = await createPaymentsFake({
   secretKey: required('TW_PAYMENTS_SECRET_KEY'),
   webhookSecret: required('TW_PAYMENTS_WEBHOOK_SECRET'),
   webhookUrl: process.env.TW_PAYMENTS_WEBHOOK_URL || null,
+  stateFile: process.env.TW_PAYMENTS_STATE_FILE || undefined,
   log: line => console.log(`${new Date().toISOString()} ${line}`),
 })
 

@@ -2,6 +2,7 @@
 // form-encoded requests, Bearer keys, idempotency keys, Stripe-shaped objects and errors, a hosted
 // payment page for Checkout Sessions and signed webhook events. Never bundled into the app.
 import { createHash, randomBytes } from 'node:crypto'
+import { existsSync, readFileSync, renameSync, writeFileSync } from 'node:fs'
 import { createServer, type IncomingMessage, type ServerResponse } from 'node:http'
 import type { AddressInfo } from 'node:net'
 import { ApiError } from './errors'
@@ -25,6 +26,8 @@ export interface PaymentsFakeOptions {
   webhookUrl: string | null
   retryDelaysMs?: number[]
   log?: (line: string) => void
+  /** Where the books are kept between runs (the demo's data folder); without it they live in memory only. */
+  stateFile?: string
 }
 
 export interface PaymentsFake {
@@ -87,6 +90,24 @@ export async function createPaymentsFake(options: PaymentsFakeOptions): Promise<
   const ledger = new Ledger(() => publicUrl, event => webhooks.send(event), FAKE_API_VERSION)
   const saved = new Map<string, Saved>()
   const inProgress = new Set<string>()
+  if (options.stateFile && existsSync(options.stateFile)) {
+    try {
+      const state = JSON.parse(readFileSync(options.stateFile, 'utf8')) as { ledger: Parameters<Ledger['restore']>[0], idempotency: [string, Saved][] }
+      ledger.restore(state.ledger)
+      for (const [k, v] of state.idempotency ?? []) saved.set(k, v)
+      log(`restored the books from ${options.stateFile}`)
+    }
+    catch (error) {
+      log(`could not read ${options.stateFile}, starting empty: ${error instanceof Error ? error.message : String(error)}`)
+    }
+  }
+  /** Writes the books after a change (atomically, by rename), when a state file is configured. */
+  function persist() {
+    if (!options.stateFile) return
+    const tmp = `${options.stateFile}.tmp`
+    writeFileSync(tmp, JSON.stringify({ ledger: ledger.snapshot(), idempotency: [...saved.entries()] }))
+    renameSync(tmp, options.stateFile)
+  }
 
   function sendJson(res: ServerResponse, status: number, body: string, headers: Record<string, string> = {}) {
     res.writeHead(status, { 'content-type': 'application/json', 'cache-control': 'no-store', ...headers })
@@ -163,6 +184,7 @@ export async function createPaymentsFake(options: PaymentsFakeOptions): Promise<
       const body = JSON.stringify(result.body)
       // Like the real API, only a request that ran is saved against its key; a refused one may be sent again.
       if (savedKey) saved.set(savedKey, { fingerprint, status: result.status, body })
+      if (method === 'POST') persist()
       log(`${method} ${url.pathname} → ${result.status}`)
       return sendJson(res, result.status, body, headers)
     }
@@ -202,6 +224,7 @@ export async function createPaymentsFake(options: PaymentsFakeOptions): Promise<
       return sendHtml(res, 400, paymentPage(session, { message: { kind: 'error', text: 'This test page takes only the test cards listed below.' }, values }))
     }
     const result = ledger.pay(sessionId, { cardNumber, name: fields.name, email: fields.email })
+    persist()
     if (result.outcome === 'paid') {
       log(`session ${sessionId} paid`)
       res.writeHead(303, { 'location': result.redirect, 'cache-control': 'no-store' })

@@ -1,6 +1,9 @@
 // The payments fake through the official `stripe` SDK (23.1.0): wire format, idempotency, errors,
 // the hosted page and signed webhooks. Each test file run gets its own fake with its own webhook
 // receiver, so deliveries can be counted; the app's fake is the one in tests/support/global-setup.ts.
+import { mkdtempSync } from 'node:fs'
+import { tmpdir } from 'node:os'
+import { join } from 'node:path'
 import Stripe from 'stripe'
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest'
 import { createPaymentsFake, type PaymentsFake } from '../../scripts/payments-fake/server'
@@ -271,5 +274,29 @@ describe('webhook delivery', () => {
     expect(res.status).toBe(202)
     const both = await eventually('the duplicate', () => (eventsOf('checkout.session.completed').length === 2 ? eventsOf('checkout.session.completed') : undefined))
     expect(both[1]!.event.id).toBe(first.event.id)
+  })
+
+  it('keeps its books in a state file across a restart (the demo\'s), so a payment made before can be paid out after', async () => {
+    const stateFile = join(mkdtempSync(join(tmpdir(), 'tw-fake-')), 'state.json')
+    const first = await createPaymentsFake({ port: 0, secretKey: KEY, webhookSecret: SECRET, webhookUrl: null, stateFile })
+    const before = stripeClient(first.port, KEY)
+    const session = await before.checkout.sessions.create(sessionParams(40_000), { idempotencyKey: 'restart-check' })
+    await payOnFakePage(session.url!, CARDS.succeeds)
+    const account = await before.accounts.create({ type: 'express' })
+    await first.close()
+    const second = await createPaymentsFake({ port: 0, secretKey: KEY, webhookSecret: SECRET, webhookUrl: null, stateFile })
+    try {
+      const after = stripeClient(second.port, KEY)
+      const paid = await after.checkout.sessions.retrieve(session.id, { expand: ['payment_intent'] })
+      expect(paid.status).toBe('complete')
+      const charge = (paid.payment_intent as Stripe.PaymentIntent).latest_charge as string
+      const transfer = await after.transfers.create({ amount: 38_000, currency: 'usd', destination: account.id, source_transaction: charge })
+      expect(transfer.amount).toBe(38_000)
+      const replay = await after.checkout.sessions.create(sessionParams(40_000), { idempotencyKey: 'restart-check' })
+      expect(replay.id).toBe(session.id)
+    }
+    finally {
+      await second.close()
+    }
   })
 })
