@@ -257,7 +257,9 @@ export async function getRequestView(ctx: DealContext, actor: DealActor, request
 /** Each side's open requests, quotes and orders, newest activity first. */
 export async function getDashboard(ctx: DealContext, actor: DealActor): Promise<DashboardView> {
   const side = actor.role === 'builder' ? 'builder' : actor.role === 'racer' ? 'racer' : 'admin'
-  const mine = side === 'builder' ? eq(quoteRequests.builderId, actor.builderId ?? 0) : side === 'racer' ? eq(quoteRequests.racerId, actor.id) : undefined
+  // An admin's desk is the deals with a dispute to settle; each party sees their own deals.
+  const disputed = ctx.db.select({ requestId: orders.requestId }).from(milestones).innerJoin(orders, eq(orders.id, milestones.orderId)).where(eq(milestones.state, 'disputed'))
+  const mine = side === 'builder' ? eq(quoteRequests.builderId, actor.builderId ?? 0) : side === 'racer' ? eq(quoteRequests.racerId, actor.id) : inArray(quoteRequests.id, disputed)
   const rows = await ctx.db.select({
     request: quoteRequests, racerName: users.name, shopName: builderProfiles.shopName, quote: quotes, orderId: orders.id,
   }).from(quoteRequests)
