@@ -4,7 +4,8 @@ import { count, eq } from 'drizzle-orm'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { type CookieJar, as, freshAddress, json, signedIn } from '../support/auth'
 import { api } from '../support/context'
-import { PEOPLE, dealTestContext, milestoneRow, quoteInput, requestInput, schema } from '../support/deals'
+import { PEOPLE, dealTestContext, fundMilestone, makeOrder, milestoneRow, quoteInput, requestInput, schema } from '../support/deals'
+import { disputeMilestone } from '../../server/services/milestones'
 import { CARDS, eventually, payOnFakePage } from '../support/payments'
 import type { Database } from '../../server/database/types'
 
@@ -119,6 +120,28 @@ describe('paying over HTTP', () => {
       expect(seen.state).toBe('funded')
       expect(seen.payments[0].stripeCheckoutSessionId).toMatch(/^cs_test_/)
       expect(seen.payments[0].stripePaymentIntentId).toMatch(/^pi_/)
+    }
+  })
+})
+
+describe('the admin\'s desk', () => {
+  it('lists the orders with a disputed milestone, and only those', async () => {
+    const { ctx, close: done } = await dealTestContext()
+    try {
+      const calm = await makeOrder(ctx)
+      const heated = await makeOrder(ctx)
+      await fundMilestone(ctx, heated.racer, heated.milestones[0]!.id)
+      await disputeMilestone(ctx, heated.racer, heated.milestones[0]!.id, 'The parts list changed without a word.')
+      const admin = await signedIn(PEOPLE.admin)
+      const desk = (await get('/api/requests', admin)).body
+      expect(desk.side).toBe('admin')
+      const ids = desk.orders.map((o: { id: number }) => o.id)
+      expect(ids).toContain(heated.orderId)
+      expect(ids).not.toContain(calm.orderId)
+      expect(desk.orders.find((o: { id: number }) => o.id === heated.orderId).nextMilestone.state).toBe('disputed')
+    }
+    finally {
+      await done()
     }
   })
 })
