@@ -59,6 +59,9 @@ export async function makeBuildAwaitingCheck(db: Db, opts: { shopId?: number, ti
   const title = opts.title ?? `Awaiting check ${tag}`
   const slug = `awaiting-check-${tag}`
   const [build] = await db.insert(schema.builds).values({ ...columns, builderId: shopId, slug, title, publishedAt: new Date(), verifiedAt: null }).$returningId()
+  // A complete listing, parts list included, since it leads the newest-first lists other tests open.
+  const parts = await db.select().from(schema.buildParts).where(eq(schema.buildParts.buildId, source!.id))
+  if (parts.length) await db.insert(schema.buildParts).values(parts.map(({ id: _partId, ...p }) => ({ ...p, buildId: build!.id })))
   const fileId = await copyFile(db, sourcePull!.fileId, shop!.userId)
   const { id: _pid, createdAt: _pc, updatedAt: _pu, ...pullColumns } = sourcePull!
   const [pull] = await db.insert(schema.dynoPulls).values({
