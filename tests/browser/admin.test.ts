@@ -37,8 +37,9 @@ async function openReview(pullId: number) {
 
 describe('the admin desk in Chromium', () => {
   it('an admin verifies a pull, and the checked mark appears on the build page and in the build lists', async () => {
+    const owner = await makeAccount({ role: 'builder' })
     const { db, close } = await testDb()
-    const { pullId, slug, title, pullLabel } = await makeBuildAwaitingCheck(db)
+    const { pullId, slug, title, pullLabel } = await makeBuildAwaitingCheck(db, { shopId: (await shopOf(db, owner.id)).id })
     const [{ n: waiting }] = await db.select({ n: count() }).from(schema.dynoPulls).where(eq(schema.dynoPulls.status, 'submitted')) as [{ n: number }]
     await close()
 
@@ -61,8 +62,8 @@ describe('the admin desk in Chromium', () => {
 
     await page.goto(`${baseUrl()}/builds/${slug}`, { waitUntil: 'networkidle' })
     expect(await page.locator('[data-test="verified-mark"]').first().isVisible()).toBe(true)
-    // The listing was published last, so it leads the newest-first list on the home page.
-    await page.goto(`${baseUrl()}/`, { waitUntil: 'networkidle' })
+    // The shop's profile lists its builds as cards.
+    await page.goto(`${baseUrl()}/builders/${owner.shopSlug}`, { waitUntil: 'networkidle' })
     const card = page.locator('[data-test="build-card"]', { hasText: title })
     expect(await card.locator('[data-test="verified-mark"]').count()).toBe(1)
     expect(browser.requests.filter(url => !isLocal(url))).toEqual([])

@@ -46,7 +46,7 @@ export async function makeSubmittedPull(db: Db, buildSlug?: string) {
 /**
  * A new published listing without the checked mark, with one submitted pull (a copy of a seeded
  * verified build's first pull, its fingerprint left out so it matches no other build), owned by
- * `shopId` or by the seeded build's shop. Published now, so it leads the newest-first lists.
+ * `shopId` or by the seeded build's shop.
  */
 export async function makeBuildAwaitingCheck(db: Db, opts: { shopId?: number, title?: string } = {}) {
   const [source] = await db.select().from(schema.builds)
@@ -58,8 +58,9 @@ export async function makeBuildAwaitingCheck(db: Db, opts: { shopId?: number, ti
   const { id: _id, createdAt: _c, updatedAt: _u, ...columns } = source!
   const title = opts.title ?? `Awaiting check ${tag}`
   const slug = `awaiting-check-${tag}`
-  const [build] = await db.insert(schema.builds).values({ ...columns, builderId: shopId, slug, title, publishedAt: new Date(), verifiedAt: null }).$returningId()
-  // A complete listing, parts list included, since it leads the newest-first lists other tests open.
+  // Published long ago, so the test listings never lead the newest-first lists that other tests open.
+  const [build] = await db.insert(schema.builds).values({ ...columns, builderId: shopId, slug, title, publishedAt: new Date(Date.now() - 3 * 365 * 86_400_000), verifiedAt: null }).$returningId()
+  // A complete listing, parts list included, like every published one.
   const parts = await db.select().from(schema.buildParts).where(eq(schema.buildParts.buildId, source!.id))
   if (parts.length) await db.insert(schema.buildParts).values(parts.map(({ id: _partId, ...p }) => ({ ...p, buildId: build!.id })))
   const fileId = await copyFile(db, sourcePull!.fileId, shop!.userId)
