@@ -108,8 +108,12 @@ describe('GET /api/builds/:slug/pulls/:id/curve.csv', () => {
 
 describe('GET /api/compare', () => {
   it('overlays two builds under one standard', async () => {
-    const list = await api('/api/builds?perPage=2')
-    const slugs = list.body.items.map((b: { slug: string }) => b.slug)
+    // Two seeded listings with a pull: the newest-first list may start with other files' fixture listings.
+    const rows = await ctx.db.selectDistinct({ id: schema.builds.id, slug: schema.builds.slug }).from(schema.builds)
+      .innerJoin(schema.dynoPulls, eq(schema.dynoPulls.buildId, schema.builds.id))
+      .where(eq(schema.builds.status, 'published')).orderBy(schema.builds.id).limit(2)
+    const slugs = rows.map(r => r.slug)
+    expect(slugs).toHaveLength(2)
     const res = await api(`/api/compare?builds=${slugs.join(',')}&standard=SAE_J607`)
     expect(res.status).toBe(200)
     expect(res.body.builds.map((b: { build: { slug: string } }) => b.build.slug)).toEqual(slugs)
