@@ -23,6 +23,16 @@ export default defineNuxtConfig({
     uploadsDir: '',
     // NUXT_TRUST_PROXY=1 behind a load balancer: rate limits then key on its X-Forwarded-For entry.
     trustProxy: '',
+    // Payments: the SDK talks to the local fake when a host is set, to Stripe itself when not (README, Payments).
+    stripeSecretKey: '',
+    stripeWebhookSecret: '',
+    stripeApiHost: '',
+    stripeApiPort: '',
+    stripeApiProtocol: '',
+    platformFeeBps: 500,
+    autoApproveDays: 7,
+    dealTaskIntervalMs: 10 * 60_000,
+    outboxIntervalMs: 2000,
     public: { appName: 'Torquewright', siteUrl: '' },
   },
   dir: { shared: 'shared' },
@@ -36,7 +46,11 @@ export default defineNuxtConfig({
   typescript: {
     strict: true,
     tsConfig: { exclude: ['../tests/**', '../scripts/**', '../bench/**', '../*.config.ts'] },
-    nodeTsConfig: { include: ['../tests/**/*', '../scripts/**/*', '../bench/**/*', '../*.config.ts'] },
+    // Tests call services directly, and services import shared code through Nuxt's #shared alias.
+    nodeTsConfig: {
+      include: ['../tests/**/*', '../scripts/**/*', '../bench/**/*', '../*.config.ts'],
+      compilerOptions: { paths: { '#shared': ['../shared'], '#shared/*': ['../shared/*'] } },
+    },
   },
   telemetry: false,
   auth: {

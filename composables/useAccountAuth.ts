@@ -3,7 +3,7 @@ import type { Role } from '#shared/schemas/auth'
 export type SignInResult = { ok: true } | { ok: false, code: string }
 
 /** Where each role lands after signing in, unless a page sent them to sign in first. */
-export const ROLE_HOME: Record<Role, string> = { racer: '/', builder: '/dashboard', admin: '/admin/users' }
+export const ROLE_HOME: Record<Role, string> = { racer: '/', builder: '/dashboard', admin: '/admin' }
 
 /**
  * Sign-in and sign-out through Auth.js (sidebase's `authjs` client keeps the session state).

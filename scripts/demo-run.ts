@@ -3,6 +3,7 @@ import { appEnv, buildIfStale, startBuiltServer } from './lib/app'
 import { databaseUrl, loadConfig } from './lib/config'
 import { DEMO_ADMIN, DEMO_PASSWORD, DEMO_RACERS, DEMO_SHOPS } from './lib/demo-data'
 import { migrateDatabase } from './lib/migrate'
+import { paymentsKeys } from './lib/payments'
 import { UserFacingError, portInUse } from './lib/process'
 import { seedDemo } from './lib/seed'
 import { developmentServices, startServices, stopServices, type LocalService } from './lib/services'
@@ -22,6 +23,7 @@ async function main() {
   await buildIfStale(cfg)
   const server = await startBuiltServer(cfg, appEnv(cfg, {
     database: cfg.db.name, port: cfg.app.port, smtpPort: cfg.mail.smtpPort, uploadsDir: resolve(cfg.dataDir, 'uploads'),
+    payments: { port: cfg.payments.port, keys: paymentsKeys(cfg) },
   }))
 
   const accounts = [
@@ -32,6 +34,7 @@ async function main() {
   console.log(`
 Torquewright is running on http://127.0.0.1:${cfg.app.port}
   mail inbox   http://127.0.0.1:${cfg.mail.webPort}/index.html
+  payments     http://127.0.0.1:${cfg.payments.port} (local fake; test card 4242 4242 4242 4242)
   MariaDB      127.0.0.1:${cfg.db.port} (database ${cfg.db.name})
 
 Demo accounts (password: ${DEMO_PASSWORD}); the README lists them all:

@@ -9,7 +9,7 @@ const action = process.argv[2]
 try {
   if (action === 'start') {
     await startServices(cfg, developmentServices)
-    console.log(`MariaDB on 127.0.0.1:${cfg.db.port}, mail inbox on http://127.0.0.1:${cfg.mail.webPort}`)
+    console.log(`MariaDB on 127.0.0.1:${cfg.db.port}, mail inbox on http://127.0.0.1:${cfg.mail.webPort}, payments fake on http://127.0.0.1:${cfg.payments.port}`)
   }
   else if (action === 'stop') {
     await stopServices(cfg, developmentServices)

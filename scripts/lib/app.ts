@@ -3,6 +3,7 @@ import { randomBytes, createHash } from 'node:crypto'
 import { existsSync, mkdirSync, readdirSync, readFileSync, statSync, writeFileSync } from 'node:fs'
 import { join, resolve } from 'node:path'
 import { databaseUrl, type ServiceConfig } from './config'
+import { stripeEnvForFake, type PaymentsKeys } from './payments'
 import { run, waitFor } from './process'
 
 const SOURCE_ENTRIES = ['app.vue', 'error.vue', 'nuxt.config.ts', 'tailwind.config.ts', 'package-lock.json', 'assets', 'components', 'composables', 'layouts', 'middleware', 'pages', 'plugins', 'public', 'search', 'server', 'shared', 'stores', 'utils']
@@ -52,6 +53,8 @@ export interface AppEnvOptions {
   port: number
   smtpPort: number
   uploadsDir: string
+  /** The payments fake the app's Stripe client talks to; ignored when real Stripe keys are set in the environment. */
+  payments?: { port: number, keys: PaymentsKeys }
   extra?: Record<string, string>
 }
 
@@ -73,6 +76,8 @@ export function appEnv(cfg: ServiceConfig, opts: AppEnvOptions): NodeJS.ProcessE
     NUXT_SMTP_HOST: '127.0.0.1',
     NUXT_SMTP_PORT: String(opts.smtpPort),
     NUXT_UPLOADS_DIR: opts.uploadsDir,
+    // With NUXT_STRIPE_SECRET_KEY set by hand the same code talks to Stripe's test mode instead.
+    ...(opts.payments && !process.env.NUXT_STRIPE_SECRET_KEY ? stripeEnvForFake(opts.payments.port, opts.payments.keys) : {}),
     ...opts.extra,
   }
 }
@@ -85,14 +90,21 @@ export async function startBuiltServer(cfg: ServiceConfig, env: NodeJS.ProcessEn
     exited = true
   })
   const url = `http://127.0.0.1:${env.PORT}/api/health`
-  await waitFor(`the app on ${url}`, async () => {
-    if (exited) throw new Error('the app server exited while starting')
-    try {
-      return (await fetch(url)).ok
-    }
-    catch {
-      return false
-    }
-  }, 60_000)
+  try {
+    await waitFor(`the app on ${url}`, async () => {
+      if (exited) throw new Error('the app server exited while starting')
+      try {
+        return (await fetch(url)).ok
+      }
+      catch {
+        return false
+      }
+    }, 60_000)
+  }
+  catch (err) {
+    // A server that never became ready is stopped here, since the caller never gets hold of it.
+    child.kill('SIGTERM')
+    throw err
+  }
   return child
 }

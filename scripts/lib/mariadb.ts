@@ -121,3 +121,13 @@ export function recreateDatabase(cfg: ServiceConfig, database: string): void {
 export async function stopMariadb(cfg: ServiceConfig): Promise<boolean> {
   return stopByPidFile(paths(cfg).pid, 30_000)
 }
+
+/** Makes sure a further database exists and the app user may use it (the bench's own, for instance). */
+export function ensureDatabase(cfg: ServiceConfig, database: string): void {
+  const esc = (s: string) => s.replace(/\\/g, '\\\\').replace(/'/g, '\\\'')
+  const r = client(cfg, [
+    `CREATE DATABASE IF NOT EXISTS \`${database}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`,
+    `GRANT ALL PRIVILEGES ON \`${database}\`.* TO '${esc(cfg.db.user)}'@'127.0.0.1'`,
+  ].join(';\n'))
+  if (r.status !== 0) throw new UserFacingError(`Could not prepare ${database}: ${r.stderr.trim()}`)
+}

@@ -9,6 +9,7 @@ import { evaluatePull } from '../../shared/pulls/evaluate'
 import type { EvidenceCheck } from '../../shared/engine/types'
 import type { PullSummaryFigures } from '../../shared/pulls/summary'
 import * as schema from '../../server/database/schema'
+import { seedDemoDeals } from './seed-deals'
 import { DEMO_ADMIN, DEMO_PASSWORD, DEMO_RACERS, DEMO_SHOPS, demoBuilds, pullCsv, type DemoPull } from './demo-data'
 
 const { builderProfiles, buildParts, builds, dynoPulls, files, users } = schema
@@ -47,6 +48,9 @@ export async function seedDemo(opts: { url: string, uploadsDir: string }): Promi
     }
 
     const all = demoBuilds()
+    // Pulls still awaiting a check arrived over the last few days, so the admin's queue has an order and an age to show.
+    const submittedHoursAgo = [70, 26, 9, 3]
+    let submittedBuilds = 0
     const fingerprints = (await db.select({ buildId: dynoPulls.buildId, fingerprint: dynoPulls.fingerprint }).from(dynoPulls))
       .filter((f): f is { buildId: number, fingerprint: string } => f.fingerprint !== null)
     for (const b of all) {
@@ -75,6 +79,9 @@ export async function seedDemo(opts: { url: string, uploadsDir: string }): Promi
       const headline = pullRows[0]!
       const verified = b.pulls.every(p => p.status === 'verified')
       const publishedAt = new Date(Date.now() - b.publishedDaysAgo * 86_400_000)
+      const submittedAt = b.pulls.some(p => p.status === 'submitted')
+        ? new Date(Date.now() - submittedHoursAgo[submittedBuilds++ % submittedHoursAgo.length]! * 3_600_000)
+        : undefined
       await db.transaction(async (tx) => {
         const { shopSlug: _shop, parts, pulls: _pulls, publishedDaysAgo: _days, ...columns } = b
         const [row] = await tx.insert(builds).values({
@@ -113,11 +120,13 @@ export async function seedDemo(opts: { url: string, uploadsDir: string }): Promi
             comparisonRole: r.pull.comparisonRole ?? null,
             changeKind: r.pull.changeKind ?? null,
             changeNote: r.pull.changeNote ?? null,
+            createdAt: r.pull.status === 'submitted' ? submittedAt : undefined,
           })
         }
       })
       created++
     }
+    await seedDemoDeals(db)
     return { builds: all.length, created }
   }
   finally {

@@ -1,8 +1,9 @@
 import type { ServiceConfig } from './config'
 import { startMailCatcher, stopMailCatcher } from './mail'
 import { startMariadb, stopMariadb } from './mariadb'
+import { startPaymentsFake, stopPaymentsFake } from './payments'
 
-/** One local service the app depends on. The payment fake joins this list with the deals work. */
+/** One local service the app depends on. */
 export interface LocalService {
   name: string
   start: (cfg: ServiceConfig) => Promise<boolean>
@@ -11,9 +12,10 @@ export interface LocalService {
 
 export const mariadb: LocalService = { name: 'MariaDB', start: startMariadb, stop: stopMariadb }
 export const mailCatcher: LocalService = { name: 'mail catcher', start: startMailCatcher, stop: stopMailCatcher }
+export const paymentsFake: LocalService = { name: 'payments fake', start: startPaymentsFake, stop: stopPaymentsFake }
 
 /** Everything `npm run demo` and `npm run dev` bring up, in start order. */
-export const developmentServices: LocalService[] = [mariadb, mailCatcher]
+export const developmentServices: LocalService[] = [mariadb, mailCatcher, paymentsFake]
 
 /** Starts the given services; returns those this call started, so the caller stops only what it started. */
 export async function startServices(cfg: ServiceConfig, list: LocalService[]): Promise<LocalService[]> {

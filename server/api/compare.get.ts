@@ -14,7 +14,7 @@ export default defineEventHandler(async (event) => {
     const build = id ? await getPublishedBuild(db, slug) : null
     if (!id || !build) throw createError({ status: 404, message: `No published build has the address "${slug}".` })
     const curves = await curvesForBuild(db, readUploadText, id, slug, standard as CorrectionStandard)
-    const { parts: _parts, pulls: _pulls, ...summary } = build
+    const { parts: _parts, pulls: _pulls, photos: _photos, ...summary } = build
     out.push({ build: summary, pull: curves.pulls[0] ?? null })
   }
   return { standard, builds: out }

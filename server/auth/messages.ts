@@ -7,7 +7,7 @@ export interface MailBody {
 
 const escapeHtml = (s: string) => s.replace(/[&<>"']/g, c => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', '\'': '&#39;' })[c]!)
 
-function compose(subject: string, greeting: string, paragraphs: string[], action?: { label: string, url: string }, footer?: string): MailBody {
+export function compose(subject: string, greeting: string, paragraphs: string[], action?: { label: string, url: string }, footer?: string): MailBody {
   const text = [greeting, '', ...paragraphs.flatMap(p => [p, '']), ...(action ? [`${action.label}: ${action.url}`, ''] : []), footer ?? '', '— Torquewright'].join('\n')
   const html = [
     `<p>${escapeHtml(greeting)}</p>`,

@@ -1,8 +1,10 @@
 import { sql } from 'drizzle-orm'
 import {
-  bigint, char, datetime, decimal, double, index, int, json, mysqlEnum, mysqlTable, text, uniqueIndex, varchar,
+  bigint, boolean, char, check, date, datetime, decimal, double, index, int, json, mysqlEnum, mysqlTable, text, uniqueIndex, varchar,
 } from 'drizzle-orm/mysql-core'
+import { REQUIRED_FOR_PUBLISH } from '../../shared/schemas/build'
 import type { EvidenceCheck } from '../../shared/engine/types'
+import { MILESTONE_STATES, TRANSMISSIONS } from '../../shared/deals/constants'
 import type { PullSummaryFigures } from '../../shared/pulls/summary'
 
 /** Shared column shapes, so every table spells them once. */
@@ -60,33 +62,35 @@ export const builds = mysqlTable('builds', {
   builderId: ref('builder_id').notNull().references(() => builderProfiles.id, { onDelete: 'cascade' }),
   slug: varchar('slug', { length: 160 }).notNull(),
   title: varchar('title', { length: 160 }).notNull(),
-  summary: text('summary').notNull(),
-  engineFamily: varchar('engine_family', { length: 60 }).notNull(),
-  cylinders: int('cylinders').notNull(),
-  boreIn: inches('bore_in').notNull(),
-  strokeIn: inches('stroke_in').notNull(),
-  rodLengthIn: inches('rod_length_in').notNull(),
-  cylinderHeads: varchar('cylinder_heads', { length: 160 }).notNull(),
-  chamberCc: cc('chamber_cc').notNull(),
-  pistonCc: cc('piston_cc').notNull(),
-  gasketBoreIn: inches('gasket_bore_in').notNull(),
-  gasketThicknessIn: inches('gasket_thickness_in').notNull(),
-  deckClearanceIn: inches('deck_clearance_in').notNull(),
-  camIntakeDurationDeg: degrees('cam_intake_duration_deg').notNull(),
-  camExhaustDurationDeg: degrees('cam_exhaust_duration_deg').notNull(),
-  camIntakeLiftIn: inches('cam_intake_lift_in').notNull(),
-  camExhaustLiftIn: inches('cam_exhaust_lift_in').notNull(),
-  camLobeSeparationDeg: degrees('cam_lobe_separation_deg').notNull(),
-  camIntakeCenterlineDeg: degrees('cam_intake_centerline_deg').notNull(),
-  intakeManifold: varchar('intake_manifold', { length: 160 }).notNull(),
-  throttleBody: varchar('throttle_body', { length: 80 }).notNull(),
+  // The combination may be NULL only while the listing is a draft: publishing checks it with
+  // shared/schemas/build.ts and the builds_published_complete constraint below holds it in the table.
+  summary: text('summary'),
+  engineFamily: varchar('engine_family', { length: 60 }),
+  cylinders: int('cylinders'),
+  boreIn: inches('bore_in'),
+  strokeIn: inches('stroke_in'),
+  rodLengthIn: inches('rod_length_in'),
+  cylinderHeads: varchar('cylinder_heads', { length: 160 }),
+  chamberCc: cc('chamber_cc'),
+  pistonCc: cc('piston_cc'),
+  gasketBoreIn: inches('gasket_bore_in'),
+  gasketThicknessIn: inches('gasket_thickness_in'),
+  deckClearanceIn: inches('deck_clearance_in'),
+  camIntakeDurationDeg: degrees('cam_intake_duration_deg'),
+  camExhaustDurationDeg: degrees('cam_exhaust_duration_deg'),
+  camIntakeLiftIn: inches('cam_intake_lift_in'),
+  camExhaustLiftIn: inches('cam_exhaust_lift_in'),
+  camLobeSeparationDeg: degrees('cam_lobe_separation_deg'),
+  camIntakeCenterlineDeg: degrees('cam_intake_centerline_deg'),
+  intakeManifold: varchar('intake_manifold', { length: 160 }),
+  throttleBody: varchar('throttle_body', { length: 80 }),
   injectorSizeLbHr: decimal('injector_size_lb_hr', { precision: 6, scale: 1, mode: 'number' }),
   injectorCount: int('injector_count'),
-  fuel: mysqlEnum('fuel', fuels).notNull(),
-  aspiration: mysqlEnum('aspiration', aspirations).notNull(),
-  engineManagement: varchar('engine_management', { length: 120 }).notNull(),
-  intendedUse: mysqlEnum('intended_use', uses).notNull(),
-  priceCents: bigint('price_cents', { mode: 'number', unsigned: true }).notNull(),
+  fuel: mysqlEnum('fuel', fuels),
+  aspiration: mysqlEnum('aspiration', aspirations),
+  engineManagement: varchar('engine_management', { length: 120 }),
+  intendedUse: mysqlEnum('intended_use', uses),
+  priceCents: bigint('price_cents', { mode: 'number', unsigned: true }),
   status: mysqlEnum('status', buildStatuses).notNull().default('draft'),
   publishedAt: datetime('published_at', { mode: 'date', fsp: 3 }),
   // Denormalised from the verified (or best submitted) pull, under SAE J1349 (2004).
@@ -101,6 +105,7 @@ export const builds = mysqlTable('builds', {
   uniqueIndex('builds_slug_unique').on(t.slug),
   index('builds_builder_idx').on(t.builderId),
   index('builds_status_idx').on(t.status),
+  check('builds_published_complete', sql`${t.status} <> 'published' OR (${sql.join(REQUIRED_FOR_PUBLISH.map(k => sql`${t[k]} IS NOT NULL`), sql` AND `)})`),
 ])
 
 export const buildParts = mysqlTable('build_parts', {
@@ -166,6 +171,20 @@ export const dynoPulls = mysqlTable('dyno_pulls', {
   index('dyno_pulls_status_idx').on(t.status, t.createdAt),
 ])
 
+// ── Listing editor: a build's photos, in the order the builder set ──
+
+export const buildPhotos = mysqlTable('build_photos', {
+  id: id(),
+  buildId: ref('build_id').notNull().references(() => builds.id, { onDelete: 'cascade' }),
+  fileId: ref('file_id').notNull().references(() => files.id),
+  position: int('position').notNull(),
+  caption: varchar('caption', { length: 160 }).notNull().default(''),
+  createdAt: createdAt(),
+}, t => [
+  index('build_photos_build_idx').on(t.buildId, t.position),
+  uniqueIndex('build_photos_file_unique').on(t.fileId),
+])
+
 export type User = typeof users.$inferSelect
 export type NewUser = typeof users.$inferInsert
 export type BuilderProfile = typeof builderProfiles.$inferSelect
@@ -174,6 +193,7 @@ export type NewBuild = typeof builds.$inferInsert
 export type BuildPart = typeof buildParts.$inferSelect
 export type StoredFile = typeof files.$inferSelect
 export type DynoPull = typeof dynoPulls.$inferSelect
+export type BuildPhoto = typeof buildPhotos.$inferSelect
 
 // ── Audit: every privileged action, written in the same transaction as the change ──
 
@@ -191,6 +211,8 @@ export const auditLog = mysqlTable('audit_log', {
   index('audit_log_entity_idx').on(t.entityType, t.entityId),
   index('audit_log_created_idx').on(t.createdAt),
   index('audit_log_actor_idx').on(t.actorId),
+  // The admin page filters by action and lists the actions on record.
+  index('audit_log_action_idx').on(t.action, t.createdAt),
 ])
 
 export type AuditEntry = typeof auditLog.$inferSelect
@@ -223,3 +245,307 @@ export const rateLimitBuckets = mysqlTable('rate_limit_buckets', {
   tokens: double('tokens').notNull(),
   updatedAt: datetime('updated_at', { mode: 'date', fsp: 3 }).notNull(),
 }, t => [index('rate_limit_buckets_updated_idx').on(t.updatedAt)])
+
+// ─── Deals: quote requests, messages, quotes, orders, milestones, payments, outbox ─────────────
+
+export const transmissions = TRANSMISSIONS
+export const requestStatuses = ['open', 'quoted', 'accepted', 'declined', 'withdrawn'] as const
+export const quoteStatuses = ['sent', 'accepted', 'declined', 'withdrawn'] as const
+export const orderStatuses = ['active', 'completed', 'cancelled'] as const
+export const milestoneStates = MILESTONE_STATES
+export const paymentKinds = ['checkout', 'refund', 'transfer'] as const
+export const paymentStatuses = ['open', 'succeeded', 'failed', 'expired'] as const
+export const deliveryPullStatuses = ['verified', 'rejected'] as const
+
+const cents = (name: string) => bigint(name, { mode: 'number', unsigned: true })
+const day = (name: string) => date(name, { mode: 'string' })
+const at = (name: string) => datetime(name, { mode: 'date', fsp: 3 })
+
+/** A racer's request for a quote, to one shop, optionally from one of its build listings. */
+export const quoteRequests = mysqlTable('quote_requests', {
+  id: id(),
+  racerId: ref('racer_id').notNull().references(() => users.id),
+  builderId: ref('builder_id').notNull().references(() => builderProfiles.id),
+  buildId: ref('build_id').references(() => builds.id, { onDelete: 'set null' }),
+  title: varchar('title', { length: 160 }).notNull(),
+  targetHp: figure('target_hp').notNull(),
+  targetTq: figure('target_tq'),
+  targetStandard: varchar('target_standard', { length: 20 }).notNull(),
+  displacementCapCi: decimal('displacement_cap_ci', { precision: 6, scale: 1, mode: 'number' }),
+  fuel: mysqlEnum('fuel', fuels).notNull(),
+  aspiration: mysqlEnum('aspiration', aspirations).notNull(),
+  intendedUse: mysqlEnum('intended_use', uses).notNull(),
+  transmission: mysqlEnum('transmission', transmissions).notNull(),
+  stallRpm: int('stall_rpm', { unsigned: true }),
+  shiftRpm: int('shift_rpm', { unsigned: true }),
+  budgetMinCents: cents('budget_min_cents').notNull(),
+  budgetMaxCents: cents('budget_max_cents').notNull(),
+  deadline: day('deadline'),
+  notes: text('notes').notNull(),
+  status: mysqlEnum('status', requestStatuses).notNull().default('open'),
+  lastMessageAt: at('last_message_at').notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+  createdAt: createdAt(),
+  updatedAt: updatedAt(),
+}, t => [
+  index('quote_requests_racer_idx').on(t.racerId, t.lastMessageAt),
+  index('quote_requests_builder_idx').on(t.builderId, t.lastMessageAt),
+])
+
+/** The thread of a request: messages both ways, and notes the system adds when the deal moves. */
+export const requestMessages = mysqlTable('request_messages', {
+  id: id(),
+  requestId: ref('request_id').notNull().references(() => quoteRequests.id, { onDelete: 'cascade' }),
+  senderId: ref('sender_id').references(() => users.id),
+  kind: mysqlEnum('kind', ['message', 'event']).notNull().default('message'),
+  body: text('body').notNull(),
+  createdAt: createdAt(),
+}, t => [index('request_messages_thread_idx').on(t.requestId, t.id)])
+
+/** Files on a request (message_id null: sent with the request itself) or on one message. */
+export const requestAttachments = mysqlTable('request_attachments', {
+  id: id(),
+  requestId: ref('request_id').notNull().references(() => quoteRequests.id, { onDelete: 'cascade' }),
+  messageId: ref('message_id').references(() => requestMessages.id, { onDelete: 'cascade' }),
+  fileId: ref('file_id').notNull().references(() => files.id),
+}, t => [
+  index('request_attachments_request_idx').on(t.requestId),
+  uniqueIndex('request_attachments_file_unique').on(t.fileId),
+])
+
+/** How far each party has read each thread, for unread counts. */
+export const messageReads = mysqlTable('message_reads', {
+  id: id(),
+  requestId: ref('request_id').notNull().references(() => quoteRequests.id, { onDelete: 'cascade' }),
+  userId: ref('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
+  lastReadMessageId: ref('last_read_message_id').notNull().default(0),
+  lastSeenAt: at('last_seen_at').notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+}, t => [uniqueIndex('message_reads_unique').on(t.requestId, t.userId)])
+
+/** A shop's quote on a request; its figures live in revisions, the newest being current. */
+export const quotes = mysqlTable('quotes', {
+  id: id(),
+  requestId: ref('request_id').notNull().references(() => quoteRequests.id, { onDelete: 'cascade' }),
+  builderId: ref('builder_id').notNull().references(() => builderProfiles.id),
+  status: mysqlEnum('status', quoteStatuses).notNull().default('sent'),
+  currentRevision: int('current_revision', { unsigned: true }).notNull().default(1),
+  createdAt: createdAt(),
+  updatedAt: updatedAt(),
+}, t => [uniqueIndex('quotes_request_unique').on(t.requestId)])
+
+export const quoteRevisions = mysqlTable('quote_revisions', {
+  id: id(),
+  quoteId: ref('quote_id').notNull().references(() => quotes.id, { onDelete: 'cascade' }),
+  revision: int('revision', { unsigned: true }).notNull(),
+  totalCents: cents('total_cents').notNull(),
+  platformFeeBp: int('platform_fee_bp', { unsigned: true }).notNull(),
+  platformFeeCents: cents('platform_fee_cents').notNull(),
+  validUntil: day('valid_until').notNull(),
+  notes: text('notes').notNull(),
+  guaranteeHp: figure('guarantee_hp'),
+  guaranteeTolerancePct: decimal('guarantee_tolerance_pct', { precision: 4, scale: 1, mode: 'number' }),
+  guaranteeStandard: varchar('guarantee_standard', { length: 20 }),
+  createdAt: createdAt(),
+}, t => [uniqueIndex('quote_revisions_unique').on(t.quoteId, t.revision)])
+
+export const quoteLineItems = mysqlTable('quote_line_items', {
+  id: id(),
+  revisionId: ref('revision_id').notNull().references(() => quoteRevisions.id, { onDelete: 'cascade' }),
+  position: int('position', { unsigned: true }).notNull(),
+  category: varchar('category', { length: 60 }).notNull(),
+  description: varchar('description', { length: 200 }).notNull(),
+  partNumber: varchar('part_number', { length: 80 }).notNull().default(''),
+  quantity: int('quantity', { unsigned: true }).notNull(),
+  unitPriceCents: cents('unit_price_cents').notNull(),
+}, t => [uniqueIndex('quote_line_items_position_unique').on(t.revisionId, t.position)])
+
+export const quoteMilestones = mysqlTable('quote_milestones', {
+  id: id(),
+  revisionId: ref('revision_id').notNull().references(() => quoteRevisions.id, { onDelete: 'cascade' }),
+  position: int('position', { unsigned: true }).notNull(),
+  title: varchar('title', { length: 120 }).notNull(),
+  deliverable: text('deliverable').notNull(),
+  amountCents: cents('amount_cents').notNull(),
+  dueDate: day('due_date').notNull(),
+}, t => [uniqueIndex('quote_milestones_position_unique').on(t.revisionId, t.position)])
+
+/** An accepted quote: the work the racer is paying for, milestone by milestone. */
+export const orders = mysqlTable('orders', {
+  id: id(),
+  requestId: ref('request_id').notNull().references(() => quoteRequests.id),
+  quoteId: ref('quote_id').notNull().references(() => quotes.id),
+  revisionId: ref('revision_id').notNull().references(() => quoteRevisions.id),
+  racerId: ref('racer_id').notNull().references(() => users.id),
+  builderId: ref('builder_id').notNull().references(() => builderProfiles.id),
+  totalCents: cents('total_cents').notNull(),
+  platformFeeCents: cents('platform_fee_cents').notNull(),
+  currency: char('currency', { length: 3 }).notNull().default('usd'),
+  status: mysqlEnum('status', orderStatuses).notNull().default('active'),
+  cancelledAt: at('cancelled_at'),
+  cancelledBy: ref('cancelled_by').references(() => users.id),
+  completedAt: at('completed_at'),
+  createdAt: createdAt(),
+  updatedAt: updatedAt(),
+}, t => [
+  uniqueIndex('orders_request_unique').on(t.requestId),
+  index('orders_racer_idx').on(t.racerId),
+  index('orders_builder_idx').on(t.builderId),
+])
+
+/** One milestone of an order: its money moves only through the state column, checked in a locked transaction. */
+export const milestones = mysqlTable('milestones', {
+  id: id(),
+  orderId: ref('order_id').notNull().references(() => orders.id),
+  position: int('position', { unsigned: true }).notNull(),
+  title: varchar('title', { length: 120 }).notNull(),
+  deliverable: text('deliverable').notNull(),
+  amountCents: cents('amount_cents').notNull(),
+  feeCents: cents('fee_cents').notNull(),
+  dueDate: day('due_date').notNull(),
+  guaranteed: boolean('guaranteed').notNull().default(false),
+  state: mysqlEnum('state', milestoneStates).notNull().default('awaiting_payment'),
+  checkoutAttempt: int('checkout_attempt', { unsigned: true }).notNull().default(0),
+  submissionNotes: text('submission_notes'),
+  deliveryPullId: ref('delivery_pull_id'),
+  disputeReason: text('dispute_reason'),
+  autoApproved: boolean('auto_approved').notNull().default(false),
+  fundedAt: at('funded_at'),
+  submittedAt: at('submitted_at'),
+  approvedAt: at('approved_at'),
+  releasedAt: at('released_at'),
+  disputedAt: at('disputed_at'),
+  refundedAt: at('refunded_at'),
+  createdAt: createdAt(),
+  updatedAt: updatedAt(),
+}, t => [
+  uniqueIndex('milestones_position_unique').on(t.orderId, t.position),
+  index('milestones_state_idx').on(t.state, t.submittedAt),
+])
+
+/** Photos and files a builder sends as proof with a submitted milestone. */
+export const milestoneProofs = mysqlTable('milestone_proofs', {
+  id: id(),
+  milestoneId: ref('milestone_id').notNull().references(() => milestones.id, { onDelete: 'cascade' }),
+  fileId: ref('file_id').notNull().references(() => files.id),
+}, t => [uniqueIndex('milestone_proofs_file_unique').on(t.fileId)])
+
+/** The pull a guaranteed milestone is delivered against, with its figures under the quoted standard. */
+export const deliveryPulls = mysqlTable('delivery_pulls', {
+  id: id(),
+  milestoneId: ref('milestone_id').notNull().references(() => milestones.id, { onDelete: 'cascade' }),
+  fileId: ref('file_id').notNull().references(() => files.id),
+  declaredStandard: varchar('declared_standard', { length: 20 }).notNull(),
+  baroInHg: decimal('baro_in_hg', { precision: 5, scale: 2, mode: 'number' }),
+  airTempF: decimal('air_temp_f', { precision: 5, scale: 1, mode: 'number' }),
+  humidityPct: decimal('humidity_pct', { precision: 4, scale: 1, mode: 'number' }),
+  boreIn: inches('bore_in').notNull(),
+  strokeIn: inches('stroke_in').notNull(),
+  cylinders: int('cylinders').notNull(),
+  report: json('report').$type<DeliveryReport>().notNull(),
+  status: mysqlEnum('status', deliveryPullStatuses).notNull(),
+  meetsTarget: boolean('meets_target').notNull(),
+  createdAt: createdAt(),
+}, t => [index('delivery_pulls_milestone_idx').on(t.milestoneId)])
+
+/** Money moving for a milestone, with the Stripe ids: a Checkout Session, a refund or a transfer. */
+export const payments = mysqlTable('payments', {
+  id: id(),
+  milestoneId: ref('milestone_id').notNull().references(() => milestones.id),
+  kind: mysqlEnum('kind', paymentKinds).notNull(),
+  status: mysqlEnum('status', paymentStatuses).notNull(),
+  amountCents: cents('amount_cents').notNull(),
+  currency: char('currency', { length: 3 }).notNull().default('usd'),
+  attempt: int('attempt', { unsigned: true }).notNull().default(0),
+  stripeCheckoutSessionId: varchar('stripe_checkout_session_id', { length: 255 }),
+  stripePaymentIntentId: varchar('stripe_payment_intent_id', { length: 255 }),
+  stripeChargeId: varchar('stripe_charge_id', { length: 255 }),
+  stripeRefundId: varchar('stripe_refund_id', { length: 255 }),
+  stripeTransferId: varchar('stripe_transfer_id', { length: 255 }),
+  checkoutUrl: varchar('checkout_url', { length: 1000 }),
+  failureMessage: varchar('failure_message', { length: 500 }),
+  createdAt: createdAt(),
+  updatedAt: updatedAt(),
+}, t => [
+  index('payments_milestone_idx').on(t.milestoneId, t.kind),
+  uniqueIndex('payments_checkout_unique').on(t.stripeCheckoutSessionId),
+  uniqueIndex('payments_refund_unique').on(t.stripeRefundId),
+  uniqueIndex('payments_transfer_unique').on(t.stripeTransferId),
+  index('payments_intent_idx').on(t.stripePaymentIntentId),
+])
+
+/** The builder's connected account that releases are transferred to. */
+export const payoutAccounts = mysqlTable('payout_accounts', {
+  id: id(),
+  builderId: ref('builder_id').notNull().references(() => builderProfiles.id, { onDelete: 'cascade' }),
+  stripeAccountId: varchar('stripe_account_id', { length: 255 }).notNull(),
+  createdAt: createdAt(),
+}, t => [
+  uniqueIndex('payout_accounts_builder_unique').on(t.builderId),
+  uniqueIndex('payout_accounts_stripe_unique').on(t.stripeAccountId),
+])
+
+/** Every webhook event id processed once: the unique key is the guard against replays and duplicates. */
+export const stripeEvents = mysqlTable('stripe_events', {
+  id: id(),
+  eventId: varchar('event_id', { length: 255 }).notNull(),
+  type: varchar('type', { length: 100 }).notNull(),
+  outcome: varchar('outcome', { length: 500 }).notNull(),
+  processedAt: createdAt(),
+}, t => [uniqueIndex('stripe_events_event_unique').on(t.eventId)])
+
+/** Who moved a deal and how, in order: the order page's history and the audit trail of money. */
+export const dealEvents = mysqlTable('deal_events', {
+  id: id(),
+  requestId: ref('request_id').notNull().references(() => quoteRequests.id, { onDelete: 'cascade' }),
+  orderId: ref('order_id').references(() => orders.id),
+  milestoneId: ref('milestone_id').references(() => milestones.id),
+  actorId: ref('actor_id').references(() => users.id),
+  action: varchar('action', { length: 60 }).notNull(),
+  detail: varchar('detail', { length: 500 }).notNull().default(''),
+  createdAt: createdAt(),
+}, t => [index('deal_events_request_idx').on(t.requestId, t.id)])
+
+/** E-mail waiting to go out: written in the same transaction as the change it reports, sent and retried by the drainer. */
+export const mailOutbox = mysqlTable('mail_outbox', {
+  id: id(),
+  dedupeKey: varchar('dedupe_key', { length: 191 }),
+  toAddress: varchar('to_address', { length: 254 }).notNull(),
+  subject: varchar('subject', { length: 200 }).notNull(),
+  text: text('text').notNull(),
+  html: text('html').notNull(),
+  attempts: int('attempts', { unsigned: true }).notNull().default(0),
+  nextAttemptAt: at('next_attempt_at').notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+  sentAt: at('sent_at'),
+  lastError: varchar('last_error', { length: 1000 }),
+  createdAt: createdAt(),
+}, t => [
+  uniqueIndex('mail_outbox_dedupe_unique').on(t.dedupeKey),
+  index('mail_outbox_due_idx').on(t.sentAt, t.nextAttemptAt),
+])
+
+/** What the server found in a delivery pull: figures under the quoted standard and the evidence checks. */
+export interface DeliveryReport {
+  standard: string
+  peakHp: number
+  peakHpRpm: number
+  peakTq: number
+  peakTqRpm: number
+  uncorrected: boolean
+  displacementCi: number
+  targetHp: number | null
+  minimumHp: number | null
+  checks: { id: string, outcome: 'pass' | 'warn' | 'fail', message: string }[]
+  reasons: string[]
+}
+
+export type QuoteRequest = typeof quoteRequests.$inferSelect
+export type RequestMessage = typeof requestMessages.$inferSelect
+export type Quote = typeof quotes.$inferSelect
+export type QuoteRevision = typeof quoteRevisions.$inferSelect
+export type QuoteLineItem = typeof quoteLineItems.$inferSelect
+export type QuoteMilestone = typeof quoteMilestones.$inferSelect
+export type Order = typeof orders.$inferSelect
+export type Milestone = typeof milestones.$inferSelect
+export type MilestoneState = Milestone['state']
+export type Payment = typeof payments.$inferSelect
+export type DeliveryPull = typeof deliveryPulls.$inferSelect
+export type OutboxMail = typeof mailOutbox.$inferSelect

@@ -1,13 +1,26 @@
+import { createError } from 'h3'
 import { and, asc, count, desc, eq, inArray } from 'drizzle-orm'
 import { displacementCi } from '#shared/engine/geometry'
 import type { BuildDetail, BuilderFigures, BuilderProfileDetail, BuildSummary, Page, PullSummaryRow } from '#shared/types/listings'
 import type { Pagination } from '#shared/schemas/common'
-import { builderProfiles, buildParts, builds, dynoPulls, type Build, type BuilderProfile } from '../database/schema'
+import { REQUIRED_FOR_PUBLISH, type CombinationField } from '#shared/schemas/build'
+import { builderProfiles, buildParts, buildPhotos, builds, dynoPulls, type Build, type BuilderProfile } from '../database/schema'
 import type { Database } from '../database/types'
 
 const summaryColumns = { build: builds, builder: builderProfiles }
 
-function toSummary(build: Build, builder: BuilderProfile): BuildSummary {
+/** A build whose combination is complete, as every published row is (builds_published_complete holds it in the table). */
+export type PublishedBuild = Build & { [K in CombinationField]: NonNullable<Build[K]> }
+
+/** Narrows a published row to its complete type; a row that breaks the rule is a server fault, not bad input. */
+export function asPublished(build: Build): PublishedBuild {
+  const missing = REQUIRED_FOR_PUBLISH.filter(k => build[k] === null)
+  if (missing.length) throw createError({ status: 500, message: `Build ${build.id} is listed but lacks ${missing.join(', ')}.` })
+  return build as PublishedBuild
+}
+
+function toSummary(row: Build, builder: BuilderProfile): BuildSummary {
+  const build = asPublished(row)
   return {
     slug: build.slug,
     title: build.title,
@@ -48,10 +61,11 @@ export async function getPublishedBuild(db: Database, slug: string): Promise<Bui
     .where(and(eq(builds.slug, slug), eq(builds.status, 'published')))
     .limit(1)
   if (!row) return null
-  const { build } = row
-  const [parts, pulls] = await Promise.all([
+  const build = asPublished(row.build)
+  const [parts, pulls, photos] = await Promise.all([
     db.select().from(buildParts).where(eq(buildParts.buildId, build.id)).orderBy(asc(buildParts.position)),
     db.select().from(dynoPulls).where(eq(dynoPulls.buildId, build.id)).orderBy(asc(dynoPulls.id)),
+    db.select().from(buildPhotos).where(eq(buildPhotos.buildId, build.id)).orderBy(asc(buildPhotos.position), asc(buildPhotos.id)),
   ])
   return {
     ...toSummary(build, row.builder),
@@ -77,6 +91,7 @@ export async function getPublishedBuild(db: Database, slug: string): Promise<Bui
     injectorCount: build.injectorCount,
     engineManagement: build.engineManagement,
     publishedAt: build.publishedAt?.toISOString() ?? null,
+    photos: photos.map(p => ({ id: p.id, caption: p.caption, url: `/api/builds/${build.slug}/photos/${p.id}` })),
     parts: parts.map(p => ({
       position: p.position, category: p.category, part: p.part, partNumber: p.partNumber, quantity: p.quantity, unitPriceCents: p.unitPriceCents,
     })),

@@ -12,10 +12,12 @@ export async function listOwnBuilds(db: Database, builderId: number): Promise<Ow
     .groupBy(builds.id)
     .orderBy(desc(builds.updatedAt), desc(builds.id))
   return rows.map(({ build, pulls }) => ({
+    id: build.id,
     slug: build.slug,
     title: build.title,
     status: build.status,
-    displacementCi: displacementCi(build.boreIn, build.strokeIn, build.cylinders),
+    // A draft may not have its bore, stroke or cylinders yet.
+    displacementCi: build.boreIn !== null && build.strokeIn !== null && build.cylinders !== null ? displacementCi(build.boreIn, build.strokeIn, build.cylinders) : null,
     peakHp: build.peakHp,
     peakTq: build.peakTq,
     verified: build.verifiedAt !== null,

@@ -1,40 +1,260 @@
 import { createError } from 'h3'
-import { and, asc, eq } from 'drizzle-orm'
-import { builderProfiles, builds, dynoPulls, users } from '../database/schema'
+import type { PublishedBuild } from './listings'
+import { REQUIRED_FOR_PUBLISH } from '#shared/schemas/build'
+import { and, asc, count, desc, eq, inArray, ne } from 'drizzle-orm'
+import {
+  CORRECTION_STANDARDS, FINGERPRINT_TOLERANCE, convertCurve, displacementCi, evidenceOutcome, fingerprintDistance, parsePull, peaks, torqueAt,
+  type CorrectionStandard, type EvidenceCheck, type EvidenceOutcome, type PullPoint,
+} from '../../shared/engine'
+import { LISTING_STANDARD } from '../../shared/pulls/summary'
+import type { DuplicateLink, EvidenceQueueItem, EvidenceReview, PeakFigures } from '../../shared/types/admin'
+import { builderProfiles, builds, dynoPulls, files, users, type Build, type DynoPull } from '../database/schema'
 import type { Database } from '../database/types'
 import { writeAudit } from './audit'
 
-/** The admin's queue: submitted pulls, oldest first, with their build and shop. */
-export async function evidenceQueue(db: Database) {
-  return db.select({
-    pullId: dynoPulls.id,
-    label: dynoPulls.label,
-    submittedAt: dynoPulls.createdAt,
-    summary: dynoPulls.summary,
-    checks: dynoPulls.checks,
-    buildId: builds.id,
-    buildSlug: builds.slug,
-    buildTitle: builds.title,
-    shopName: builderProfiles.shopName,
-    shopSlug: builderProfiles.slug,
-  }).from(dynoPulls)
+type Tx = Parameters<Parameters<Database['transaction']>[0]>[0]
+/** Reads a stored file's text by its storage key (Nitro storage on the server, the uploads folder in tests). */
+export type ReadStoredText = (storageKey: string) => Promise<string | null>
+
+const one = (n: number) => Math.round(n * 10) / 10
+const standardLabel = (id: string) => CORRECTION_STANDARDS.find(s => s.id === id)?.label ?? id
+/** The review page shows the first lines of the raw file; the whole file is a download. */
+const PREVIEW_LINES = 60
+/** A chart of more points than this shows every n-th sample (the raw values, not interpolated ones). */
+const CHART_POINTS = 600
+
+const duplicateCheck = (checks: EvidenceCheck[] | null) => checks?.find(c => c.id === 'duplicate-curve')
+
+function weatherOf(p: DynoPull) {
+  return p.baroInHg !== null && p.airTempF !== null && p.humidityPct !== null
+    ? { baroInHg: p.baroInHg, airTempF: p.airTempF, humidityPct: p.humidityPct }
+    : null
+}
+
+/** Builds with the given ids, as duplicate links. */
+async function linksFor(db: Database, found: { buildId: number, outcome: EvidenceOutcome }[]): Promise<DuplicateLink[]> {
+  if (!found.length) return []
+  const rows = await db.select({ id: builds.id, slug: builds.slug, title: builds.title, status: builds.status, shopName: builderProfiles.shopName })
+    .from(builds).innerJoin(builderProfiles, eq(builderProfiles.id, builds.builderId))
+    .where(inArray(builds.id, found.map(f => f.buildId)))
+  const byId = new Map(rows.map(r => [r.id, r]))
+  return found.flatMap((f) => {
+    const b = byId.get(f.buildId)
+    return b ? [{ buildId: b.id, slug: b.slug, title: b.title, status: b.status, shopName: b.shopName, outcome: f.outcome }] : []
+  })
+}
+
+/** Other builds whose stored curves match this fingerprint now (closest first), within twice the tolerance. */
+async function matchingBuilds(db: Database, pull: Pick<DynoPull, 'buildId' | 'fingerprint'>): Promise<{ buildId: number, pullId: number, outcome: EvidenceOutcome }[]> {
+  if (!pull.fingerprint) return []
+  const others = await db.select({ id: dynoPulls.id, buildId: dynoPulls.buildId, fingerprint: dynoPulls.fingerprint }).from(dynoPulls)
+    .where(and(ne(dynoPulls.buildId, pull.buildId), inArray(dynoPulls.status, ['submitted', 'verified'])))
+  const best = new Map<number, { pullId: number, distance: number }>()
+  for (const o of others) {
+    if (!o.fingerprint) continue
+    let distance: number
+    try {
+      distance = fingerprintDistance(pull.fingerprint, o.fingerprint)
+    }
+    catch {
+      continue
+    }
+    if (!(distance <= 2 * FINGERPRINT_TOLERANCE)) continue
+    const seen = best.get(o.buildId)
+    if (!seen || distance < seen.distance) best.set(o.buildId, { pullId: o.id, distance })
+  }
+  return [...best].sort((a, b) => a[1].distance - b[1].distance)
+    .map(([buildId, m]) => ({ buildId, pullId: m.pullId, outcome: m.distance <= FINGERPRINT_TOLERANCE ? 'fail' as const : 'warn' as const }))
+}
+
+/** The admin's queue: submitted pulls, oldest first, with their build, shop, flagged checks and the build a duplicate matches. */
+export async function evidenceQueue(db: Database): Promise<EvidenceQueueItem[]> {
+  const rows = await db.select({ pull: dynoPulls, build: builds, shopName: builderProfiles.shopName, shopSlug: builderProfiles.slug })
+    .from(dynoPulls)
     .innerJoin(builds, eq(builds.id, dynoPulls.buildId))
     .innerJoin(builderProfiles, eq(builderProfiles.id, builds.builderId))
     .where(eq(dynoPulls.status, 'submitted'))
     .orderBy(asc(dynoPulls.createdAt), asc(dynoPulls.id))
+  if (!rows.length) return []
+  const rejections = await db.select({ buildId: dynoPulls.buildId, n: count() }).from(dynoPulls)
+    .where(and(inArray(dynoPulls.buildId, [...new Set(rows.map(r => r.build.id))]), eq(dynoPulls.status, 'rejected')))
+    .groupBy(dynoPulls.buildId)
+  const rejected = new Map(rejections.map(r => [r.buildId, r.n]))
+
+  // The duplicate check names the nearest build in its figures; a report stored before it did is matched afresh.
+  const wanted: { pullId: number, buildId: number, outcome: EvidenceOutcome }[] = []
+  for (const { pull } of rows) {
+    const dup = duplicateCheck(pull.checks)
+    if (!dup || dup.outcome === 'pass') continue
+    const named = dup.figures.closestBuildId
+    const buildId = typeof named === 'number' ? named : (await matchingBuilds(db, pull))[0]?.buildId
+    if (buildId) wanted.push({ pullId: pull.id, buildId, outcome: dup.outcome })
+  }
+  const links = await linksFor(db, wanted)
+  const linkFor = (pullId: number) => {
+    const w = wanted.find(x => x.pullId === pullId)
+    return w ? links.find(l => l.buildId === w.buildId) ?? null : null
+  }
+
+  return rows.map(({ pull, build, shopName, shopSlug }) => {
+    const checks = pull.checks ?? []
+    return {
+      pullId: pull.id,
+      label: pull.label,
+      submittedAt: pull.createdAt.toISOString(),
+      build: { id: build.id, slug: build.slug, title: build.title, status: build.status, verified: build.verifiedAt !== null },
+      shop: { slug: shopSlug, shopName },
+      outcome: checks.length ? evidenceOutcome(checks) : 'warn',
+      flagged: checks.filter(c => c.outcome !== 'pass').map(c => ({ id: c.id, outcome: c.outcome })),
+      duplicate: linkFor(pull.id),
+      earlierRejections: rejected.get(build.id) ?? 0,
+    }
+  })
+}
+
+/** Every n-th point so a chart stays light; the last point always stays. */
+function thin(points: PullPoint[]): PullPoint[] {
+  if (points.length <= CHART_POINTS) return points
+  const every = Math.ceil(points.length / CHART_POINTS)
+  return points.filter((_, i) => i % every === 0 || i === points.length - 1)
+}
+
+const curveOf = (label: string, standard: string, points: PullPoint[]) =>
+  ({ label, standard, points: thin(points).map(p => ({ rpm: p.rpm, hp: one(p.hp), lbFt: one(torqueAt(p)) })) })
+
+function peakFigures(points: PullPoint[]): PeakFigures {
+  const pk = peaks(points)
+  return { peakHp: one(pk.peakHp), peakHpRpm: pk.peakHpRpm, peakTq: one(pk.peakTq), peakTqRpm: pk.peakTqRpm }
+}
+
+async function parsedFile(read: ReadStoredText, storageKey: string): Promise<{ text: string, points: PullPoint[] }> {
+  const text = await read(storageKey)
+  if (text === null) throw createError({ status: 500, message: `The pull file ${storageKey} is missing from storage.` })
+  const parsed = parsePull(text)
+  if (!parsed.ok) throw createError({ status: 500, message: `The stored pull file ${storageKey} no longer parses.` })
+  return { text, points: parsed.points }
+}
+
+function combinationOf(row: Build): EvidenceReview['combination'] {
+  // A draft may carry submitted pulls before its combination is complete: review waits for it.
+  const missing = REQUIRED_FOR_PUBLISH.filter(k => row[k] === null)
+  if (missing.length) throw createError({ status: 409, message: `The build's combination is not complete yet (${missing.join(', ')}); review its evidence once the shop fills it in.` })
+  const b = row as PublishedBuild
+  return {
+    engineFamily: b.engineFamily, cylinders: b.cylinders, boreIn: b.boreIn, strokeIn: b.strokeIn, rodLengthIn: b.rodLengthIn,
+    displacementCi: displacementCi(b.boreIn, b.strokeIn, b.cylinders), aspiration: b.aspiration, fuel: b.fuel, intendedUse: b.intendedUse,
+    cylinderHeads: b.cylinderHeads, chamberCc: b.chamberCc, pistonCc: b.pistonCc, gasketBoreIn: b.gasketBoreIn, gasketThicknessIn: b.gasketThicknessIn,
+    deckClearanceIn: b.deckClearanceIn, camIntakeDurationDeg: b.camIntakeDurationDeg, camExhaustDurationDeg: b.camExhaustDurationDeg,
+    camLobeSeparationDeg: b.camLobeSeparationDeg, camIntakeCenterlineDeg: b.camIntakeCenterlineDeg, intakeManifold: b.intakeManifold,
+    throttleBody: b.throttleBody, injectorSizeLbHr: b.injectorSizeLbHr, injectorCount: b.injectorCount, engineManagement: b.engineManagement,
+  }
+}
+
+/**
+ * One pull with everything its decision needs: the raw file, its curve as filed and under the listing
+ * standard (with the nearest matching curve of another build beside it), declared against recomputed
+ * figures, the stored check report, the combination and the build's earlier decisions. 404 when missing.
+ */
+export async function evidenceReview(db: Database, read: ReadStoredText, pullId: number): Promise<EvidenceReview> {
+  const [row] = await db.select({ pull: dynoPulls, build: builds, shop: builderProfiles, owner: { name: users.name, email: users.email }, file: files })
+    .from(dynoPulls)
+    .innerJoin(builds, eq(builds.id, dynoPulls.buildId))
+    .innerJoin(builderProfiles, eq(builderProfiles.id, builds.builderId))
+    .innerJoin(users, eq(users.id, builderProfiles.userId))
+    .innerJoin(files, eq(files.id, dynoPulls.fileId))
+    .where(eq(dynoPulls.id, pullId)).limit(1)
+  if (!row) throw createError({ status: 404, message: 'No pull has that id.' })
+  const { pull, build, shop, owner, file } = row
+
+  const { text, points } = await parsedFile(read, file.storageKey)
+  const weather = weatherOf(pull)
+  const declaredStandard = pull.declaredStandard as CorrectionStandard
+  const normalised = convertCurve(points, { standard: declaredStandard, weather }, { standard: LISTING_STANDARD, weather })
+  const lines = text.split(/\r?\n/)
+  while (lines.length && lines[lines.length - 1] === '') lines.pop()
+
+  const matches = await matchingBuilds(db, pull)
+  const named = duplicateCheck(pull.checks)?.figures.closestBuildId
+  const found = [...matches.map(m => ({ buildId: m.buildId, outcome: m.outcome }))]
+  if (typeof named === 'number' && !found.some(f => f.buildId === named)) found.push({ buildId: named, outcome: duplicateCheck(pull.checks)!.outcome })
+  const duplicates = await linksFor(db, found)
+
+  const curves = [
+    curveOf(`As filed (${standardLabel(declaredStandard)})`, declaredStandard, points),
+    ...(declaredStandard === LISTING_STANDARD ? [] : [curveOf(normalised.uncorrected ? 'Uncorrected (no weather)' : `Under ${standardLabel(LISTING_STANDARD)}`, normalised.uncorrected ? 'UNCORRECTED' : LISTING_STANDARD, normalised.points)]),
+  ]
+  const nearest = matches[0]
+  if (nearest) {
+    const [other] = await db.select({ pull: dynoPulls, storageKey: files.storageKey }).from(dynoPulls).innerJoin(files, eq(files.id, dynoPulls.fileId)).where(eq(dynoPulls.id, nearest.pullId))
+    if (other) {
+      const otherPoints = (await parsedFile(read, other.storageKey)).points
+      const otherWeather = weatherOf(other.pull)
+      const converted = convertCurve(otherPoints, { standard: other.pull.declaredStandard as CorrectionStandard, weather: otherWeather }, { standard: LISTING_STANDARD, weather: otherWeather })
+      const title = duplicates.find(d => d.buildId === nearest.buildId)?.title ?? `build ${nearest.buildId}`
+      curves.push(curveOf(`Matching curve: ${title}`, LISTING_STANDARD, converted.points))
+    }
+  }
+
+  const [sheet] = pull.sheetFileId ? await db.select().from(files).where(eq(files.id, pull.sheetFileId)) : []
+  const history = await db.select().from(dynoPulls)
+    .where(and(eq(dynoPulls.buildId, build.id), ne(dynoPulls.id, pull.id), ne(dynoPulls.status, 'submitted')))
+    .orderBy(desc(dynoPulls.reviewedAt), desc(dynoPulls.id))
+
+  return {
+    pull: {
+      id: pull.id, label: pull.label, status: pull.status, dynoKind: pull.dynoKind, declaredStandard: pull.declaredStandard, declaredFactor: pull.declaredFactor,
+      weather, submittedAt: pull.createdAt.toISOString(), reviewedAt: pull.reviewedAt?.toISOString() ?? null, reviewNote: pull.reviewNote,
+      comparisonRole: pull.comparisonRole, changeNote: pull.changeNote,
+    },
+    build: {
+      id: build.id, slug: build.slug, title: build.title, status: build.status, verified: build.verifiedAt !== null,
+      shop: { slug: shop.slug, shopName: shop.shopName, ownerName: owner.name, ownerEmail: owner.email },
+      figures: { peakHp: build.peakHp, peakHpRpm: build.peakHpRpm, peakTq: build.peakTq, peakTqRpm: build.peakTqRpm },
+    },
+    combination: combinationOf(build),
+    file: {
+      name: file.originalName, mime: file.mime, sizeBytes: file.sizeBytes, sha256: file.sha256, lines: lines.length,
+      preview: lines.slice(0, PREVIEW_LINES).join('\n'), truncated: lines.length > PREVIEW_LINES,
+    },
+    sheet: sheet ? { name: sheet.originalName, mime: sheet.mime, sizeBytes: sheet.sizeBytes } : null,
+    declared: {
+      standard: pull.declaredStandard, factor: pull.declaredFactor,
+      peakHp: pull.declaredPeakHp, peakHpRpm: pull.declaredPeakHpRpm, peakTq: pull.declaredPeakTq, peakTqRpm: pull.declaredPeakTqRpm,
+    },
+    recomputed: {
+      asFiled: { standard: pull.declaredStandard, ...peakFigures(points) },
+      normalised: { standard: normalised.uncorrected ? 'UNCORRECTED' : LISTING_STANDARD, uncorrected: normalised.uncorrected, ...peakFigures(normalised.points) },
+    },
+    curves,
+    checks: pull.checks ?? [],
+    duplicates,
+    history: history.map(h => ({ pullId: h.id, label: h.label, status: h.status, reviewNote: h.reviewNote, reviewedAt: h.reviewedAt?.toISOString() ?? null })),
+  }
+}
+
+/** The stored raw file of a pull, for download. 404 when the pull is missing. */
+export async function pullFile(db: Database, pullId: number, which: 'pull' | 'sheet'): Promise<{ storageKey: string, name: string, mime: string }> {
+  const [row] = await db.select({ file: files }).from(dynoPulls)
+    .innerJoin(files, eq(files.id, which === 'pull' ? dynoPulls.fileId : dynoPulls.sheetFileId))
+    .where(eq(dynoPulls.id, pullId)).limit(1)
+  if (!row) throw createError({ status: 404, message: which === 'pull' ? 'No pull has that id.' : 'That pull has no dyno sheet attached.' })
+  return { storageKey: row.file.storageKey, name: row.file.originalName, mime: row.file.mime }
 }
 
 /** Locks a pull for a decision; 404 when missing, 409 when it is no longer awaiting one. */
-async function lockSubmitted(tx: Parameters<Parameters<Database['transaction']>[0]>[0], pullId: number) {
+async function lockSubmitted(tx: Tx, pullId: number) {
   const [pull] = await tx.select().from(dynoPulls).where(eq(dynoPulls.id, pullId)).for('update')
   if (!pull) throw createError({ status: 404, message: 'No pull has that id.' })
   if (pull.status !== 'submitted') throw createError({ status: 409, message: `That pull was already ${pull.status}; only a pull awaiting a check can be decided.` })
   return pull
 }
 
+const figuresOf = (b: Pick<Build, 'peakHp' | 'peakHpRpm' | 'peakTq' | 'peakTqRpm'>): PeakFigures =>
+  ({ peakHp: b.peakHp, peakHpRpm: b.peakHpRpm, peakTq: b.peakTq, peakTqRpm: b.peakTqRpm })
+
 /**
- * Verifies a pull: the build gets its checked mark and its headline figures from this pull,
- * and one audit row records the change, all in one transaction. Returns the build id.
+ * Verifies a pull: the build gets its checked mark and its headline figures (under the listing
+ * standard) from this pull, and one audit row records the change, all in one transaction. Returns the build id.
  */
 export async function approvePull(db: Database, input: { actorId: number, pullId: number, note?: string | null }): Promise<number> {
   return db.transaction(async (tx) => {
@@ -43,39 +263,60 @@ export async function approvePull(db: Database, input: { actorId: number, pullId
     const now = new Date()
     await tx.update(dynoPulls).set({ status: 'verified', reviewNote: input.note ?? null, reviewedAt: now }).where(and(eq(dynoPulls.id, pull.id), eq(dynoPulls.status, 'submitted')))
     const figures = { peakHp: pull.summary.peakHp, peakHpRpm: pull.summary.peakHpRpm, peakTq: pull.summary.peakTq, peakTqRpm: pull.summary.peakTqRpm }
-    await tx.update(builds).set({ ...figures, verifiedAt: build!.verifiedAt ?? now }).where(eq(builds.id, pull.buildId))
+    const verifiedAt = build!.verifiedAt ?? now
+    await tx.update(builds).set({ ...figures, verifiedAt }).where(eq(builds.id, pull.buildId))
     await writeAudit(tx, {
       actorId: input.actorId,
       action: 'pull.verify',
       entityType: 'dyno_pull',
       entityId: pull.id,
-      before: { status: pull.status, buildVerifiedAt: build!.verifiedAt?.toISOString() ?? null },
-      after: { status: 'verified', ...figures },
+      before: { status: pull.status, buildId: pull.buildId, buildVerifiedAt: build!.verifiedAt?.toISOString() ?? null, buildFigures: figuresOf(build!) },
+      after: { status: 'verified', buildId: pull.buildId, buildVerifiedAt: verifiedAt.toISOString(), buildFigures: figures },
       note: input.note ?? null,
+      at: now,
     })
     return pull.buildId
   })
 }
 
-/** Rejects a pull with a reason the shop will read; one audit row. Returns what the e-mail to the shop needs. */
+/**
+ * The build's headline figures once a pull is rejected: a build with a verified pull keeps what the
+ * verification gave it; otherwise the first pull still awaiting a check speaks for it, or nothing does.
+ */
+async function headlineAfterRejection(tx: Tx, build: Build): Promise<PeakFigures | null> {
+  if (build.verifiedAt) return null
+  const [next] = await tx.select({ summary: dynoPulls.summary }).from(dynoPulls)
+    .where(and(eq(dynoPulls.buildId, build.id), eq(dynoPulls.status, 'submitted'))).orderBy(asc(dynoPulls.id)).limit(1)
+  const s = next?.summary
+  return { peakHp: s?.peakHp ?? null, peakHpRpm: s?.peakHpRpm ?? null, peakTq: s?.peakTq ?? null, peakTqRpm: s?.peakTqRpm ?? null }
+}
+
+/**
+ * Rejects a pull with a reason the shop will read, and moves the build's unverified headline figures
+ * off it; one audit row, one transaction. Returns what the e-mail to the shop needs.
+ */
 export async function rejectPull(db: Database, input: { actorId: number, pullId: number, reason: string }) {
   return db.transaction(async (tx) => {
     const pull = await lockSubmitted(tx, input.pullId)
-    await tx.update(dynoPulls).set({ status: 'rejected', reviewNote: input.reason, reviewedAt: new Date() }).where(eq(dynoPulls.id, pull.id))
+    const [build] = await tx.select().from(builds).where(eq(builds.id, pull.buildId)).for('update')
+    const now = new Date()
+    await tx.update(dynoPulls).set({ status: 'rejected', reviewNote: input.reason, reviewedAt: now }).where(eq(dynoPulls.id, pull.id))
+    const headline = await headlineAfterRejection(tx, build!)
+    const changed = headline && JSON.stringify(headline) !== JSON.stringify(figuresOf(build!))
+    if (changed) await tx.update(builds).set(headline).where(eq(builds.id, build!.id))
     await writeAudit(tx, {
       actorId: input.actorId,
       action: 'pull.reject',
       entityType: 'dyno_pull',
       entityId: pull.id,
-      before: { status: pull.status },
-      after: { status: 'rejected' },
+      before: { status: pull.status, buildId: pull.buildId, ...(changed ? { buildFigures: figuresOf(build!) } : {}) },
+      after: { status: 'rejected', buildId: pull.buildId, ...(changed ? { buildFigures: headline } : {}) },
       note: input.reason,
+      at: now,
     })
-    const [owner] = await tx.select({ email: users.email, name: users.name, buildTitle: builds.title, buildSlug: builds.slug })
-      .from(builds)
-      .innerJoin(builderProfiles, eq(builderProfiles.id, builds.builderId))
-      .innerJoin(users, eq(users.id, builderProfiles.userId))
-      .where(eq(builds.id, pull.buildId))
-    return { buildId: pull.buildId, pullLabel: pull.label, ...owner! }
+    const [owner] = await tx.select({ email: users.email, name: users.name })
+      .from(builderProfiles).innerJoin(users, eq(users.id, builderProfiles.userId))
+      .where(eq(builderProfiles.id, build!.builderId))
+    return { buildId: pull.buildId, buildSlug: build!.slug, buildTitle: build!.title, pullLabel: pull.label, email: owner!.email, name: owner!.name }
   })
 }

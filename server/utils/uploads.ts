@@ -1,17 +1,9 @@
 import { createHash, randomUUID } from 'node:crypto'
-import type { H3Event } from 'h3'
+import { createError, getRequestHeader, type H3Event } from 'h3'
 import { fileTypeFromBuffer } from 'file-type'
+import { UPLOAD_LIMITS, type UploadKind } from '../../shared/uploads'
 
-/** Size limits per kind of upload, in bytes. */
-export const UPLOAD_LIMITS = {
-  pull: 2 * 1024 * 1024,
-  sheet: 10 * 1024 * 1024,
-  photo: 8 * 1024 * 1024,
-  attachment: 10 * 1024 * 1024,
-  proof: 10 * 1024 * 1024,
-} as const
-
-export type UploadKind = keyof typeof UPLOAD_LIMITS
+export { UPLOAD_LIMITS, type UploadKind }
 
 /** What each kind may be, by sniffed content (never by the name or the declared type). */
 const ALLOWED: Record<UploadKind, string[]> = {

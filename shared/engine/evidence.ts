@@ -282,8 +282,12 @@ function duplicate(context: EvidenceContext, points: PullPoint[]): EvidenceCheck
   const scored = others.map(o => ({ buildId: o.buildId, distance: fingerprintDistance(mine, o.fingerprint) }))
   const matches = scored.filter(s => s.distance <= FINGERPRINT_TOLERANCE)
   const close = scored.filter(s => s.distance > FINGERPRINT_TOLERANCE && s.distance <= 2 * FINGERPRINT_TOLERANCE)
-  const closest = Math.min(...scored.map(s => s.distance))
-  const values = { comparedCurves: others.length, matches: matches.length, closestDistance: closest, tolerance: FINGERPRINT_TOLERANCE }
+  const nearest = scored.reduce((a, b) => (b.distance < a.distance ? b : a))
+  const closest = nearest.distance
+  // The admin's report links to the build behind a match or a near match; figures are numbers, so only a numeric id is carried.
+  const nearestId = Number(nearest.buildId)
+  const linkable = closest <= 2 * FINGERPRINT_TOLERANCE && Number.isSafeInteger(nearestId) && nearestId > 0
+  const values = { comparedCurves: others.length, matches: matches.length, closestDistance: closest, tolerance: FINGERPRINT_TOLERANCE, closestBuildId: linkable ? nearestId : null }
   if (matches.length > 0) {
     const ids = matches.map(m => String(m.buildId)).join(', ')
     return check('duplicate-curve', 'fail', `The same curve is already attached to build(s) ${ids} (allowing for resampling and correction). Ask the shop which build it belongs to.`, values)

@@ -31,10 +31,12 @@ export interface AdminUserRow {
 
 /** A builder's own build as the shop dashboard lists it, drafts included. */
 export interface OwnBuildRow {
+  id: number
   slug: string
   title: string
   status: 'draft' | 'published' | 'archived'
-  displacementCi: number
+  /** Null while a draft lacks its bore, stroke or cylinders. */
+  displacementCi: number | null
   peakHp: number | null
   peakTq: number | null
   verified: boolean

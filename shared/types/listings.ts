@@ -55,8 +55,16 @@ export interface BuildDetail extends BuildSummary {
   injectorCount: number | null
   engineManagement: string
   publishedAt: string | null
+  photos: BuildPhotoRow[]
   parts: BuildPartRow[]
   pulls: PullSummaryRow[]
+}
+
+export interface BuildPhotoRow {
+  id: number
+  caption: string
+  /** Where the image is served (the build page's own route). */
+  url: string
 }
 
 export interface PullSummaryRow {

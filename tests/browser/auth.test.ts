@@ -53,7 +53,7 @@ describe('signing up and in, in Chromium', () => {
     await expect.poll(() => nav().getAttribute('data-role')).toBe('racer')
     expect(await page.locator('[data-test="nav-account"]').innerText()).toBe('Juno Carraway')
     expect(await page.locator('[data-test="nav-dashboard"]').count()).toBe(0)
-    expect(await page.locator('[data-test="nav-accounts"]').count()).toBe(0)
+    expect(await page.locator('[data-test="nav-admin"]').count()).toBe(0)
 
     await signOut()
     expect(await nav().getAttribute('data-role')).toBe('anonymous')
@@ -127,8 +127,10 @@ describe('suspension and units, in Chromium', () => {
     await close()
 
     await signInWithForm(PERSONAS.admin, DEMO_PASSWORD)
+    await page.waitForURL(`${baseUrl()}/admin`)
+    expect(await page.locator('[data-test="nav-admin"]').count()).toBe(1)
+    await page.click('[data-test="admin-nav-accounts"]')
     await page.waitForURL(`${baseUrl()}/admin/users`)
-    expect(await page.locator('[data-test="nav-accounts"]').count()).toBe(1)
     await page.fill('[data-test="user-search"]', email)
     const row = page.locator(`[data-test="user-row-${email}"]`)
     await row.waitFor()

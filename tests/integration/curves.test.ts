@@ -108,8 +108,12 @@ describe('GET /api/builds/:slug/pulls/:id/curve.csv', () => {
 
 describe('GET /api/compare', () => {
   it('overlays two builds under one standard', async () => {
-    const list = await api('/api/builds?perPage=2')
-    const slugs = list.body.items.map((b: { slug: string }) => b.slug)
+    // Two seeded listings with a pull: the newest-first list may start with other files' fixture listings.
+    const rows = await ctx.db.selectDistinct({ id: schema.builds.id, slug: schema.builds.slug }).from(schema.builds)
+      .innerJoin(schema.dynoPulls, eq(schema.dynoPulls.buildId, schema.builds.id))
+      .where(eq(schema.builds.status, 'published')).orderBy(schema.builds.id).limit(2)
+    const slugs = rows.map(r => r.slug)
+    expect(slugs).toHaveLength(2)
     const res = await api(`/api/compare?builds=${slugs.join(',')}&standard=SAE_J607`)
     expect(res.status).toBe(200)
     expect(res.body.builds.map((b: { build: { slug: string } }) => b.build.slug)).toEqual(slugs)
@@ -139,7 +143,7 @@ describe('builder profile figures', () => {
     const rows = await ctx.db.select().from(schema.builds).where(and(eq(schema.builds.builderId, shop!.id), eq(schema.builds.status, 'published'), isNotNull(schema.builds.verifiedAt)))
     const res = await api(`/api/builders/${shop!.slug}`)
     expect(res.body.figures.verifiedBuilds).toBe(rows.length)
-    const perCi = rows.map(r => r.peakHp! / ((Math.PI / 4) * r.boreIn ** 2 * r.strokeIn * r.cylinders)).sort((a, b) => a - b)
+    const perCi = rows.map(r => r.peakHp! / ((Math.PI / 4) * r.boreIn! ** 2 * r.strokeIn! * r.cylinders!)).sort((a, b) => a - b)
     const m = Math.floor(perCi.length / 2)
     const median = perCi.length % 2 ? perCi[m]! : (perCi[m - 1]! + perCi[m]!) / 2
     expect(res.body.figures.medianHpPerCi).toBeCloseTo(median, 6)

@@ -35,7 +35,7 @@ describe('GET /api/builds', () => {
     const res = await api('/api/builds?perPage=5')
     for (const item of res.body.items) {
       const [row] = await ctx.db.select().from(schema.builds).where(eq(schema.builds.slug, item.slug))
-      expect(item.displacementCi).toBeCloseTo(displacementCi(row!.boreIn, row!.strokeIn, row!.cylinders), 6)
+      expect(item.displacementCi).toBeCloseTo(displacementCi(row!.boreIn!, row!.strokeIn!, row!.cylinders!), 6)
     }
   })
 

@@ -1,6 +1,8 @@
 import { defineAccess } from '../../support/access'
 
 const everyone = (status: number) => ({ anonymous: status, racer: status, builder: status, admin: status })
+/** A shop's own listing rows: builders only; `other` is what the other shop's builder gets. */
+const ownerOnly = (status: number, other = status) => ({ anonymous: 401, racer: 403, builder: status, otherBuilder: other, admin: 403 })
 
 /** The public listing routes: everyone reads them alike. */
 export default defineAccess([
@@ -17,4 +19,28 @@ export default defineAccess([
   { method: 'GET', path: '/api/builds/harrow-362-na-race-gas-1/pulls/999999/curve.csv', expect: everyone(404) },
   { method: 'GET', path: '/api/compare?builds=harrow-362-na-race-gas-1,harrow-519-nitrous-race-gas-2', expect: everyone(200) },
   { method: 'GET', path: '/api/compare?builds=not-a-real-build', expect: everyone(404) },
+  { method: 'GET', path: '/api/builds/harrow-362-na-race-gas-1/photos/999999', expect: everyone(404) },
+  { method: 'GET', path: '/api/builds/Not_A_Slug/photos/1', expect: everyone(400) },
+
+  // The listing editor. Build 1 is the builder's published listing, so another shop sees it exists
+  // (403 on the owner's routes); an id nobody has answers 404. Bodies stop at validation (400), or
+  // are a no-op ({} autosaves nothing), so the matrix writes nothing.
+  { method: 'POST', path: '/api/me/builds', body: {}, expect: ownerOnly(400) },
+  { method: 'GET', path: '/api/me/builds/1', expect: ownerOnly(200, 403) },
+  { method: 'GET', path: '/api/me/builds/999999', expect: ownerOnly(404) },
+  { method: 'GET', path: '/api/me/builds/not-an-id', expect: ownerOnly(400) },
+  { method: 'PATCH', path: '/api/me/builds/1', body: {}, expect: ownerOnly(200, 403) },
+  { method: 'PATCH', path: '/api/me/builds/999999', body: {}, expect: ownerOnly(404) },
+  { method: 'DELETE', path: '/api/me/builds/999999', expect: ownerOnly(404) },
+  { method: 'POST', path: '/api/me/builds/1/status', body: {}, expect: ownerOnly(400) },
+  { method: 'POST', path: '/api/me/builds/999999/status', body: { action: 'publish' }, expect: ownerOnly(404) },
+  { method: 'GET', path: '/api/me/builds/1/curves', expect: ownerOnly(200, 403) },
+  { method: 'GET', path: '/api/me/builds/1/curves?standard=SAE_J9999', expect: ownerOnly(400) },
+  { method: 'POST', path: '/api/me/builds/1/pulls/preview', body: {}, expect: ownerOnly(400, 403) },
+  { method: 'POST', path: '/api/me/builds/1/pulls', body: {}, expect: ownerOnly(400, 403) },
+  { method: 'POST', path: '/api/me/builds/999999/pulls', body: {}, expect: ownerOnly(404) },
+  { method: 'DELETE', path: '/api/me/builds/1/pulls/999999', expect: ownerOnly(404, 403) },
+  { method: 'POST', path: '/api/me/builds/1/photos', body: {}, expect: ownerOnly(400, 403) },
+  { method: 'GET', path: '/api/me/builds/1/photos/999999', expect: ownerOnly(404, 403) },
+  { method: 'DELETE', path: '/api/me/builds/1/photos/999999', expect: ownerOnly(404, 403) },
 ])

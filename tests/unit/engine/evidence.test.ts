@@ -145,6 +145,20 @@ describe('checkEvidence', () => {
     expect(own.outcome).toBe('pass')
   })
 
+  it('duplicate-curve names the matching build by number in its figures, so the report can link to it', () => {
+    const mine = curveFingerprint(resample(points, 100))
+    const other = curveFingerprint(inventedPull({ peakTqRpm: 5200 }))
+    const numeric = byId(checkEvidence(pullWith(), { ...context, buildId: 4, fingerprintsOfOtherBuilds: [{ buildId: 9, fingerprint: other }, { buildId: 17, fingerprint: mine }] }), 'duplicate-curve')
+    expect(numeric.outcome).toBe('fail')
+    expect(numeric.figures.closestBuildId).toBe(17)
+    // A text id cannot go into the numeric figures; an unlike curve links to nothing.
+    const text = byId(checkEvidence(pullWith(), { ...context, fingerprintsOfOtherBuilds: [{ buildId: 'b-17', fingerprint: mine }] }), 'duplicate-curve')
+    expect(text.figures.closestBuildId).toBeUndefined()
+    const unlike = byId(checkEvidence(pullWith(), { ...context, fingerprintsOfOtherBuilds: [{ buildId: 9, fingerprint: other }] }), 'duplicate-curve')
+    expect(unlike.outcome).toBe('pass')
+    expect(unlike.figures.closestBuildId).toBeUndefined()
+  })
+
   it('never throws on garbage: every check still reports', () => {
     const garbage = [
       { points: null, declared: null, weather: null },

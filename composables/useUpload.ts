@@ -1,0 +1,51 @@
+/** What an upload came back with: the status, the JSON body (or the server's refusal), and a message for people. */
+export interface UploadAnswer<T> {
+  ok: boolean
+  status: number
+  body: T | null
+  message: string
+  data: Record<string, unknown> | null
+}
+
+/**
+ * Posts a form with XMLHttpRequest so the page can show how much has been sent (fetch cannot report
+ * upload progress without streaming bodies). One upload at a time per instance.
+ */
+export function useUpload() {
+  const progress = ref(0)
+  const active = ref(false)
+
+  function send<T>(url: string, form: FormData, method: 'POST' | 'PUT' = 'POST'): Promise<UploadAnswer<T>> {
+    active.value = true
+    progress.value = 0
+    return new Promise((resolve) => {
+      const xhr = new XMLHttpRequest()
+      xhr.open(method, url)
+      xhr.setRequestHeader('accept', 'application/json')
+      xhr.upload.onprogress = (e) => {
+        if (e.lengthComputable) progress.value = e.loaded / e.total
+      }
+      xhr.onload = () => {
+        active.value = false
+        progress.value = 1
+        let body: Record<string, unknown> | null = null
+        try {
+          body = xhr.responseText ? JSON.parse(xhr.responseText) : null
+        }
+        catch {
+          body = null
+        }
+        const ok = xhr.status >= 200 && xhr.status < 300
+        const message = ok ? '' : String(body?.message ?? `The upload was refused (${xhr.status}).`)
+        resolve({ ok, status: xhr.status, body: ok ? (body as T) : null, message, data: ok ? null : (body?.data as Record<string, unknown>) ?? null })
+      }
+      xhr.onerror = () => {
+        active.value = false
+        resolve({ ok: false, status: 0, body: null, message: 'The upload did not reach the server; check the connection and try again.', data: null })
+      }
+      xhr.send(form)
+    })
+  }
+
+  return { progress, active, send }
+}

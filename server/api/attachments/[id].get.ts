@@ -1,0 +1,19 @@
+import { idParams } from '#shared/schemas/common'
+import { readableFile } from '../../services/deal-files'
+
+/** Downloads a deal file: the uploader's own, or one attached to a deal the reader is a party to (404 otherwise). */
+export default defineEventHandler(async (event) => {
+  const actor = await requireDealActor(event)
+  const { id } = await getValidatedRouterParams(event, validator(idParams))
+  const file = await readableFile(useDb(), actor, id)
+  if (!file) throw createError({ status: 404, message: 'That file was not found, or it is not yours to see.' })
+  const data = await useStorage('uploads').getItemRaw(file.storageKey)
+  if (data === null || data === undefined) throw createError({ status: 404, message: 'That file is missing from storage.' })
+  setResponseHeaders(event, {
+    'content-type': file.mime,
+    'content-disposition': `attachment; filename="${file.originalName.replace(/["\\\r\n]/g, '_')}"`,
+    'x-content-type-options': 'nosniff',
+    'cache-control': 'private, no-store',
+  })
+  return Buffer.from(data as Uint8Array)
+})

@@ -1,0 +1,11 @@
+import { idParams } from '#shared/schemas/common'
+import { deleteBuild } from '../../../services/listing-editor'
+
+/** Deletes one of the caller's builds with its pulls, photos and stored files. */
+export default defineEventHandler(async (event) => {
+  const { shop } = await requireBuilderProfile(event)
+  const { id } = await getValidatedRouterParams(event, validator(idParams))
+  await deleteBuild(useDb(), uploadStore(), shop, id)
+  setResponseStatus(event, 204)
+  return null
+})

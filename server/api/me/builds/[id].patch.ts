@@ -1,0 +1,13 @@
+import { buildDraftPatch } from '#shared/schemas/build'
+import { idParams } from '#shared/schemas/common'
+import { editorBuild, updateBuild } from '../../../services/listing-editor'
+
+/** An autosave of some fields and/or the whole parts list; answers the updated owner's view. */
+export default defineEventHandler(async (event) => {
+  const { shop } = await requireBuilderProfile(event)
+  const { id } = await getValidatedRouterParams(event, validator(idParams))
+  const patch = await readValidatedBody(event, validator(buildDraftPatch))
+  const db = useDb()
+  await updateBuild(db, shop, id, patch)
+  return editorBuild(db, shop, id)
+})

@@ -1,0 +1,14 @@
+import { z } from 'zod'
+import { idSchema } from '#shared/schemas/common'
+import { removePhoto } from '../../../../../services/listing-photos'
+
+const params = z.object({ id: idSchema, photoId: idSchema })
+
+/** Removes a photo of the caller's build and its stored file. */
+export default defineEventHandler(async (event) => {
+  const { shop } = await requireBuilderProfile(event)
+  const { id, photoId } = await getValidatedRouterParams(event, validator(params))
+  await removePhoto(useDb(), uploadStore(), shop, id, photoId)
+  setResponseStatus(event, 204)
+  return null
+})

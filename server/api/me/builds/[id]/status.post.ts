@@ -1,0 +1,11 @@
+import { buildStatusAction } from '#shared/schemas/build'
+import { idParams } from '#shared/schemas/common'
+import { changeStatus } from '../../../../services/listing-editor'
+
+/** Publish (422 naming what is missing), unpublish, archive or restore one of the caller's builds. */
+export default defineEventHandler(async (event) => {
+  const { shop } = await requireBuilderProfile(event)
+  const { id } = await getValidatedRouterParams(event, validator(idParams))
+  const { action } = await readValidatedBody(event, validator(buildStatusAction))
+  return changeStatus(useDb(), shop, id, action)
+})

@@ -1,0 +1,11 @@
+import { newBuildSchema } from '#shared/schemas/build'
+import { createDraft } from '../../../services/listing-editor'
+
+/** A new draft listing with only its title. Builders with a shop only. */
+export default defineEventHandler(async (event) => {
+  const { shop } = await requireBuilderProfile(event)
+  const { title } = await readValidatedBody(event, validator(newBuildSchema))
+  const id = await createDraft(useDb(), shop, title)
+  setResponseStatus(event, 201)
+  return { id }
+})

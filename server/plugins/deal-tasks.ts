@@ -1,0 +1,46 @@
+import { autoApproveDue } from '../services/milestones'
+import { drainOutbox } from '../services/outbox'
+
+/**
+ * Two timers beside the server: the mail outbox is drained every few seconds (a mail that fails
+ * waits and is tried again), and approvals due after the configured days are made every few minutes.
+ * Each run is skipped while the previous one is still going.
+ */
+export default defineNitroPlugin((nitroApp) => {
+  const c = useRuntimeConfig()
+  let draining = false
+  let approving = false
+  const log = (what: string, error: unknown) => console.error(`[deals] ${what}:`, error instanceof Error ? error.message : error)
+  const outbox = setInterval(async () => {
+    if (draining || !c.databaseUrl) return
+    draining = true
+    try {
+      await drainOutbox(useDb(), sendMail)
+    }
+    catch (error) {
+      log('draining the outbox failed', error)
+    }
+    finally {
+      draining = false
+    }
+  }, Number(c.outboxIntervalMs) || 2000)
+  const approvals = setInterval(async () => {
+    if (approving || !c.databaseUrl || !c.stripeSecretKey) return
+    approving = true
+    try {
+      await autoApproveDue(useDealContext())
+    }
+    catch (error) {
+      log('automatic approval failed', error)
+    }
+    finally {
+      approving = false
+    }
+  }, Number(c.dealTaskIntervalMs) || 600_000)
+  outbox.unref()
+  approvals.unref()
+  nitroApp.hooks.hook('close', () => {
+    clearInterval(outbox)
+    clearInterval(approvals)
+  })
+})

@@ -1,0 +1,54 @@
+import { eq } from 'drizzle-orm'
+import type { DecisionResult } from '../../shared/types/admin'
+import { builds } from '../database/schema'
+import type { Database } from '../database/types'
+import type { OutgoingMail } from '../utils/mail'
+import { adminEmails } from './admin-mail'
+import { reindexBuildAfterAdminChange } from './build-index'
+import { unpublishListing } from './moderation'
+import { approvePull, rejectPull } from './verification'
+
+/** What an admin decision needs besides the database: where links in e-mails point, and how mail is sent. */
+export interface AdminContext {
+  db: Database
+  siteUrl: string
+  send: (mail: OutgoingMail) => Promise<void>
+}
+
+/** Sends once the decision has committed; a failed send is logged and reported, never undoes the decision. */
+async function tell(ctx: AdminContext, mail: OutgoingMail): Promise<boolean> {
+  try {
+    await ctx.send(mail)
+    return true
+  }
+  catch (err) {
+    console.error(`[mail] could not send "${mail.subject}" to ${mail.to}: ${(err as Error).message}`)
+    return false
+  }
+}
+
+/** Verifies a pull, then brings the search index in step. */
+export async function approveEvidence(ctx: AdminContext, actorId: number, pullId: number, note?: string): Promise<DecisionResult> {
+  const buildId = await approvePull(ctx.db, { actorId, pullId, note: note || null })
+  await reindexBuildAfterAdminChange(ctx.db, buildId)
+  const [build] = await ctx.db.select({ slug: builds.slug }).from(builds).where(eq(builds.id, buildId))
+  return { pullId, status: 'verified', buildSlug: build?.slug ?? '', mailed: null }
+}
+
+/** Rejects a pull, e-mails the reason to the shop, and brings the search index in step. */
+export async function rejectEvidence(ctx: AdminContext, actorId: number, pullId: number, reason: string): Promise<DecisionResult> {
+  const r = await rejectPull(ctx.db, { actorId, pullId, reason })
+  await reindexBuildAfterAdminChange(ctx.db, r.buildId)
+  const body = adminEmails.pullRejected({ name: r.name, pullLabel: r.pullLabel, buildTitle: r.buildTitle, reason, dashboardUrl: `${ctx.siteUrl}/dashboard` })
+  const mailed = await tell(ctx, { to: r.email, ...body })
+  return { pullId, status: 'rejected', buildSlug: r.buildSlug, mailed }
+}
+
+/** Takes a listing down, e-mails the reason to the shop, and takes it out of search. */
+export async function takeDownListing(ctx: AdminContext, actorId: number, buildId: number, reason: string): Promise<{ buildId: number, status: 'draft', mailed: boolean }> {
+  const r = await unpublishListing(ctx.db, { actorId, buildId, reason })
+  await reindexBuildAfterAdminChange(ctx.db, buildId)
+  const body = adminEmails.listingUnpublished({ name: r.name, buildTitle: r.buildTitle, reason, dashboardUrl: `${ctx.siteUrl}/dashboard` })
+  const mailed = await tell(ctx, { to: r.email, ...body })
+  return { buildId, status: 'draft', mailed }
+}

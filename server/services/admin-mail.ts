@@ -1,0 +1,25 @@
+import { compose, type MailBody } from '../auth/messages'
+
+/** The e-mails an admin's decision sends, as plain text with a simple HTML twin. */
+export const adminEmails = {
+  pullRejected: (m: { name: string, pullLabel: string, buildTitle: string, reason: string, dashboardUrl: string }): MailBody => compose(
+    `Dyno pull not accepted: ${m.pullLabel}`,
+    `Hello ${m.name},`,
+    [
+      `We checked the pull "${m.pullLabel}" on your listing "${m.buildTitle}" and could not accept it as evidence. The reason:`,
+      m.reason,
+      'The pull no longer counts towards the listing. Upload a corrected pull (the raw file from the dyno, with the weather of the day) from your shop dashboard; a new upload is checked afresh.',
+    ],
+    { label: 'Open your shop dashboard', url: m.dashboardUrl },
+  ),
+  listingUnpublished: (m: { name: string, buildTitle: string, reason: string, dashboardUrl: string }): MailBody => compose(
+    `Your listing was taken down: ${m.buildTitle}`,
+    `Hello ${m.name},`,
+    [
+      `We took your listing "${m.buildTitle}" off the public site. The reason:`,
+      m.reason,
+      'It is a draft again and nothing in it was deleted. Put right what the reason says, then publish it again from your shop dashboard.',
+    ],
+    { label: 'Open your shop dashboard', url: m.dashboardUrl },
+  ),
+}

@@ -1,0 +1,109 @@
+// What every deal service is given (database, Stripe client, settings, clock), who is acting, and
+// the small helpers they share. Services take this context as a parameter so the tests can call
+// them against the real test database and the running payments fake.
+import { eq, or, sql, type SQL } from 'drizzle-orm'
+import { createError } from 'h3'
+import type Stripe from 'stripe'
+import { builderProfiles, dealEvents, quoteRequests, users } from '../database/schema'
+import type { Database } from '../database/types'
+
+export type DbTransaction = Parameters<Parameters<Database['transaction']>[0]>[0]
+export type Executor = Database | DbTransaction
+
+export interface DealConfig {
+  /** The platform's fee in basis points of a quote's total (500 = 5 %), deducted from the shop's payouts. */
+  platformFeeBps: number
+  /** Days after a submission when a milestone the racer has not answered is approved on its own. */
+  autoApproveDays: number
+  /** The app's public address, for links in e-mails and Checkout's return addresses. */
+  siteUrl: string
+}
+
+export interface DealContext {
+  db: Database
+  stripe: Stripe
+  config: DealConfig
+  now: () => Date
+}
+
+export type Role = 'racer' | 'builder' | 'admin'
+
+/** The signed-in user as the deal services see them: their id, role and, for a builder, their shop. */
+export interface DealActor {
+  id: number
+  role: Role
+  email: string
+  name: string
+  builderId: number | null
+}
+
+/** Loads the acting user with their shop, or null when there is no such user (or they are suspended). */
+export async function loadActor(db: Executor, userId: number): Promise<DealActor | null> {
+  const [row] = await db.select({ user: users, builderId: builderProfiles.id }).from(users)
+    .leftJoin(builderProfiles, eq(builderProfiles.userId, users.id))
+    .where(eq(users.id, userId)).limit(1)
+  if (!row || row.user.suspendedAt) return null
+  return { id: row.user.id, role: row.user.role, email: row.user.email, name: row.user.name, builderId: row.builderId ?? null }
+}
+
+/** The condition that limits quote requests to those the actor is a party to (admins see all). */
+export function requestVisibleTo(actor: DealActor): SQL {
+  if (actor.role === 'admin') return sql`1 = 1`
+  return or(eq(quoteRequests.racerId, actor.id), actor.builderId === null ? sql`1 = 0` : eq(quoteRequests.builderId, actor.builderId))!
+}
+
+export const notFound = (what: string) => createError({ status: 404, message: `${what} was not found, or it is not yours to see.` })
+export const forbidden = (message: string) => createError({ status: 403, message })
+export const conflict = (message: string) => createError({ status: 409, message })
+export const unprocessable = (message: string) => createError({ status: 422, message })
+
+/** A 502 that says what the payment service answered, so the person can try again or report it. */
+export function paymentServiceError(what: string, error: unknown) {
+  const message = error instanceof Error ? error.message : String(error)
+  return createError({ status: 502, message: `The payment service refused to ${what}: ${message}` })
+}
+
+/** True for MariaDB's duplicate-key error, however drizzle wraps it. */
+export function isDuplicateKey(error: unknown): boolean {
+  for (let e: unknown = error; e && typeof e === 'object'; e = (e as { cause?: unknown }).cause) {
+    if ((e as { code?: string }).code === 'ER_DUP_ENTRY' || (e as { errno?: number }).errno === 1062) return true
+  }
+  return false
+}
+
+/** Today's date (UTC) as YYYY-MM-DD. */
+export const isoDay = (d: Date) => d.toISOString().slice(0, 10)
+
+/** Appends to a deal's history (the order page's timeline and the audit trail of money). */
+export async function recordDealEvent(tx: Executor, e: { requestId: number, orderId?: number | null, milestoneId?: number | null, actorId?: number | null, action: string, detail?: string }) {
+  await tx.insert(dealEvents).values({
+    requestId: e.requestId, orderId: e.orderId ?? null, milestoneId: e.milestoneId ?? null, actorId: e.actorId ?? null, action: e.action, detail: (e.detail ?? '').slice(0, 500),
+  })
+}
+
+/** The two parties of a request: the racer and the shop's owner, with their e-mail addresses. */
+export async function partiesOf(db: Executor, requestId: number) {
+  const [row] = await db.select({
+    requestId: quoteRequests.id, title: quoteRequests.title, racerId: quoteRequests.racerId, builderId: quoteRequests.builderId,
+    racerEmail: users.email, racerName: users.name, shopName: builderProfiles.shopName, builderUserId: builderProfiles.userId,
+  }).from(quoteRequests)
+    .innerJoin(users, eq(users.id, quoteRequests.racerId))
+    .innerJoin(builderProfiles, eq(builderProfiles.id, quoteRequests.builderId))
+    .where(eq(quoteRequests.id, requestId)).limit(1)
+  if (!row) throw notFound('That request')
+  const [builderUser] = await db.select({ email: users.email, name: users.name }).from(users).where(eq(users.id, row.builderUserId)).limit(1)
+  return {
+    ...row,
+    builderEmail: builderUser?.email ?? '',
+    builderName: builderUser?.name ?? row.shopName,
+  }
+}
+
+export type Parties = Awaited<ReturnType<typeof partiesOf>>
+
+/** The actor's side of a request, or null when they are not a party. */
+export function sideOf(actor: DealActor, parties: { racerId: number, builderId: number }): 'racer' | 'builder' | null {
+  if (actor.id === parties.racerId) return 'racer'
+  if (actor.builderId !== null && actor.builderId === parties.builderId) return 'builder'
+  return null
+}

@@ -1,0 +1,149 @@
+import { createError } from 'h3'
+import { and, eq, inArray, isNotNull, ne } from 'drizzle-orm'
+import { torqueAt, type CorrectionStandard, type DeclaredFigures } from '#shared/engine'
+import { evaluatePull, type PullBuildContext } from '#shared/pulls/evaluate'
+import type { PullMeta } from '#shared/schemas/build'
+import type { PullPreview } from '#shared/types/editor'
+import { dynoPulls, type Build } from '../database/schema'
+import type { Database } from '../database/types'
+import { afterBuildChanged, ownBuild, refreshHeadline, type ShopRef } from './listing-editor'
+import { deleteFileRows, discard, insertFileRow, vetUpload, withStagedFiles, type IncomingFile, type UploadStore } from './listing-files'
+
+export interface PullUpload {
+  pull: IncomingFile
+  sheet?: IncomingFile | null
+  meta: PullMeta
+}
+
+const one = (n: number) => Math.round(n * 10) / 10
+
+/** The combination figures the evidence checks need; a draft without them cannot take a pull yet. */
+function contextOf(build: Build): PullBuildContext {
+  const { aspiration, boreIn, strokeIn, cylinders } = build
+  if (aspiration === null || boreIn === null || strokeIn === null || cylinders === null) {
+    throw createError({ status: 422, message: 'Fill in the bore, stroke, cylinders and aspiration first: the evidence checks work from them.' })
+  }
+  return { id: build.id, aspiration, boreIn, strokeIn, cylinders }
+}
+
+function declaredOf(meta: PullMeta): DeclaredFigures {
+  return {
+    standard: meta.declaredStandard as CorrectionStandard,
+    correctionFactor: meta.declaredFactor,
+    peakHp: meta.declaredPeakHp,
+    peakHpRpm: meta.declaredPeakHpRpm,
+    peakTq: meta.declaredPeakTq,
+    peakTqRpm: meta.declaredPeakTqRpm,
+  }
+}
+
+/** Every stored pull's fingerprint on another build, for the duplicate check. */
+async function fingerprintsOfOtherBuilds(db: Database, buildId: number) {
+  const rows = await db.select({ buildId: dynoPulls.buildId, fingerprint: dynoPulls.fingerprint }).from(dynoPulls)
+    .where(and(ne(dynoPulls.buildId, buildId), isNotNull(dynoPulls.fingerprint)))
+  return rows as { buildId: number, fingerprint: string }[]
+}
+
+/** Size, type and parse of a pull file, through the one path seeded pulls take; 413, 415 or 422 (errors by row). */
+async function evaluateUpload(db: Database, build: Build, file: IncomingFile, meta: PullMeta) {
+  await vetUpload('pull', file, 'pull file')
+  const context = contextOf(build)
+  const evaluation = evaluatePull({
+    text: file.bytes.toString('utf8'),
+    declared: declaredOf(meta),
+    weather: meta.weather,
+    build: context,
+    fingerprintsOfOtherBuilds: await fingerprintsOfOtherBuilds(db, build.id),
+  })
+  if (!evaluation.ok) {
+    const first = evaluation.errors.slice(0, 3).map(e => (e.row ? `row ${e.row}: ${e.message}` : e.message)).join('; ')
+    throw createError({ status: 422, message: `The pull file could not be read: ${first}.`, data: { errors: evaluation.errors } })
+  }
+  return evaluation
+}
+
+/** The parse preview and evidence report of a pull file for one of the caller's builds; nothing is stored. */
+export async function previewPull(db: Database, shop: ShopRef, buildId: number, upload: Omit<PullUpload, 'sheet'>): Promise<PullPreview> {
+  const build = await ownBuild(db, shop, buildId)
+  const evaluation = await evaluateUpload(db, build, upload.pull, upload.meta)
+  return {
+    points: evaluation.points.map(p => ({ rpm: p.rpm, hp: one(p.hp), lbFt: one(torqueAt(p)) })),
+    warnings: evaluation.warnings,
+    checks: evaluation.checks,
+    summary: evaluation.summary,
+  }
+}
+
+/**
+ * Saves a pull: the file (and sheet) checked before anything is stored, then stored, then the file
+ * rows and the pull row in one transaction (the stored files are removed if it fails). The pull
+ * starts as submitted, awaiting an admin's check. Returns the new pull's id and its report.
+ */
+export async function savePull(db: Database, store: UploadStore, shop: ShopRef, buildId: number, upload: PullUpload) {
+  const build = await ownBuild(db, shop, buildId)
+  const evaluation = await evaluateUpload(db, build, upload.pull, upload.meta)
+  const sheetMime = upload.sheet ? await vetUpload('sheet', upload.sheet, 'dyno sheet') : null
+  const { meta } = upload
+  const items: { kind: 'pull' | 'sheet', mime: string, file: IncomingFile }[] = [{ kind: 'pull', mime: 'text/csv', file: upload.pull }]
+  if (upload.sheet && sheetMime) items.push({ kind: 'sheet', mime: sheetMime, file: upload.sheet })
+
+  const pullId = await withStagedFiles(db, store, items, async (tx, staged) => {
+    await ownBuild(tx, shop, buildId, true)
+    if (meta.comparisonRole === 'baseline') {
+      const [baseline] = await tx.select({ label: dynoPulls.label }).from(dynoPulls)
+        .where(and(eq(dynoPulls.buildId, buildId), eq(dynoPulls.comparisonRole, 'baseline'), inArray(dynoPulls.status, ['submitted', 'verified']))).limit(1)
+      if (baseline) throw createError({ status: 409, message: `This build already has a baseline pull ("${baseline.label}"); upload this one as a variant, or delete that one first.` })
+    }
+    const fileId = await insertFileRow(tx, shop.userId, staged[0]!)
+    const sheetFileId = staged[1] ? await insertFileRow(tx, shop.userId, staged[1]) : null
+    const [row] = await tx.insert(dynoPulls).values({
+      buildId,
+      label: meta.label,
+      fileId,
+      sheetFileId,
+      dynoKind: meta.dynoKind,
+      declaredStandard: meta.declaredStandard,
+      declaredFactor: meta.declaredFactor,
+      baroInHg: meta.weather?.baroInHg ?? null,
+      airTempF: meta.weather?.airTempF ?? null,
+      humidityPct: meta.weather?.humidityPct ?? null,
+      declaredPeakHp: meta.declaredPeakHp,
+      declaredPeakHpRpm: meta.declaredPeakHpRpm,
+      declaredPeakTq: meta.declaredPeakTq,
+      declaredPeakTqRpm: meta.declaredPeakTqRpm,
+      summary: evaluation.summary,
+      fingerprint: evaluation.fingerprint,
+      checks: evaluation.checks,
+      status: 'submitted',
+      comparisonRole: meta.comparisonRole,
+      changeKind: meta.comparisonRole === 'variant' ? meta.changeKind : null,
+      changeNote: meta.comparisonRole === 'variant' ? meta.changeNote : null,
+    }).$returningId()
+    await refreshHeadline(tx, buildId)
+    return row!.id
+  })
+  await afterBuildChanged(buildId)
+  return { pullId, checks: evaluation.checks, summary: evaluation.summary }
+}
+
+/**
+ * Deletes one of the caller's pulls and its stored file(s). A published listing keeps at least one
+ * pull to show (409: unpublish first).
+ */
+export async function deletePull(db: Database, store: UploadStore, shop: ShopRef, buildId: number, pullId: number): Promise<void> {
+  const keys = await db.transaction(async (tx) => {
+    const build = await ownBuild(tx, shop, buildId, true)
+    const [pull] = await tx.select().from(dynoPulls).where(and(eq(dynoPulls.id, pullId), eq(dynoPulls.buildId, buildId))).for('update')
+    if (!pull) throw createError({ status: 404, message: 'That build has no such pull.' })
+    if (build.status === 'published' && pull.status !== 'rejected') {
+      const live = await tx.select({ id: dynoPulls.id }).from(dynoPulls).where(and(eq(dynoPulls.buildId, buildId), inArray(dynoPulls.status, ['submitted', 'verified'])))
+      if (live.length <= 1) throw createError({ status: 409, message: 'A published listing keeps at least one pull; add another first, or unpublish the listing.' })
+    }
+    await tx.delete(dynoPulls).where(eq(dynoPulls.id, pullId))
+    const removed = await deleteFileRows(tx, [pull.fileId, ...(pull.sheetFileId ? [pull.sheetFileId] : [])])
+    await refreshHeadline(tx, buildId)
+    return removed
+  })
+  await discard(store, keys)
+  await afterBuildChanged(buildId)
+}

@@ -1,0 +1,239 @@
+import { randomBytes } from 'node:crypto'
+import { createError } from 'h3'
+import { and, asc, count, eq, inArray, like, ne } from 'drizzle-orm'
+import { buildDraftPatch, MAX_PARTS, publishProblems, REQUIRED_FOR_PUBLISH, type BuildDraftPatch } from '#shared/schemas/build'
+import type { EditorBuild, EditorFields, PublishIssue } from '#shared/types/editor'
+import { buildParts, buildPhotos, builds, dynoPulls, type Build } from '../database/schema'
+import type { Database } from '../database/types'
+import { deleteFileRows, discard, type Tx, type UploadStore } from './listing-files'
+
+/** The caller's shop, as the builder guard returns it. */
+export interface ShopRef {
+  id: number
+  userId: number
+}
+
+type BuildListener = (buildId: number) => Promise<unknown>
+const listeners: BuildListener[] = []
+
+/** Registers work to run after a build changes (the search plugin keeps the index in step through it). */
+export function onBuildChanged(listener: BuildListener): void {
+  listeners.push(listener)
+}
+
+/**
+ * Called after every write that changes a build or its pulls, once the transaction has committed.
+ * A listener's failure is logged, never passed on: the write itself has already succeeded.
+ */
+export async function afterBuildChanged(buildId: number): Promise<void> {
+  for (const listener of listeners) {
+    try {
+      await listener(buildId)
+    }
+    catch (err) {
+      console.error(`after change of build ${buildId}:`, err)
+    }
+  }
+}
+
+const EDITABLE_COLUMNS = ['title', ...REQUIRED_FOR_PUBLISH, 'injectorSizeLbHr', 'injectorCount'] as const satisfies (keyof EditorFields)[]
+
+/** Plain words for a slug: lower case, digits and single hyphens, at most 120 characters. */
+export function slugify(title: string): string {
+  const slug = title.normalize('NFKD').replace(/[\u0300-\u036F]/g, '').toLowerCase()
+    .replace(/[^a-z0-9]+/g, '-').replace(/^-+|-+$/g, '').slice(0, 120).replace(/-+$/, '')
+  return slug || 'build'
+}
+
+const draftSlug = () => `draft-${randomBytes(6).toString('hex')}`
+
+/**
+ * The caller's own build, locked for update inside a transaction when `tx` is one.
+ * Ownership is in the WHERE clause; a miss answers 403 when the build is another shop's published
+ * listing (visible to everyone) and 404 otherwise (drafts and archived listings stay unseen).
+ */
+export async function ownBuild(db: Database | Tx, shop: ShopRef, buildId: number, lock = false): Promise<Build> {
+  const query = db.select().from(builds).where(and(eq(builds.id, buildId), eq(builds.builderId, shop.id))).limit(1)
+  const [row] = lock ? await query.for('update') : await query
+  if (row) return row
+  const [other] = await db.select({ status: builds.status }).from(builds).where(eq(builds.id, buildId)).limit(1)
+  if (other?.status === 'published') throw createError({ status: 403, message: 'That listing belongs to another shop; only its builder can change it.' })
+  throw createError({ status: 404, message: 'You have no build with that id.' })
+}
+
+/** The publish check over a stored row: the same zod schema the editor page runs. */
+export function publishIssues(build: Build, livePulls: number): PublishIssue[] {
+  return publishProblems(fieldsOf(build) as unknown as Record<string, unknown>, livePulls)
+}
+
+function fieldsOf(build: Build): EditorFields {
+  return Object.fromEntries(EDITABLE_COLUMNS.map(k => [k, build[k]])) as unknown as EditorFields
+}
+
+/** Counts the pulls that a listing can show (submitted or verified). */
+async function livePullCount(db: Database | Tx, buildId: number): Promise<number> {
+  const [row] = await db.select({ n: count() }).from(dynoPulls).where(and(eq(dynoPulls.buildId, buildId), inArray(dynoPulls.status, ['submitted', 'verified'])))
+  return row?.n ?? 0
+}
+
+/**
+ * The build's headline figures and checked mark from its pulls: the first verified pull, else the
+ * first submitted one (the order the build page lists them); none when no pull is left to show.
+ */
+export async function refreshHeadline(tx: Tx, buildId: number): Promise<void> {
+  const rows = await tx.select({ status: dynoPulls.status, summary: dynoPulls.summary }).from(dynoPulls)
+    .where(and(eq(dynoPulls.buildId, buildId), inArray(dynoPulls.status, ['submitted', 'verified']))).orderBy(asc(dynoPulls.id))
+  const verified = rows.filter(r => r.status === 'verified')
+  const headline = (verified[0] ?? rows[0])?.summary
+  const [build] = await tx.select({ verifiedAt: builds.verifiedAt }).from(builds).where(eq(builds.id, buildId))
+  await tx.update(builds).set({
+    peakHp: headline?.peakHp ?? null,
+    peakHpRpm: headline?.peakHpRpm ?? null,
+    peakTq: headline?.peakTq ?? null,
+    peakTqRpm: headline?.peakTqRpm ?? null,
+    verifiedAt: verified.length ? (build?.verifiedAt ?? new Date()) : null,
+  }).where(eq(builds.id, buildId))
+}
+
+/** A new draft with only its title. Returns its id. */
+export async function createDraft(db: Database, shop: ShopRef, title: string): Promise<number> {
+  const [row] = await db.insert(builds).values({ builderId: shop.id, title: title.trim(), slug: draftSlug(), status: 'draft' }).$returningId()
+  await afterBuildChanged(row!.id)
+  return row!.id
+}
+
+/** The owner's whole view of a build: fields, parts, photos, pulls with their reports, and what publishing still needs. */
+export async function editorBuild(db: Database, shop: ShopRef, buildId: number): Promise<EditorBuild> {
+  const build = await ownBuild(db, shop, buildId)
+  const [parts, photos, pulls] = await Promise.all([
+    db.select().from(buildParts).where(eq(buildParts.buildId, buildId)).orderBy(asc(buildParts.position)),
+    db.select().from(buildPhotos).where(eq(buildPhotos.buildId, buildId)).orderBy(asc(buildPhotos.position), asc(buildPhotos.id)),
+    db.select().from(dynoPulls).where(eq(dynoPulls.buildId, buildId)).orderBy(asc(dynoPulls.id)),
+  ])
+  const live = pulls.filter(p => p.status !== 'rejected').length
+  return {
+    id: build.id,
+    slug: build.slug,
+    status: build.status,
+    publishedAt: build.publishedAt?.toISOString() ?? null,
+    verified: build.verifiedAt !== null,
+    updatedAt: build.updatedAt.toISOString(),
+    fields: fieldsOf(build),
+    parts: parts.map(p => ({ position: p.position, category: p.category, part: p.part, partNumber: p.partNumber, quantity: p.quantity, unitPriceCents: p.unitPriceCents })),
+    photos: photos.map(p => ({ id: p.id, caption: p.caption, url: `/api/me/builds/${buildId}/photos/${p.id}` })),
+    pulls: pulls.map(p => ({
+      id: p.id,
+      label: p.label,
+      status: p.status,
+      dynoKind: p.dynoKind,
+      declaredStandard: p.declaredStandard,
+      comparisonRole: p.comparisonRole,
+      changeKind: p.changeKind,
+      changeNote: p.changeNote,
+      summary: p.summary,
+      checks: p.checks ?? [],
+      reviewNote: p.reviewNote,
+      hasSheet: p.sheetFileId !== null,
+      createdAt: p.createdAt.toISOString(),
+    })),
+    publishIssues: publishIssues(build, live),
+  }
+}
+
+/**
+ * An autosave: the fields sent replace the stored ones, a parts list replaces the whole list, in one
+ * transaction. A published listing stays publishable: a change that would break the publish check
+ * answers 422 and nothing is written.
+ */
+export async function updateBuild(db: Database, shop: ShopRef, buildId: number, input: BuildDraftPatch): Promise<void> {
+  const parsed = buildDraftPatch.safeParse(input)
+  if (!parsed.success) throw createError({ status: 400, message: parsed.error.issues.map(i => `${i.path.join('.')}: ${i.message}`).join('; ') })
+  const { parts, ...columns } = parsed.data
+  await db.transaction(async (tx) => {
+    const build = await ownBuild(tx, shop, buildId, true)
+    if (build.status === 'published') {
+      const merged = { ...build, ...columns } as Build
+      const issues = publishIssues(merged, 1)
+      if (issues.length) throw createError({ status: 422, message: `A published listing must stay complete: ${issues.map(i => `${i.path}: ${i.message}`).join('; ')}.`, data: { issues } })
+    }
+    if (Object.keys(columns).length) await tx.update(builds).set(columns).where(eq(builds.id, buildId))
+    if (parts) {
+      if (parts.length > MAX_PARTS) throw createError({ status: 422, message: `A parts list has at most ${MAX_PARTS} rows.` })
+      await tx.delete(buildParts).where(eq(buildParts.buildId, buildId))
+      if (parts.length) await tx.insert(buildParts).values(parts.map((p, position) => ({ ...p, buildId, position })))
+      // The row's updated_at marks the autosave even when only the parts changed.
+      if (!Object.keys(columns).length) await tx.update(builds).set({ updatedAt: new Date() }).where(eq(builds.id, buildId))
+    }
+  })
+  await afterBuildChanged(buildId)
+}
+
+/** A slug for a first publish: the title's words, with -2, -3… when another build has them. */
+async function freeSlug(tx: Tx, buildId: number, title: string): Promise<string> {
+  const base = slugify(title)
+  const taken = new Set((await tx.select({ slug: builds.slug }).from(builds).where(and(like(builds.slug, `${base}%`), ne(builds.id, buildId)))).map(r => r.slug))
+  if (!taken.has(base)) return base
+  for (let n = 2; n < 1000; n++) if (!taken.has(`${base}-${n}`)) return `${base}-${n}`
+  return `${base}-${randomBytes(3).toString('hex')}`
+}
+
+const TRANSITIONS: Record<'publish' | 'unpublish' | 'archive' | 'restore', { from: Build['status'][], to: Build['status'] }> = {
+  publish: { from: ['draft'], to: 'published' },
+  unpublish: { from: ['published'], to: 'draft' },
+  archive: { from: ['draft', 'published'], to: 'archived' },
+  restore: { from: ['archived'], to: 'draft' },
+}
+
+/**
+ * Moves a listing between draft, published and archived. Publishing runs the publish check over the
+ * stored row (422 naming each field) and needs a pull to show; the first publish settles the
+ * listing's address from its title. Returns the build's slug.
+ */
+export async function changeStatus(db: Database, shop: ShopRef, buildId: number, action: keyof typeof TRANSITIONS): Promise<{ status: Build['status'], slug: string }> {
+  const rule = TRANSITIONS[action]
+  const result = await db.transaction(async (tx) => {
+    const build = await ownBuild(tx, shop, buildId, true)
+    if (!rule.from.includes(build.status)) throw createError({ status: 409, message: `A listing that is ${build.status} cannot be asked to ${action}.` })
+    if (action !== 'publish') {
+      await tx.update(builds).set({ status: rule.to }).where(eq(builds.id, buildId))
+      return { status: rule.to, slug: build.slug }
+    }
+    const issues = publishIssues(build, await livePullCount(tx, buildId))
+    if (issues.length) throw createError({ status: 422, message: `Not ready to publish: ${issues.map(i => `${i.path}: ${i.message}`).join('; ')}.`, data: { issues } })
+    const slug = build.publishedAt ? build.slug : await freeSlug(tx, buildId, build.title)
+    await tx.update(builds).set({ status: 'published', slug, publishedAt: build.publishedAt ?? new Date() }).where(eq(builds.id, buildId))
+    await refreshHeadline(tx, buildId)
+    return { status: 'published' as const, slug }
+  })
+  await afterBuildChanged(buildId)
+  return result
+}
+
+/**
+ * Deletes a build with its parts, photos and pulls and every file they stored: the rows in one
+ * transaction, then the stored files once it has committed.
+ */
+export async function deleteBuild(db: Database, store: UploadStore, shop: ShopRef, buildId: number): Promise<void> {
+  const keys = await db.transaction(async (tx) => {
+    await ownBuild(tx, shop, buildId, true)
+    const pulls = await tx.select({ fileId: dynoPulls.fileId, sheetFileId: dynoPulls.sheetFileId }).from(dynoPulls).where(eq(dynoPulls.buildId, buildId))
+    const photos = await tx.select({ fileId: buildPhotos.fileId }).from(buildPhotos).where(eq(buildPhotos.buildId, buildId))
+    const fileIds = [...pulls.flatMap(p => [p.fileId, p.sheetFileId]), ...photos.map(p => p.fileId)].filter((id): id is number => id !== null)
+    await tx.delete(dynoPulls).where(eq(dynoPulls.buildId, buildId))
+    await tx.delete(buildPhotos).where(eq(buildPhotos.buildId, buildId))
+    await tx.delete(buildParts).where(eq(buildParts.buildId, buildId))
+    try {
+      await tx.delete(builds).where(eq(builds.id, buildId))
+    }
+    catch (error) {
+      // Another table (a quote request, an order) still points at the build.
+      if ((error as { errno?: number }).errno === 1451 || (error as { cause?: { errno?: number } }).cause?.errno === 1451) {
+        throw createError({ status: 409, message: 'This build is part of a quote or an order, so it cannot be deleted; archive it instead.' })
+      }
+      throw error
+    }
+    return deleteFileRows(tx, fileIds)
+  })
+  await discard(store, keys)
+  await afterBuildChanged(buildId)
+}

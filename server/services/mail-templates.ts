@@ -1,0 +1,94 @@
+// The deal e-mails, in Torquewright's own words, each as plain text and simple HTML.
+import { formatCents } from '../../shared/money'
+
+export interface RenderedMail {
+  subject: string
+  text: string
+  html: string
+}
+
+export type DealMail
+  = | { kind: 'new_request', shopName: string, racerName: string, title: string, link: string }
+    | { kind: 'new_message', recipientName: string, senderName: string, title: string, excerpt: string, link: string }
+    | { kind: 'quote_sent', racerName: string, shopName: string, title: string, totalCents: number, revision: number, validUntil: string, link: string }
+    | { kind: 'quote_accepted', shopName: string, racerName: string, title: string, totalCents: number, link: string }
+    | { kind: 'milestone_funded', recipientName: string, milestone: string, amountCents: number, title: string, link: string }
+    | { kind: 'milestone_submitted', racerName: string, shopName: string, milestone: string, autoApproveDays: number, link: string }
+    | { kind: 'milestone_approved', recipientName: string, milestone: string, automatic: boolean, link: string }
+    | { kind: 'milestone_released', shopName: string, milestone: string, payoutCents: number, feeCents: number, link: string }
+    | { kind: 'milestone_refunded', recipientName: string, milestone: string, amountCents: number, reason: string, link: string }
+
+// The tokens of tailwind.config.ts (ink, paper, copper), written out because e-mail has no stylesheet.
+const INK = '#1d2230'
+const PAPER = '#f5f3ee'
+const COPPER = '#b8562a'
+
+const escape = (s: string) => s.replace(/[&<>"']/g, c => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', '\'': '&#39;' })[c]!)
+
+function layout(paragraphs: string[], action: { label: string, link: string }): { text: string, html: string } {
+  const text = `${paragraphs.join('\n\n')}\n\n${action.label}: ${action.link}\n\n— Torquewright\nYou get this e-mail because you are a party to this deal.`
+  const html = `<!doctype html><html><body style="margin:0;background:${PAPER};font-family:Manrope,Arial,sans-serif;color:${INK}">
+<div style="max-width:560px;margin:0 auto;padding:28px 24px">
+<p style="font-weight:800;font-size:18px;margin:0 0 18px">Torquewright</p>
+${paragraphs.map(p => `<p style="font-size:15px;line-height:1.55;margin:0 0 14px">${escape(p)}</p>`).join('\n')}
+<p style="margin:22px 0"><a href="${escape(action.link)}" style="background:${COPPER};color:white;padding:10px 18px;border-radius:999px;text-decoration:none;font-weight:700">${escape(action.label)}</a></p>
+<p style="font-size:12px;color:${INK};opacity:.6">You get this e-mail because you are a party to this deal.</p>
+</div></body></html>`
+  return { text, html }
+}
+
+export function renderDealMail(mail: DealMail): RenderedMail {
+  switch (mail.kind) {
+    case 'new_request':
+      return { subject: `New quote request: ${mail.title}`, ...layout([
+        `Hello ${mail.shopName},`,
+        `${mail.racerName} asked you for a quote: "${mail.title}". The request has their power target, class limits, fuel, drivetrain, budget and deadline.`,
+        'Answer with a quote or a question in the request\'s thread.',
+      ], { label: 'Open the request', link: mail.link }) }
+    case 'new_message':
+      return { subject: `New message on "${mail.title}"`, ...layout([
+        `Hello ${mail.recipientName},`,
+        `${mail.senderName} wrote: "${mail.excerpt}"`,
+      ], { label: 'Reply in the thread', link: mail.link }) }
+    case 'quote_sent':
+      return { subject: `${mail.shopName} sent a quote: ${formatCents(mail.totalCents)}`, ...layout([
+        `Hello ${mail.racerName},`,
+        `${mail.shopName} quoted "${mail.title}" at ${formatCents(mail.totalCents)}${mail.revision > 1 ? ` (revision ${mail.revision})` : ''}. The quote holds until ${mail.validUntil}.`,
+        'Check the line items and the milestones, then accept or decline it on the request page.',
+      ], { label: 'Review the quote', link: mail.link }) }
+    case 'quote_accepted':
+      return { subject: `Quote accepted: ${mail.title}`, ...layout([
+        `Hello ${mail.shopName},`,
+        `${mail.racerName} accepted your quote of ${formatCents(mail.totalCents)} for "${mail.title}". An order has been opened; work starts once the first milestone's deposit is in.`,
+      ], { label: 'Open the order', link: mail.link }) }
+    case 'milestone_funded':
+      return { subject: `Deposit received: ${mail.milestone}`, ...layout([
+        `Hello ${mail.recipientName},`,
+        `The deposit of ${formatCents(mail.amountCents)} for "${mail.milestone}" (${mail.title}) has been paid. Torquewright holds it until the milestone is approved.`,
+      ], { label: 'Open the order', link: mail.link }) }
+    case 'milestone_submitted':
+      return { subject: `Work submitted for approval: ${mail.milestone}`, ...layout([
+        `Hello ${mail.racerName},`,
+        `${mail.shopName} marked "${mail.milestone}" as done and sent their proof. Look it over and approve it, or open a dispute if something is wrong.`,
+        `If you do nothing, it is approved on its own after ${mail.autoApproveDays} days.`,
+      ], { label: 'Review the work', link: mail.link }) }
+    case 'milestone_approved':
+      return { subject: `Milestone approved: ${mail.milestone}`, ...layout([
+        `Hello ${mail.recipientName},`,
+        mail.automatic
+          ? `"${mail.milestone}" was approved on its own, as the racer did not answer within the approval period.`
+          : `"${mail.milestone}" was approved. The payout to the shop follows.`,
+      ], { label: 'Open the order', link: mail.link }) }
+    case 'milestone_released':
+      return { subject: `Payout sent: ${mail.milestone}`, ...layout([
+        `Hello ${mail.shopName},`,
+        `${formatCents(mail.payoutCents)} for "${mail.milestone}" has been transferred to your payout account (the platform fee of ${formatCents(mail.feeCents)} is deducted).`,
+      ], { label: 'Open the order', link: mail.link }) }
+    case 'milestone_refunded':
+      return { subject: `Refunded: ${mail.milestone}`, ...layout([
+        `Hello ${mail.recipientName},`,
+        `The deposit of ${formatCents(mail.amountCents)} for "${mail.milestone}" has been refunded to the card it was paid with. ${mail.reason}`,
+        'Card refunds usually take a few business days to appear.',
+      ], { label: 'Open the order', link: mail.link }) }
+  }
+}

@@ -1,0 +1,31 @@
+import type Stripe from 'stripe'
+import type { DealContext } from '../services/deal-context'
+import { createStripeClient } from '../services/payments'
+
+let stripe: Stripe | undefined
+
+/** The server's one Stripe client, from runtime config (the local fake when NUXT_STRIPE_API_HOST is set). */
+export function useStripe(): Stripe {
+  if (!stripe) {
+    const c = useRuntimeConfig()
+    stripe = createStripeClient({ secretKey: c.stripeSecretKey, apiHost: c.stripeApiHost, apiPort: c.stripeApiPort, apiProtocol: c.stripeApiProtocol })
+  }
+  return stripe
+}
+
+/** What the deal services are given in a request: the database, the Stripe client (made on first use), settings and the clock. */
+export function useDealContext(): DealContext {
+  const c = useRuntimeConfig()
+  return {
+    db: useDb(),
+    get stripe() {
+      return useStripe()
+    },
+    config: {
+      platformFeeBps: Number(c.platformFeeBps),
+      autoApproveDays: Number(c.autoApproveDays),
+      siteUrl: (c.public.siteUrl || `http://127.0.0.1:${process.env.PORT ?? 3000}`).replace(/\/$/, ''),
+    },
+    now: () => new Date(),
+  }
+}

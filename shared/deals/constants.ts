@@ -1,0 +1,47 @@
+/** The words and states of a deal, shared by the schema, the server and the pages. */
+
+export const DEAL_FUELS = ['pump_gas', 'race_gas', 'e85', 'methanol'] as const
+export const DEAL_ASPIRATIONS = ['na', 'turbo', 'supercharged', 'nitrous'] as const
+export const DEAL_USES = ['drag', 'road_course', 'street_strip', 'off_road', 'marine', 'street'] as const
+export const TRANSMISSIONS = ['manual', 'automatic', 'sequential', 'none'] as const
+
+export const TRANSMISSION_LABELS: Record<(typeof TRANSMISSIONS)[number], string> = {
+  manual: 'Manual', automatic: 'Automatic (torque converter)', sequential: 'Sequential', none: 'None (engine only / direct drive)',
+}
+
+export const MILESTONE_STATES = ['awaiting_payment', 'funded', 'submitted', 'approved', 'released', 'disputed', 'refunded', 'cancelled'] as const
+export type MilestoneStateName = (typeof MILESTONE_STATES)[number]
+
+/** How each milestone state reads on the tracker. */
+export const MILESTONE_STATE_LABELS: Record<MilestoneStateName, string> = {
+  awaiting_payment: 'Waiting for the deposit',
+  funded: 'Deposit held',
+  submitted: 'Work submitted',
+  approved: 'Approved, releasing',
+  released: 'Paid out to the shop',
+  disputed: 'In dispute',
+  refunded: 'Refunded',
+  cancelled: 'Cancelled',
+}
+
+/** The milestone states in which money is held by the platform for the racer. */
+export const HELD_STATES: readonly MilestoneStateName[] = ['funded', 'submitted', 'disputed']
+
+export const REQUEST_STATUS_LABELS: Record<string, string> = {
+  open: 'Waiting for a quote', quoted: 'Quote received', accepted: 'Quote accepted', declined: 'Quote declined', withdrawn: 'Withdrawn',
+}
+
+export const ORDER_STATUS_LABELS: Record<string, string> = {
+  active: 'In progress', completed: 'Completed', cancelled: 'Cancelled',
+}
+
+/** Limits of the forms, shared so the pages and the server refuse the same things. */
+export const DEAL_LIMITS = {
+  lineItems: 60,
+  milestones: 12,
+  attachments: 10,
+  messageChars: 5000,
+  notesChars: 5000,
+  minMilestoneCents: 100,
+  maxGuaranteeTolerancePct: 10,
+} as const

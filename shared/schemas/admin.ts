@@ -1,0 +1,44 @@
+import { z } from 'zod'
+import { idSchema, paginationQuery } from './common'
+
+/** Request shapes of the admin routes; the admin pages validate with these same schemas. */
+
+/** A reason the other party will read: long enough to act on, short enough for an e-mail. */
+export const reasonSchema = (what: string) => z.string({ error: `Write ${what}` })
+  .trim()
+  .min(10, `Write ${what} in a sentence or two (at least 10 characters), so the shop knows what to fix`)
+  .max(2000, 'Keep it under 2,000 characters')
+
+export const approveEvidenceSchema = z.strictObject({
+  note: z.string({ error: 'A note is text' }).trim().max(1000, 'Keep the note under 1,000 characters').optional(),
+})
+
+export const rejectEvidenceSchema = z.strictObject({
+  reason: reasonSchema('what is wrong with the pull'),
+})
+
+export const unpublishListingSchema = z.strictObject({
+  reason: reasonSchema('why the listing comes down'),
+})
+
+export const BUILD_STATUSES = ['draft', 'published', 'archived'] as const
+
+export const adminListingsQuery = paginationQuery.extend({
+  q: z.string().trim().max(120, 'Search with at most 120 characters').optional(),
+  status: z.enum(BUILD_STATUSES, { error: 'status is draft, published or archived' }).optional(),
+})
+
+const day = z.iso.date({ error: 'Dates are written YYYY-MM-DD' })
+
+export const auditQuery = paginationQuery.extend({
+  action: z.string().trim().max(60).regex(/^[a-z_.]+$/, 'An action looks like pull.verify').optional(),
+  entityType: z.string().trim().max(40).regex(/^[a-z_]+$/, 'An entity type looks like dyno_pull').optional(),
+  entityId: idSchema.optional(),
+  actor: z.string().trim().max(254, 'Search the actor with at most 254 characters').optional(),
+  from: day.optional(),
+  to: day.optional(),
+  perPage: paginationQuery.shape.perPage.default(50),
+}).refine(v => !v.from || !v.to || v.from <= v.to, { message: 'The first day comes before the last day', path: ['from'] })
+
+export type AuditQuery = z.infer<typeof auditQuery>
+export type AdminListingsQuery = z.infer<typeof adminListingsQuery>

@@ -1,0 +1,117 @@
+import { eq } from 'drizzle-orm'
+import { drizzle } from 'drizzle-orm/mysql2'
+import mysql from 'mysql2/promise'
+import { inject } from 'vitest'
+import * as schema from '../../server/database/schema'
+import type { Database } from '../../server/database/types'
+import { type DealActor, type DealContext, loadActor } from '../../server/services/deal-context'
+import { acceptQuote, createRequest, sendQuote } from '../../server/services/deals'
+import type { QuoteInput, QuoteRequestInput } from '../../shared/schemas/deals'
+import { quoteRequestSchema, quoteSchema } from '../../shared/schemas/deals'
+import { startCheckout } from '../../server/services/payments'
+import { CARDS, eventually, payOnFakePage, runningFakeClient } from './payments'
+
+/**
+ * The deal services' context for tests: a pool on the test database (so two transactions can race),
+ * the SDK against the running payments fake, and the app's settings. Its webhooks go to the built app.
+ */
+export async function dealTestContext(overrides: Partial<DealContext['config']> = {}): Promise<{ ctx: DealContext, db: Database, close: () => Promise<void> }> {
+  const pool = mysql.createPool({ uri: inject('databaseUrl'), connectionLimit: 6, timezone: 'Z' })
+  const db = drizzle(pool, { schema, mode: 'default' })
+  const ctx: DealContext = {
+    db,
+    stripe: runningFakeClient(),
+    config: { platformFeeBps: 500, autoApproveDays: 7, siteUrl: inject('baseUrl'), ...overrides },
+    now: () => new Date(),
+  }
+  return { ctx, db, close: () => pool.end() }
+}
+
+export async function actorByEmail(db: Database, email: string): Promise<DealActor> {
+  const [user] = await db.select({ id: schema.users.id }).from(schema.users).where(eq(schema.users.email, email)).limit(1)
+  const actor = await loadActor(db, user!.id)
+  if (!actor) throw new Error(`no actor for ${email}`)
+  return actor
+}
+
+/** Seeded people the deal tests act as (invented demo accounts, see the README). */
+export const PEOPLE = {
+  racer: 'jonah@racer.test',
+  otherRacer: 'alma@racer.test',
+  builder: 'marisol@harrow-creek.test',
+  builderSlug: 'harrow-creek-engine-works',
+  otherBuilder: 'gideon@ninefold.test',
+  admin: 'admin@torquewright.test',
+} as const
+
+const inDays = (n: number) => new Date(Date.now() + n * 86_400_000).toISOString().slice(0, 10)
+
+export function requestInput(overrides: Partial<QuoteRequestInput> = {}): QuoteRequestInput {
+  return quoteRequestSchema.parse({
+    builder: PEOPLE.builderSlug,
+    title: 'Bracket engine, 10.5 class',
+    targetHp: 640,
+    targetTq: 560,
+    targetStandard: 'SAE_J1349_2004',
+    displacementCapCi: 440,
+    fuel: 'race_gas',
+    aspiration: 'na',
+    intendedUse: 'drag',
+    transmission: 'automatic',
+    stallRpm: 4800,
+    shiftRpm: 7200,
+    budgetMinCents: 2_000_000,
+    budgetMaxCents: 3_000_000,
+    deadline: inDays(120),
+    notes: 'Street-legal exhaust, must fit under the stock hood line.',
+    ...overrides,
+  })
+}
+
+/** A quote whose line items total $24,600.00, in three milestones that add up to it. */
+export function quoteInput(overrides: Partial<QuoteInput> = {}): QuoteInput {
+  return quoteSchema.parse({
+    lineItems: [
+      { category: 'Machine work', description: 'Bore, hone, deck and line-hone the block', partNumber: '', quantity: 1, unitPriceCents: 480_000 },
+      { category: 'Rotating assembly', description: 'Forged crank, rods and pistons', partNumber: 'RA-4412', quantity: 1, unitPriceCents: 920_000 },
+      { category: 'Cylinder heads', description: 'Ported aluminium heads, pair', partNumber: 'HD-205', quantity: 2, unitPriceCents: 330_000 },
+      { category: 'Assembly and dyno', description: 'Assembly, break-in and tuning on the engine dyno', partNumber: '', quantity: 1, unitPriceCents: 400_000 },
+    ],
+    milestones: [
+      { title: 'Deposit and parts order', deliverable: 'Parts ordered, invoices shared', amountCents: 738_000, dueDate: inDays(14) },
+      { title: 'Short block', deliverable: 'Machined and assembled short block, photos and measurements', amountCents: 984_000, dueDate: inDays(60) },
+      { title: 'Dyno delivery', deliverable: 'Finished engine with the delivery pull', amountCents: 738_000, dueDate: inDays(100) },
+    ],
+    validUntil: inDays(30),
+    notes: 'Prices hold for 30 days.',
+    guarantee: null,
+    ...overrides,
+  })
+}
+
+/** A request from the racer, quoted by the shop and accepted: an order with three milestones awaiting payment. */
+export async function makeOrder(ctx: DealContext, opts: { racer?: DealActor, builder?: DealActor, request?: Partial<QuoteRequestInput>, quote?: Partial<QuoteInput> } = {}) {
+  const racer = opts.racer ?? await actorByEmail(ctx.db, PEOPLE.racer)
+  const builder = opts.builder ?? await actorByEmail(ctx.db, PEOPLE.builder)
+  const { id: requestId } = await createRequest(ctx, racer, requestInput(opts.request))
+  const { quoteId, revision } = await sendQuote(ctx, builder, requestId, quoteInput(opts.quote))
+  const { orderId } = await acceptQuote(ctx, racer, quoteId, revision)
+  const list = await ctx.db.select().from(schema.milestones).where(eq(schema.milestones.orderId, orderId)).orderBy(schema.milestones.position)
+  return { racer, builder, requestId, quoteId, orderId, milestones: list }
+}
+
+export async function milestoneRow(db: Database, id: number) {
+  const [row] = await db.select().from(schema.milestones).where(eq(schema.milestones.id, id))
+  return row!
+}
+
+export { schema }
+
+/** Pays a milestone as the racer would: a Checkout Session from the service, the fake's page with 4242…, then waits for the webhook. */
+export async function fundMilestone(ctx: DealContext, racer: DealActor, milestoneId: number) {
+  const { url, sessionId } = await startCheckout(ctx, racer, milestoneId)
+  const page = await payOnFakePage(url, CARDS.succeeds)
+  if (page.status !== 303) throw new Error(`the fake's page answered ${page.status}`)
+  await eventually(`milestone ${milestoneId} funded`, async () => (await milestoneRow(ctx.db, milestoneId)).state === 'funded')
+  return { sessionId, redirect: page.location }
+}

@@ -1,0 +1,59 @@
+import { describe, expect, it } from 'vitest'
+import { aspirations, fuels, milestoneStates, transmissions, uses } from '../../server/database/schema'
+import { DEAL_ASPIRATIONS, DEAL_FUELS, DEAL_USES, MILESTONE_STATES, TRANSMISSIONS } from '../../shared/deals/constants'
+import { messageSchema, quoteRequestSchema, quoteSchema } from '../../shared/schemas/deals'
+
+const request = {
+  builder: 'harrow-creek-engine-works', title: 'Bracket engine', targetHp: 640, targetStandard: 'SAE_J1349_2004',
+  fuel: 'race_gas', aspiration: 'na', intendedUse: 'drag', transmission: 'automatic', stallRpm: 4800, shiftRpm: 7200,
+  budgetMinCents: 2_000_000, budgetMaxCents: 3_000_000,
+}
+
+const issues = (result: { success: boolean, error?: { issues: { path: PropertyKey[], message: string }[] } }) =>
+  (result.error?.issues ?? []).map(i => `${i.path.join('.')}: ${i.message}`)
+
+describe('the deal forms\' schemas', () => {
+  it('use the same words as the database columns', () => {
+    expect([...DEAL_FUELS]).toEqual([...fuels])
+    expect([...DEAL_ASPIRATIONS]).toEqual([...aspirations])
+    expect([...DEAL_USES]).toEqual([...uses])
+    expect([...TRANSMISSIONS]).toEqual([...transmissions])
+    expect([...MILESTONE_STATES]).toEqual([...milestoneStates])
+  })
+
+  it('take a complete quote request and fill the optional fields', () => {
+    const parsed = quoteRequestSchema.parse(request)
+    expect(parsed.targetTq).toBeNull()
+    expect(parsed.attachmentIds).toEqual([])
+    expect(parsed.notes).toBe('')
+  })
+
+  it.each([
+    [{ stallRpm: null }, 'stallRpm: With an automatic, give the converter stall speed'],
+    [{ transmission: 'manual' }, 'stallRpm: A stall speed applies to an automatic only'],
+    [{ shiftRpm: 4500 }, 'shiftRpm: The shift rpm must be above the stall speed'],
+    [{ budgetMaxCents: 1_000_000 }, 'budgetMaxCents: The top of the budget is below its bottom'],
+    [{ targetStandard: 'FLATTERING' }, 'targetStandard: Pick one of the correction standards in the list'],
+    [{ budgetMinCents: 10.5 }, 'budgetMinCents: An amount is a whole number of cents'],
+    [{ deadline: '2026-02-30' }, 'deadline: That date does not exist'],
+  ])('refuses %j with a message a person can act on', (change, message) => {
+    expect(issues(quoteRequestSchema.safeParse({ ...request, ...change }))).toContain(message)
+  })
+
+  it('refuses an empty message without a file', () => {
+    expect(issues(messageSchema.safeParse({ body: '   ' }))).toContain('body: Write a message or attach a file')
+    expect(messageSchema.safeParse({ body: '', attachmentIds: [3] }).success).toBe(true)
+  })
+
+  it('bounds a quote: at least one line and one milestone, whole-cent amounts, a guarantee tolerance of at most 10 %', () => {
+    const quote = {
+      lineItems: [{ category: 'Machine work', description: 'Bore and hone', quantity: 1, unitPriceCents: 50_000 }],
+      milestones: [{ title: 'All', deliverable: 'Everything', amountCents: 50_000, dueDate: '2030-01-01' }],
+      validUntil: '2030-01-01',
+    }
+    expect(quoteSchema.safeParse(quote).success).toBe(true)
+    expect(issues(quoteSchema.safeParse({ ...quote, lineItems: [] }))).toContain('lineItems: A quote has at least one line item')
+    expect(issues(quoteSchema.safeParse({ ...quote, milestones: [{ ...quote.milestones[0], amountCents: 99 }] }))).toContain('milestones.0.amountCents: A milestone is at least $1.00')
+    expect(issues(quoteSchema.safeParse({ ...quote, guarantee: { hp: 700, tolerancePct: 12, standard: 'DIN_70020' } }))).toContain('guarantee.tolerancePct: The tolerance is at most 10 %')
+  })
+})

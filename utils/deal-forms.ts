@@ -1,0 +1,73 @@
+import type { QuoteRequestInput } from '#shared/schemas/deals'
+import { parseMoney } from '#shared/money'
+
+/** The request form as typed (every field text), and how it becomes the route's body. */
+export interface TargetFields { targetHp: string, targetTq: string, targetStandard: string, displacementCapCi: string }
+export interface DrivetrainFields { fuel: string, aspiration: string, intendedUse: string, transmission: string, stallRpm: string, shiftRpm: string }
+export interface BudgetFields { budgetMin: string, budgetMax: string, deadline: string, title: string, notes: string }
+
+const num = (s: string) => (s.trim() === '' ? null : Number(s.replace(/,/g, '')))
+
+/** The body for POST /api/requests, plus any money field that did not read as an amount. */
+export function requestBody(builder: string, build: string | undefined, t: TargetFields, d: DrivetrainFields, b: BudgetFields, attachmentIds: number[]) {
+  const errors: Record<string, string> = {}
+  const min = parseMoney(b.budgetMin || '0')
+  const max = parseMoney(b.budgetMax)
+  if (!min.ok) errors.budgetMinCents = min.message
+  if (!max.ok) errors.budgetMaxCents = max.message
+  const body: Partial<Record<keyof QuoteRequestInput, unknown>> = {
+    builder, build, title: b.title, notes: b.notes, deadline: b.deadline || null, attachmentIds,
+    targetHp: num(t.targetHp), targetTq: num(t.targetTq), targetStandard: t.targetStandard, displacementCapCi: num(t.displacementCapCi),
+    fuel: d.fuel, aspiration: d.aspiration, intendedUse: d.intendedUse, transmission: d.transmission,
+    stallRpm: d.transmission === 'automatic' ? num(d.stallRpm) : null, shiftRpm: num(d.shiftRpm),
+    budgetMinCents: min.ok ? min.cents : 0, budgetMaxCents: max.ok ? max.cents : 0,
+  }
+  return { body, errors }
+}
+
+/** zod issues keyed by their first path segment, for showing beside the fields. */
+export function issuesByField(issues: { path: PropertyKey[], message: string }[]): Record<string, string> {
+  const out: Record<string, string> = {}
+  for (const i of issues) {
+    const key = String(i.path[0] ?? 'form')
+    out[key] ??= i.message
+  }
+  return out
+}
+
+export interface LineDraft { category: string, description: string, partNumber: string, quantity: string, unitPrice: string }
+export interface MilestoneDraft { title: string, deliverable: string, amount: string, dueDate: string, percent: string }
+export interface GuaranteeDraft { enabled: boolean, hp: string, tolerancePct: string, standard: string }
+
+/** Cents of a typed amount, or null while it does not read as one. */
+export function draftCents(text: string): number | null {
+  const parsed = parseMoney(text)
+  return parsed.ok ? parsed.cents : null
+}
+
+/** A line's total in cents (quantity × unit price, integers only), or null while either is incomplete. */
+export function draftLineTotal(line: LineDraft): number | null {
+  const unit = draftCents(line.unitPrice)
+  const qty = Number(line.quantity)
+  return unit === null || !Number.isInteger(qty) || qty < 1 ? null : unit * qty
+}
+
+/** The body for POST /api/requests/:id/quote, or the first thing a person must fix. */
+export function quoteBody(lines: LineDraft[], milestones: MilestoneDraft[], guarantee: GuaranteeDraft, validUntil: string, notes: string) {
+  const errors: Record<string, string> = {}
+  const lineItems = lines.map((l, i) => {
+    const unit = draftCents(l.unitPrice)
+    if (unit === null) errors.lineItems ??= `Line ${i + 1}: the unit price is not an amount.`
+    return { category: l.category, description: l.description, partNumber: l.partNumber, quantity: Number(l.quantity), unitPriceCents: unit ?? 0 }
+  })
+  const plan = milestones.map((m, i) => {
+    const amount = draftCents(m.amount)
+    if (amount === null) errors.milestones ??= `Milestone ${i + 1}: the amount is not an amount.`
+    return { title: m.title, deliverable: m.deliverable, amountCents: amount ?? 0, dueDate: m.dueDate }
+  })
+  const body = {
+    lineItems, milestones: plan, validUntil, notes,
+    guarantee: guarantee.enabled ? { hp: Number(guarantee.hp), tolerancePct: Number(guarantee.tolerancePct), standard: guarantee.standard } : null,
+  }
+  return { body, errors }
+}
