@@ -46,19 +46,22 @@ export function apportion(total: number, weights: readonly number[]): number[] {
   for (const [i, w] of weights.entries()) {
     if (!Number.isSafeInteger(w) || w < 0) throw new MoneyError(`weight ${i + 1} must be a whole, non-negative number, got ${w}`)
   }
-  const sum = weights.reduce((a, w) => a + BigInt(w), 0n)
-  if (sum === 0n) throw new MoneyError('the weights add up to zero')
+  // BigInt() rather than literals such as 0n: the client bundle's esbuild target predates them.
+  const ZERO = BigInt(0)
+  const ONE = BigInt(1)
+  const sum = weights.reduce((a, w) => a + BigInt(w), ZERO)
+  if (sum === ZERO) throw new MoneyError('the weights add up to zero')
   const big = BigInt(total)
   const shares = weights.map((w, index) => {
     const product = big * BigInt(w)
     return { index, whole: product / sum, remainder: product % sum }
   })
-  let left = big - shares.reduce((a, s) => a + s.whole, 0n)
+  let left = big - shares.reduce((a, s) => a + s.whole, ZERO)
   const byRemainder = [...shares].sort((a, b) => (a.remainder === b.remainder ? a.index - b.index : a.remainder > b.remainder ? -1 : 1))
   for (const s of byRemainder) {
-    if (left === 0n) break
-    s.whole += 1n
-    left -= 1n
+    if (left === ZERO) break
+    s.whole += ONE
+    left -= ONE
   }
   return shares.map(s => Number(s.whole))
 }

@@ -1,8 +1,8 @@
 /** The shapes the admin routes answer with, used by the admin pages. */
 import type { EvidenceCheck, EvidenceOutcome } from '../engine/types'
+import type { BuildStatus } from './editor'
 
 export type PullStatus = 'submitted' | 'verified' | 'rejected'
-export type BuildStatus = 'draft' | 'published' | 'archived'
 
 /** Another build whose curve matches (or nearly matches) the pull under review. */
 export interface DuplicateLink {
