@@ -215,17 +215,30 @@ export class TextIndex {
   }
 
   private collect(line: string, bit: number, stamp: number): void {
-    const ids = this.lineTerms(line, REPEATING_FIELDS[bit] === 1)
-    for (let i = 0; i < ids.length; i++) {
-      const id = ids[i] as number
-      if (this.seenStamp[id] !== stamp) {
-        this.seenStamp[id] = stamp
-        this.maskOfTerm[id] = 0
-        if (this.collected === this.scratch.length) this.scratch = grow(this.scratch, this.collected * 2)
-        this.scratch[this.collected++] = id
-      }
-      this.maskOfTerm[id] = (this.maskOfTerm[id] as number) | (1 << bit)
+    if (REPEATING_FIELDS[bit] === 1) {
+      const ids = this.lineTerms(line, true)
+      for (let i = 0; i < ids.length; i++) this.mark(ids[i] as number, bit, stamp)
+      return
     }
+    // Text that does not repeat (titles, summaries, parts) goes straight from the split to the
+    // document's term list, without an array of terms or of ids per line.
+    const lower = line.toLowerCase()
+    const terms = NOT_ASCII.test(lower) ? tokenize(lower) : lower.split(ASCII_SEPARATORS)
+    for (let i = 0; i < terms.length; i++) {
+      const term = terms[i] as string
+      if (term && !STOP_WORDS.has(term)) this.mark(this.termId(term), bit, stamp)
+    }
+  }
+
+  /** Adds a term id to the document being indexed (once), with the field it was found in. */
+  private mark(id: number, bit: number, stamp: number): void {
+    if (this.seenStamp[id] !== stamp) {
+      this.seenStamp[id] = stamp
+      this.maskOfTerm[id] = 0
+      if (this.collected === this.scratch.length) this.scratch = grow(this.scratch, this.collected * 2)
+      this.scratch[this.collected++] = id
+    }
+    this.maskOfTerm[id] = (this.maskOfTerm[id] as number) | (1 << bit)
   }
 
   /** Indexes a document's words at a slot (which must be empty). */
