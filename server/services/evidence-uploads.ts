@@ -4,8 +4,9 @@ import { torqueAt, type CorrectionStandard, type DeclaredFigures } from '#shared
 import { evaluatePull, type PullBuildContext } from '#shared/pulls/evaluate'
 import type { PullMeta } from '#shared/schemas/build'
 import type { PullPreview } from '#shared/types/editor'
-import { dynoPulls, type Build } from '../database/schema'
+import { builds, dynoPulls, files, type Build } from '../database/schema'
 import type { Database } from '../database/types'
+import type { ReadStoredText } from './curves'
 import { afterBuildChanged, ownBuild, refreshHeadline, type ShopRef } from './listing-editor'
 import { deleteFileRows, discard, insertFileRow, vetUpload, withStagedFiles, type IncomingFile, type UploadStore } from './listing-files'
 
@@ -146,4 +147,46 @@ export async function deletePull(db: Database, store: UploadStore, shop: ShopRef
   })
   await discard(store, keys)
   await afterBuildChanged(buildId)
+}
+
+/** The combination fields the evidence checks read: a change to any of them makes a stored report stale. */
+export const CHECKED_COMBINATION_FIELDS = ['aspiration', 'boreIn', 'strokeIn', 'cylinders'] as const
+
+/**
+ * Runs the evidence checks again for a build's pulls still awaiting review, against the build's
+ * combination as it stands now (after the builder changed the bore, stroke, cylinders or
+ * aspiration), so the admin reviews a report that matches the listing. Verified and rejected pulls
+ * keep the report their decision was made on. Answers how many reports were refreshed.
+ */
+export async function recheckSubmittedPulls(db: Database, buildId: number, read: ReadStoredText): Promise<number> {
+  const [build] = await db.select().from(builds).where(eq(builds.id, buildId)).limit(1)
+  if (!build || build.aspiration === null || build.boreIn === null || build.strokeIn === null || build.cylinders === null) return 0
+  const context = contextOf(build)
+  const rows = await db.select({ pull: dynoPulls, storageKey: files.storageKey }).from(dynoPulls)
+    .innerJoin(files, eq(files.id, dynoPulls.fileId))
+    .where(and(eq(dynoPulls.buildId, buildId), eq(dynoPulls.status, 'submitted')))
+  if (!rows.length) return 0
+  const others = await fingerprintsOfOtherBuilds(db, buildId)
+  let refreshed = 0
+  for (const { pull, storageKey } of rows) {
+    const text = await read(storageKey)
+    if (text === null) continue
+    const weather = pull.baroInHg !== null && pull.airTempF !== null && pull.humidityPct !== null
+      ? { baroInHg: pull.baroInHg, airTempF: pull.airTempF, humidityPct: pull.humidityPct }
+      : null
+    const declared: DeclaredFigures = {
+      standard: pull.declaredStandard as CorrectionStandard,
+      correctionFactor: pull.declaredFactor,
+      peakHp: pull.declaredPeakHp,
+      peakHpRpm: pull.declaredPeakHpRpm,
+      peakTq: pull.declaredPeakTq,
+      peakTqRpm: pull.declaredPeakTqRpm,
+    }
+    const evaluation = evaluatePull({ text, declared, weather, build: context, fingerprintsOfOtherBuilds: others })
+    if (!evaluation.ok) continue
+    // Only while it still awaits review: an admin's decision made meanwhile keeps its report.
+    await db.update(dynoPulls).set({ checks: evaluation.checks }).where(and(eq(dynoPulls.id, pull.id), eq(dynoPulls.status, 'submitted')))
+    refreshed++
+  }
+  return refreshed
 }

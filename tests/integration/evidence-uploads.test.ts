@@ -3,11 +3,11 @@ import { readFileSync } from 'node:fs'
 import { resolve } from 'node:path'
 import { and, eq, ne } from 'drizzle-orm'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { deletePull, previewPull, savePull } from '../../server/services/evidence-uploads'
+import { deletePull, previewPull, recheckSubmittedPulls, savePull } from '../../server/services/evidence-uploads'
 import { changeStatus, createDraft, updateBuild } from '../../server/services/listing-editor'
 import type { UploadStore } from '../../server/services/listing-files'
 import type { Database } from '../../server/database/types'
-import { convertCurve, parsePull, peaks } from '../../shared/engine'
+import { convertCurve, displacementCi, parsePull, peaks } from '../../shared/engine'
 import { UPLOAD_LIMITS } from '../../server/utils/uploads'
 import { schema, testDb } from '../support/context'
 import { buildIds, COMPLETE_COMBINATION, fileRowCount, inventedPullCsv, pullMeta, pullsOf, removeBuildsSince, storedKeys, testUploadsDir, testUploadStore, twoShops } from '../support/listings'
@@ -204,5 +204,37 @@ describe('deleting a pull', () => {
     const [foreign] = await ctx.db.select().from(schema.dynoPulls).where(ne(schema.dynoPulls.buildId, id)).limit(1)
     await expect(deletePull(db, store, shops.mine, id, foreign!.id)).rejects.toMatchObject({ statusCode: 404 })
     expect(await pullsOf(ctx.db, id)).toHaveLength(1)
+  })
+})
+
+describe('the evidence report follows the combination', () => {
+  const readStored = async (key: string) => readFileSync(resolve(testUploadsDir(), key), 'utf8')
+  const bmepOf = async (buildId: number) => (await pullsOf(ctx.db, buildId))[0]!.checks!.find(c => c.id === 'bmep')!
+
+  it('re-runs the checks of a pull awaiting review after the bore and stroke change, and leaves a verified pull\'s report alone', async () => {
+    const id = await readyDraft('Combination changes after the upload')
+    const text = inventedPullCsv(331)
+    await savePull(db, store, shops.mine, id, { pull: file(text), meta: pullMeta() })
+    const before = await bmepOf(id)
+    expect(before.figures!.displacementCi).toBeCloseTo(displacementCi(COMPLETE_COMBINATION.boreIn, COMPLETE_COMBINATION.strokeIn, 8), 6)
+
+    await updateBuild(db, shops.mine, id, { boreIn: 3.5, strokeIn: 3 })
+    expect(await recheckSubmittedPulls(db, id, readStored)).toBe(1)
+    const after = await bmepOf(id)
+    const ci = displacementCi(3.5, 3, 8)
+    expect(after.figures!.displacementCi).toBeCloseTo(ci, 6)
+    // BMEP = 4π·T / Vd for a four-stroke (Heywood, Internal Combustion Engine Fundamentals, eq. 2.20),
+    // with lb·ft → N·m 1.355818 and in³ → m³ 1.6387064e-5 (NIST SP 811).
+    const parsed = parsePull(text)
+    if (!parsed.ok) throw new Error('the invented pull should parse')
+    const expectedKpa = (4 * Math.PI * peaks(parsed.points).peakTq * 1.3558179483) / (ci * 1.6387064e-5) / 1000
+    expect(after.figures!.bmepKpa).toBeCloseTo(expectedKpa, 0)
+    expect(after.figures!.bmepKpa).toBeGreaterThan(before.figures!.bmepKpa as number)
+
+    // Once an admin has decided, the report the decision was made on stays as it was.
+    await ctx.db.update(schema.dynoPulls).set({ status: 'verified' }).where(eq(schema.dynoPulls.buildId, id))
+    await updateBuild(db, shops.mine, id, { boreIn: 4.25, strokeIn: 4 })
+    expect(await recheckSubmittedPulls(db, id, readStored)).toBe(0)
+    expect((await bmepOf(id)).figures!.displacementCi).toBeCloseTo(ci, 6)
   })
 })

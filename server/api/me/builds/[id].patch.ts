@@ -1,5 +1,6 @@
 import { buildDraftPatch } from '#shared/schemas/build'
 import { idParams } from '#shared/schemas/common'
+import { CHECKED_COMBINATION_FIELDS, recheckSubmittedPulls } from '../../../services/evidence-uploads'
 import { editorBuild, updateBuild } from '../../../services/listing-editor'
 
 /** An autosave of some fields and/or the whole parts list; answers the updated owner's view. */
@@ -9,5 +10,7 @@ export default defineEventHandler(async (event) => {
   const patch = await readValidatedBody(event, validator(buildDraftPatch))
   const db = useDb()
   await updateBuild(db, shop, id, patch)
+  // The evidence reports of pulls awaiting review follow the combination they are checked against.
+  if (CHECKED_COMBINATION_FIELDS.some(field => field in patch)) await recheckSubmittedPulls(db, id, readUploadText)
   return editorBuild(db, shop, id)
 })
