@@ -221,6 +221,12 @@ const ASPIRATION_WORDS: Record<Aspiration, string> = { na: 'naturally aspirated'
 const USE_WORDS: Record<Use, string> = { drag: 'drag', road_course: 'road course', street_strip: 'street/strip', off_road: 'off-road', marine: 'marine', street: 'street' }
 const FUEL_WORDS: Record<Fuel, string> = { pump_gas: 'pump gas', race_gas: 'race gas', e85: 'E85', methanol: 'methanol' }
 
+/** A listing's price from its parts list: the parts and labour times the shop's margin, rounded up to whole hundreds of dollars. */
+function priced(margin: number, publishedDaysAgo: number, parts: DemoBuild['parts']) {
+  const partsCents = parts.reduce((sum, p) => sum + p.quantity * p.unitPriceCents, 0)
+  return { priceCents: Math.ceil((partsCents * margin) / 10_000) * 10_000, publishedDaysAgo, parts }
+}
+
 function partsList(r: Random, b: { family: FamilyKey, aspiration: Aspiration, fuel: Fuel, strokeIn: number, rodLengthIn: number, shopCode: string, injectors: number | null }) {
   const code = (cat: string, n: number) => `${b.shopCode}-${cat}-${String(n).padStart(3, '0')}`
   const c = (dollars: number) => Math.round(dollars * r.between(0.9, 1.15)) * 100
@@ -343,9 +349,8 @@ export function demoBuilds(): DemoBuild[] {
         aspiration,
         engineManagement: r.pick(boosted ? MANAGEMENT.slice(0, 2) : [MANAGEMENT[0]!, ...MANAGEMENT.slice(2)]),
         intendedUse: use,
-        priceCents: Math.round(r.between(18, 68) * (boosted ? 1.4 : 1) * 1000) * 100,
-        publishedDaysAgo: r.int(1, 420),
-        parts: partsList(r, { family: familyKey, aspiration, fuel, strokeIn, rodLengthIn, shopCode, injectors }),
+        // The as-built price is the parts and labour with the shop's margin, rounded up to $100.
+        ...priced(r.between(1.12, 1.6), r.int(1, 420), partsList(r, { family: familyKey, aspiration, fuel, strokeIn, rodLengthIn, shopCode, injectors })),
         pulls,
       })
     }

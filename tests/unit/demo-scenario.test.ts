@@ -21,6 +21,14 @@ describe('the invented demo scenario', () => {
     expect(new Set(builds.map(b => b.engineFamily)).size).toBeGreaterThanOrEqual(4)
   })
 
+  it('prices every build at or above its parts and labour (common practice: a shop does not sell below cost)', () => {
+    for (const b of builds) {
+      const partsCents = b.parts.reduce((sum, p) => sum + p.quantity * p.unitPriceCents, 0)
+      expect(b.priceCents).toBeGreaterThanOrEqual(partsCents)
+      expect(b.priceCents % 10_000).toBe(0)
+    }
+  })
+
   it('is the same on every run (deterministic), with unique slugs', () => {
     expect(demoBuilds()).toEqual(builds)
     expect(new Set(builds.map(b => b.slug)).size).toBe(builds.length)
