@@ -185,7 +185,7 @@ export async function settleDispute(ctx: DealContext, actor: DealActor, mileston
     const parties = await partiesOf(tx, order.requestId)
     let after: Record<string, unknown>
     if (outcome === 'refund') {
-      const refund = await refundHeld(ctx, tx, order, milestone, `the dispute was settled in the racer's favour: ${text}`, actor.id, { audit: false, notify: false })
+      const refund = await refundHeld(ctx, tx, order, milestone, 'the dispute was settled in the racer\'s favour.', actor.id, { audit: false, notify: false })
       after = { state: 'refunded', outcome, refund: refund.id, amountCents: refund.amount }
     }
     else {
