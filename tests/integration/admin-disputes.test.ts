@@ -3,12 +3,16 @@
 // written with it, the note reaching both parties (outbox → SMTP catcher, and the thread), and
 // refusals (not disputed, bad body, not an admin) that write nothing.
 import { and, count, eq, like } from 'drizzle-orm'
+import { createStorage } from 'unstorage'
+import fsDriver from 'unstorage/drivers/fs'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { DEMO_DEAL_TITLES, seedDemoDispute } from '../../scripts/lib/seed-deals'
 import type { AdminOverview, DisputeList, DisputeReview } from '../../shared/types/admin'
 import { adminOverview } from '../../server/services/admin-overview'
 import type { DealContext } from '../../server/services/deal-context'
 import { type CookieJar, as, freshAddress, json, signedIn, waitForMail } from '../support/auth'
 import { api } from '../support/context'
+import { testUploadsDir } from '../support/listings'
 import { PEOPLE, actorByEmail, dealTestContext, fundMilestone, makeDispute, makeOrder, milestoneRow, schema } from '../support/deals'
 import { eventually } from '../support/payments'
 
@@ -286,5 +290,23 @@ describe('the dashboard figures for disputes and money', () => {
     const nextMonth = new Date(Date.UTC(now.getUTCFullYear(), now.getUTCMonth() + 1, 1))
     const o = await adminOverview(ctx.db, nextMonth)
     expect(o.payments).toEqual({ month: nextMonth.toISOString().slice(0, 7), count: 0, amountCents: 0, refunds: { count: 0, amountCents: 0 } })
+  })
+})
+
+describe('the demo\'s open dispute', () => {
+  it('is seeded through the payments fake, once, and an admin can settle it like any other', async () => {
+    const storage = createStorage({ driver: fsDriver({ base: testUploadsDir() }) })
+    expect(await seedDemoDispute(ctx.db, storage, ctx.stripe)).toBe(true)
+    expect(await seedDemoDispute(ctx.db, storage, ctx.stripe)).toBe(false)
+    const list = (await get('/api/admin/disputes', jar.admin)).body as DisputeList
+    const seeded = list.open.find(x => x.title === DEMO_DEAL_TITLES.disputed)!
+    expect(seeded).toMatchObject({ racer: { name: expect.any(String) }, shop: { slug: 'cinder-flats-performance' } })
+    const review = (await get(`/api/admin/disputes/${seeded.milestoneId}`, jar.admin)).body as DisputeReview
+    const m = review.order.milestones.find(x => x.id === seeded.milestoneId)!
+    expect(m.proofs).toHaveLength(1)
+    expect((await get(`/api/attachments/${m.proofs[0]!.id}`, jar.admin)).status).toBe(200)
+    // The deposit exists at the fake: a release pays out from it.
+    const res = await settle(seeded.milestoneId, { outcome: 'release', note: 'The crank swap was agreed in the shop by phone.' })
+    expect(res.body).toMatchObject({ outcome: 'release', state: 'released', problem: null })
   })
 })
