@@ -47,6 +47,10 @@ async function footprint(milestoneId: number, requestId: number) {
   }
 }
 
+// Settlement mail leaves through the outbox (drained every 2 s, 20 at a time) behind the deal mail
+// of the earlier tests; on a loaded machine that can take longer than waitForMail's default.
+const OUTBOX_WAIT_MS = 30_000
+
 const auditFor = (milestoneId: number) => ctx.db.select().from(schema.auditLog)
   .where(and(eq(schema.auditLog.entityType, 'milestone'), eq(schema.auditLog.entityId, milestoneId)))
 
@@ -143,11 +147,11 @@ describe('settling by refund', () => {
     // One e-mail to each party, with the outcome and the note, plain and HTML.
     const mails = await ctx.db.select().from(schema.mailOutbox).where(like(schema.mailOutbox.dedupeKey, `settled:${d.milestone.id}:%`))
     expect(mails.map(m => m.toAddress).sort()).toEqual([PEOPLE.builder, PEOPLE.racer].sort())
-    const racerMail = await waitForMail(PEOPLE.racer, m => m.text.includes(note))
+    const racerMail = await waitForMail(PEOPLE.racer, m => m.text.includes(note), OUTBOX_WAIT_MS)
     expect(racerMail.subject).toBe(`Dispute settled: ${d.milestone.title} refunded to the racer`)
     expect(racerMail.text).toContain('refunded to the card it was paid with')
     expect(racerMail.html).toContain('No forged crank was bought')
-    const shopMail = await waitForMail(PEOPLE.builder, m => m.text.includes(note))
+    const shopMail = await waitForMail(PEOPLE.builder, m => m.text.includes(note), OUTBOX_WAIT_MS)
     expect(shopMail.text).toContain('goes back to the racer')
 
     // The racer's order page shows the outcome and the note.
@@ -204,9 +208,9 @@ describe('settling by release', () => {
     // The payout that follows is recorded as every payout is: by the system, with its transfer.
     expect(audit.filter(a => a.actorId === null)).toMatchObject([{ action: 'milestone.release', after: { state: 'released', transfer: atStripe.id } }])
 
-    const racerMail = await waitForMail(PEOPLE.racer, m => m.text.includes(note))
+    const racerMail = await waitForMail(PEOPLE.racer, m => m.text.includes(note), OUTBOX_WAIT_MS)
     expect(racerMail.subject).toBe(`Dispute settled: ${d.milestone.title} released to the shop`)
-    const shopMail = await waitForMail(PEOPLE.builder, m => m.text.includes(note))
+    const shopMail = await waitForMail(PEOPLE.builder, m => m.text.includes(note), OUTBOX_WAIT_MS)
     expect(shopMail.text).toContain('is released to you')
     const thread = await get(`/api/requests/${d.requestId}/messages`, jar.builder)
     expect(thread.body.messages.some((m: { body: string }) => m.body.includes(note))).toBe(true)
