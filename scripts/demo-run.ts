@@ -3,7 +3,7 @@ import { appEnv, buildIfStale, startBuiltServer } from './lib/app'
 import { databaseUrl, loadConfig } from './lib/config'
 import { DEMO_ADMIN, DEMO_PASSWORD, DEMO_RACERS, DEMO_SHOPS } from './lib/demo-data'
 import { migrateDatabase } from './lib/migrate'
-import { paymentsKeys } from './lib/payments'
+import { demoPaymentsFake, paymentsKeys } from './lib/payments'
 import { UserFacingError, portInUse } from './lib/process'
 import { seedDemo } from './lib/seed'
 import { developmentServices, startServices, stopServices, type LocalService } from './lib/services'
@@ -18,7 +18,7 @@ async function main() {
   started = await startServices(cfg, developmentServices)
   const url = databaseUrl(cfg, cfg.db.name)
   await migrateDatabase(url)
-  const seeded = await seedDemo({ url, uploadsDir: resolve(cfg.dataDir, 'uploads') })
+  const seeded = await seedDemo({ url, uploadsDir: resolve(cfg.dataDir, 'uploads'), paymentsFake: demoPaymentsFake(cfg) })
   console.log(`› demo scenario: ${seeded.builds} builds (${seeded.created} new)`)
   await buildIfStale(cfg)
   const server = await startBuiltServer(cfg, appEnv(cfg, {

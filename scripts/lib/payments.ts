@@ -23,6 +23,15 @@ export function paymentsKeys(cfg: ServiceConfig): PaymentsKeys {
   return JSON.parse(readFileSync(file, 'utf8')) as PaymentsKeys
 }
 
+/**
+ * The running local fake the demo seeds its open dispute through; none when Stripe keys were set by
+ * hand (the app then talks to Stripe, which could not settle a payment made at the fake).
+ */
+export function demoPaymentsFake(cfg: ServiceConfig): { port: number, secretKey: string } | undefined {
+  if (process.env.NUXT_STRIPE_SECRET_KEY) return undefined
+  return { port: cfg.payments.port, secretKey: paymentsKeys(cfg).secretKey }
+}
+
 /** The app's webhook route, where the fake sends its signed events. */
 export const webhookUrl = (appPort: number) => `http://127.0.0.1:${appPort}/api/webhooks/stripe`
 

@@ -1,13 +1,18 @@
 // The demo's deals: invented requests, quotes and an order between the demo accounts, made
 // through the deal services so their figures (fees, milestones, history) are what the app makes.
 // In a fresh database they come first, so the access matrix can name them by id (1, 2 and 3).
+import { createHash, randomUUID } from 'node:crypto'
 import { eq, gte } from 'drizzle-orm'
 import type { MySql2Database } from 'drizzle-orm/mysql2'
 import type Stripe from 'stripe'
+import type { Storage } from 'unstorage'
 import * as schema from '../../server/database/schema'
 import { type DealContext, loadActor } from '../../server/services/deal-context'
+import { storeDealFile } from '../../server/services/deal-files'
 import { acceptQuote, createRequest, sendQuote } from '../../server/services/deals'
 import { postMessage } from '../../server/services/messages'
+import { disputeMilestone, submitMilestone } from '../../server/services/milestones'
+import { processStripeEvent, startCheckout } from '../../server/services/payments'
 import { splitByBasisPoints } from '../../shared/money'
 import { quoteRequestSchema, quoteSchema } from '../../shared/schemas/deals'
 
@@ -18,6 +23,7 @@ export const DEMO_DEAL_TITLES = {
   order: 'Class-legal small block for a 10.90 index car',
   open: 'Boosted four-valve for road-course weekends',
   quoted: 'Big-inch bracket engine on methanol',
+  disputed: 'Turbo small block for a street/strip car',
 } as const
 
 const inDays = (n: number) => new Date(Date.now() + n * 86_400_000).toISOString().slice(0, 10)
@@ -97,4 +103,44 @@ export async function seedDemoDeals(db: Db, platformFeeBps = 500): Promise<numbe
 
   await db.delete(schema.mailOutbox).where(gte(schema.mailOutbox.createdAt, started))
   return 3
+}
+
+/**
+ * An open dispute for the demo admin to settle: Samir pays the first deposit of an order with
+ * Cinder Flats on the local payments fake's own page (the test card), the shop submits its proof,
+ * and Samir disputes it. The payment is real at the fake, so the admin's refund or release goes
+ * through it like any other. The completion is recorded here rather than by the webhook, because
+ * the app is not running yet while the demo seeds. Returns false when it exists already.
+ */
+export async function seedDemoDispute(db: Db, storage: Storage, stripe: Stripe, platformFeeBps = 500): Promise<boolean> {
+  const [done] = await db.select({ id: schema.quoteRequests.id }).from(schema.quoteRequests).where(eq(schema.quoteRequests.title, DEMO_DEAL_TITLES.disputed)).limit(1)
+  if (done) return false
+  const started = new Date(Date.now() - 1000)
+  const ctx: DealContext = { db, stripe, config: { platformFeeBps, autoApproveDays: 7, siteUrl: 'http://127.0.0.1:3000' }, now: () => new Date() }
+  const [samir, priya] = await Promise.all([actor(db, 'samir@racer.test'), actor(db, 'priya@cinderflats.test')])
+  const request = await createRequest(ctx, samir, quoteRequestSchema.parse({
+    builder: 'cinder-flats-performance', title: DEMO_DEAL_TITLES.disputed, targetHp: 780, targetTq: 690, targetStandard: 'SAE_J1349_2004',
+    displacementCapCi: null, fuel: 'e85', aspiration: 'turbo', intendedUse: 'street_strip', transmission: 'automatic', stallRpm: 4200, shiftRpm: 6800,
+    budgetMinCents: 2_200_000, budgetMaxCents: 3_000_000, deadline: inDays(150),
+    notes: 'Single turbo, street manners on pump E85. Forged bottom end, the block must take the boost.',
+  }))
+  await postMessage(ctx, priya, request.id, { body: 'We order the rotating assembly as soon as the first deposit is in; invoices go in this thread.', attachmentIds: [] })
+  const q = await sendQuote(ctx, priya, request.id, quote([720_000, 1_360_000, 560_000], null))
+  const { orderId } = await acceptQuote(ctx, samir, q.quoteId, q.revision)
+  const [first] = await db.select().from(schema.milestones).where(eq(schema.milestones.orderId, orderId)).orderBy(schema.milestones.position).limit(1)
+
+  const { url, sessionId } = await startCheckout(ctx, samir, first!.id)
+  const page = await fetch(url, { method: 'POST', redirect: 'manual', body: new URLSearchParams({ email: 'samir@racer.test', name: 'Samir Haddad', cardNumber: '4242 4242 4242 4242', expiry: '12/39', cvc: '123' }) })
+  if (page.status !== 303) throw new Error(`the payments fake's page answered ${page.status}`)
+  const session = await stripe.checkout.sessions.retrieve(sessionId)
+  await processStripeEvent(ctx, { id: `evt_demo_seed_${sessionId}`, object: 'event', type: 'checkout.session.completed', data: { object: session } } as unknown as Stripe.Event)
+
+  const invoice = Buffer.from('%PDF-1.4\n% Cinder Flats Performance: parts order for the rotating assembly (invented demo document)\n1 0 obj <<>> endobj\ntrailer <<>>\n%%EOF\n')
+  const hash = createHash('sha256').update(invoice).digest('hex')
+  const proof = await storeDealFile(db, storage, priya.id, { name: 'rotating-assembly-order.pdf', bytes: invoice, mime: 'application/pdf', sha256: hash, storageKey: `proofs/${hash.slice(0, 16)}-${randomUUID()}.pdf`, kind: 'proof' })
+  await submitMilestone(ctx, priya, first!.id, { notes: 'Rotating assembly ordered: cast crank (the forged one is back-ordered 10 weeks), forged rods and pistons. Order attached.', proofFileIds: [proof.id], deliveryPullId: null })
+  await postMessage(ctx, samir, request.id, { body: 'The quote says a forged crank. A cast one will not live at this boost, and nobody asked me.', attachmentIds: [] })
+  await disputeMilestone(ctx, samir, first!.id, 'The quote lists a forged crank; the order shows a cast one, swapped without asking.')
+  await db.delete(schema.mailOutbox).where(gte(schema.mailOutbox.createdAt, started))
+  return true
 }

@@ -9,7 +9,8 @@ import { evaluatePull } from '../../shared/pulls/evaluate'
 import type { EvidenceCheck } from '../../shared/engine/types'
 import type { PullSummaryFigures } from '../../shared/pulls/summary'
 import * as schema from '../../server/database/schema'
-import { seedDemoDeals } from './seed-deals'
+import { createStripeClient } from '../../server/services/payments'
+import { seedDemoDeals, seedDemoDispute } from './seed-deals'
 import { DEMO_ADMIN, DEMO_PASSWORD, DEMO_RACERS, DEMO_SHOPS, demoBuilds, pullCsv, type DemoPull } from './demo-data'
 
 const { builderProfiles, buildParts, builds, dynoPulls, files, users } = schema
@@ -22,8 +23,11 @@ async function ensureUser(db: Db, u: { name: string, email: string, role: 'racer
   return row!.id
 }
 
-/** Seeds the invented demo scenario; entities that already exist (by e-mail or slug) are left as they are, so it is safe to run twice. */
-export async function seedDemo(opts: { url: string, uploadsDir: string }): Promise<{ builds: number, created: number }> {
+/**
+ * Seeds the invented demo scenario; entities that already exist (by e-mail or slug) are left as they are, so it is safe to run twice.
+ * Given the local payments fake, it also seeds an open dispute paid through it (the tests seed without it).
+ */
+export async function seedDemo(opts: { url: string, uploadsDir: string, paymentsFake?: { port: number, secretKey: string } }): Promise<{ builds: number, created: number }> {
   const connection = await mysql.createConnection({ uri: opts.url, timezone: 'Z' })
   const db = drizzle(connection, { schema, mode: 'default' })
   const storage = createStorage({ driver: fsDriver({ base: opts.uploadsDir }) })
@@ -127,6 +131,11 @@ export async function seedDemo(opts: { url: string, uploadsDir: string }): Promi
       created++
     }
     await seedDemoDeals(db)
+    if (opts.paymentsFake) {
+      const stripe = createStripeClient({ secretKey: opts.paymentsFake.secretKey, apiHost: '127.0.0.1', apiPort: opts.paymentsFake.port, apiProtocol: 'http' })
+      // A demo whose payments fake lost its books (or another data folder) still starts: the dispute is a nicety.
+      await seedDemoDispute(db, storage, stripe).catch((e: unknown) => console.warn(`› the demo dispute was not seeded: ${e instanceof Error ? e.message : String(e)}`))
+    }
     return { builds: all.length, created }
   }
   finally {

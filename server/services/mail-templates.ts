@@ -17,6 +17,7 @@ export type DealMail
     | { kind: 'milestone_approved', recipientName: string, milestone: string, automatic: boolean, link: string }
     | { kind: 'milestone_released', shopName: string, milestone: string, payoutCents: number, feeCents: number, link: string }
     | { kind: 'milestone_refunded', recipientName: string, milestone: string, amountCents: number, reason: string, link: string }
+    | { kind: 'dispute_settled', recipientName: string, side: 'racer' | 'builder', shopName: string, title: string, milestone: string, outcome: 'refund' | 'release', amountCents: number, note: string, link: string }
 
 // The tokens of tailwind.config.ts (ink, paper, copper), written out because e-mail has no stylesheet.
 const INK = '#1d2230'
@@ -35,6 +36,18 @@ ${paragraphs.map(p => `<p style="font-size:15px;line-height:1.55;margin:0 0 14px
 <p style="font-size:12px;color:${INK};opacity:.6">You get this e-mail because you are a party to this deal.</p>
 </div></body></html>`
   return { text, html }
+}
+
+function settledOutcome(mail: Extract<DealMail, { kind: 'dispute_settled' }>): string {
+  const amount = formatCents(mail.amountCents)
+  if (mail.outcome === 'refund') {
+    return mail.side === 'racer'
+      ? `The deposit of ${amount} is refunded to the card it was paid with; card refunds usually take a few business days to appear.`
+      : `The deposit of ${amount} goes back to the racer; it will not be paid out for this milestone.`
+  }
+  return mail.side === 'racer'
+    ? `The deposit of ${amount} is released to ${mail.shopName}.`
+    : `The deposit of ${amount} is released to you; the payout, less the platform fee, follows in a separate e-mail.`
 }
 
 export function renderDealMail(mail: DealMail): RenderedMail {
@@ -89,6 +102,14 @@ export function renderDealMail(mail: DealMail): RenderedMail {
         `Hello ${mail.recipientName},`,
         `The deposit of ${formatCents(mail.amountCents)} for "${mail.milestone}" has been refunded to the card it was paid with. ${mail.reason}`,
         'Card refunds usually take a few business days to appear.',
+      ], { label: 'Open the order', link: mail.link }) }
+    case 'dispute_settled':
+      return { subject: `Dispute settled: ${mail.milestone} ${mail.outcome === 'refund' ? 'refunded to the racer' : 'released to the shop'}`, ...layout([
+        `Hello ${mail.recipientName},`,
+        `Torquewright has looked at the dispute over "${mail.milestone}" (${mail.title}) and settled it.`,
+        settledOutcome(mail),
+        `The note from Torquewright: "${mail.note}"`,
+        'The decision is final for this milestone. The rest of the order carries on as agreed; write in the deal\'s thread if something between you is still open.',
       ], { label: 'Open the order', link: mail.link }) }
   }
 }

@@ -6,6 +6,7 @@ import { and, asc, desc, eq, inArray, isNotNull, lte } from 'drizzle-orm'
 import { isError } from 'h3'
 import type { Storage } from 'unstorage'
 import { evaluateDelivery } from '../../shared/deals/delivery'
+import { formatCents } from '../../shared/money'
 import { parsePull } from '../../shared/engine/parse'
 import { isCorrectionStandard } from '../../shared/engine/correction'
 import type { DeliveryPullFields, SubmitMilestoneInput } from '../../shared/schemas/deals'
@@ -95,10 +96,12 @@ export async function submitMilestone(ctx: DealContext, actor: DealActor, milest
   })
 }
 
-async function approveLocked(ctx: DealContext, tx: DbTransaction, order: Order, milestone: Milestone, actorId: number | null, automatic: boolean) {
+/** Approves under the lock; `notify: false` leaves the thread post and the e-mails to a caller that sends its own (a settled dispute). */
+async function approveLocked(ctx: DealContext, tx: DbTransaction, order: Order, milestone: Milestone, actorId: number | null, automatic: boolean, notify = true) {
   const now = ctx.now()
   await tx.update(milestones).set({ state: 'approved', approvedAt: now, autoApproved: automatic }).where(eq(milestones.id, milestone.id))
   await recordDealEvent(tx, { requestId: order.requestId, orderId: order.id, milestoneId: milestone.id, actorId, action: automatic ? 'milestone_auto_approved' : 'milestone_approved' })
+  if (!notify) return
   await postEvent(tx, order.requestId, actorId, automatic ? `"${milestone.title}" was approved on its own after ${ctx.config.autoApproveDays} days.` : `"${milestone.title}" was approved.`, now)
   const parties = await partiesOf(tx, order.requestId)
   const mail = { kind: 'milestone_approved' as const, milestone: milestone.title, automatic, link: link(ctx, order.id) }
@@ -164,18 +167,47 @@ export async function disputeMilestone(ctx: DealContext, actor: DealActor, miles
   })
 }
 
-/** An admin settles a dispute: refund the racer, or approve and release to the shop. */
-export async function settleDispute(ctx: DealContext, actor: DealActor, milestoneId: number, outcome: 'refund' | 'release', note: string): Promise<{ problem: string | null }> {
+/**
+ * An admin settles a dispute: refund the racer, or approve and release to the shop. One transaction
+ * holds the change, the refund at the payment service (by idempotency key), one audit row recording
+ * before and after (the refund's id and amount when refunded), the history line, the note posted to
+ * the thread and an e-mail with the note to each party. A release's payout follows as every payout
+ * does (its own transaction and audit row), retried on its own if the payment service is away.
+ */
+export async function settleDispute(ctx: DealContext, actor: DealActor, milestoneId: number, outcome: 'refund' | 'release', note: string): Promise<{ state: Milestone['state'], problem: string | null }> {
   if (actor.role !== 'admin') throw forbidden('Only an admin settles a dispute.')
+  const text = note.trim()
+  if (!text) throw unprocessable('A dispute is settled with a note to both parties.')
   await ctx.db.transaction(async (tx) => {
     const { order, milestone } = await lockMilestone(tx, milestoneId)
     if (milestone.state !== 'disputed') throw conflict(`Only a disputed milestone is settled; this one is ${milestone.state.replace('_', ' ')}.`)
-    await writeAudit(tx, { actorId: actor.id, action: 'dispute.settle', entityType: 'milestone', entityId: milestoneId, before: { state: milestone.state }, after: { outcome }, note: note || null })
-    await recordDealEvent(tx, { requestId: order.requestId, orderId: order.id, milestoneId, actorId: actor.id, action: 'dispute_settled', detail: `${outcome}${note ? `: ${note}` : ''}` })
-    if (outcome === 'refund') await refundHeld(ctx, tx, order, milestone, `the dispute was settled in the racer's favour${note ? ` (${note})` : ''}.`, actor.id)
-    else await approveLocked(ctx, tx, order, milestone, actor.id, false)
+    const now = ctx.now()
+    const parties = await partiesOf(tx, order.requestId)
+    let after: Record<string, unknown>
+    if (outcome === 'refund') {
+      const refund = await refundHeld(ctx, tx, order, milestone, 'the dispute was settled in the racer\'s favour.', actor.id, { audit: false, notify: false })
+      after = { state: 'refunded', outcome, refund: refund.id, amountCents: refund.amount }
+    }
+    else {
+      await approveLocked(ctx, tx, order, milestone, actor.id, false, false)
+      after = { state: 'approved', outcome, amountCents: milestone.amountCents }
+    }
+    await writeAudit(tx, {
+      actorId: actor.id, action: 'dispute.settle', entityType: 'milestone', entityId: milestoneId,
+      before: { state: milestone.state, amountCents: milestone.amountCents, disputeReason: milestone.disputeReason }, after, note: text, at: now,
+    })
+    await recordDealEvent(tx, { requestId: order.requestId, orderId: order.id, milestoneId, actorId: actor.id, action: 'dispute_settled', detail: `${outcome}: ${text}` })
+    const amount = formatCents(milestone.amountCents)
+    await postEvent(tx, order.requestId, actor.id, outcome === 'refund'
+      ? `Torquewright settled the dispute over "${milestone.title}": the deposit of ${amount} is refunded to the racer. Note: ${text}`
+      : `Torquewright settled the dispute over "${milestone.title}": the deposit of ${amount} is released to the shop. Note: ${text}`, now)
+    const mail = { kind: 'dispute_settled' as const, shopName: parties.shopName, title: parties.title, milestone: milestone.title, outcome, amountCents: milestone.amountCents, note: text, link: link(ctx, order.id) }
+    await enqueueMail(tx, parties.racerEmail, { ...mail, recipientName: parties.racerName, side: 'racer' }, `settled:${milestoneId}:racer`)
+    await enqueueMail(tx, parties.builderEmail, { ...mail, recipientName: parties.shopName, side: 'builder' }, `settled:${milestoneId}:builder`)
   })
-  return { problem: outcome === 'release' ? await tryRelease(ctx, milestoneId) : null }
+  const problem = outcome === 'release' ? await tryRelease(ctx, milestoneId) : null
+  const [row] = await ctx.db.select({ state: milestones.state }).from(milestones).where(eq(milestones.id, milestoneId)).limit(1)
+  return { state: row!.state, problem }
 }
 
 /**
@@ -271,7 +303,7 @@ export async function getOrderView(ctx: DealContext, actor: DealActor, orderId: 
     return {
       id: m.id, position: m.position, title: m.title, deliverable: m.deliverable, amountCents: m.amountCents, feeCents: m.feeCents, dueDate: m.dueDate,
       guaranteed: m.guaranteed, state: m.state, submissionNotes: m.submissionNotes, disputeReason: m.disputeReason, autoApproved: m.autoApproved,
-      fundedAt: iso(m.fundedAt), submittedAt: iso(m.submittedAt), approvedAt: iso(m.approvedAt), releasedAt: iso(m.releasedAt), refundedAt: iso(m.refundedAt),
+      fundedAt: iso(m.fundedAt), submittedAt: iso(m.submittedAt), approvedAt: iso(m.approvedAt), releasedAt: iso(m.releasedAt), refundedAt: iso(m.refundedAt), disputedAt: iso(m.disputedAt),
       autoApproveAt: m.state === 'submitted' && m.submittedAt ? new Date(m.submittedAt.getTime() + ctx.config.autoApproveDays * 86_400_000).toISOString() : null,
       proofs: proofs.filter(p => p.milestoneId === m.id).map(({ milestoneId: _m, ...f }) => f),
       deliveryPull: pull

@@ -260,8 +260,11 @@ async function onChargeRefunded(ctx: DealContext, tx: DbTransaction, charge: Str
   // Refunded outside the app (or before the completion event came in): record the payment and the refund.
   const [checkout] = await tx.select().from(payments).where(and(eq(payments.milestoneId, milestone.id), eq(payments.kind, 'checkout'), inArray(payments.status, ['open', 'succeeded'])))
     .orderBy(desc(payments.attempt)).limit(1).for('update')
-  if (checkout) await tx.update(payments).set({ status: 'succeeded', stripePaymentIntentId: piId, stripeChargeId: charge.id }).where(eq(payments.id, checkout.id))
-  else await tx.insert(payments).values({ milestoneId: milestone.id, kind: 'checkout', status: 'succeeded', amountCents: charge.amount, stripePaymentIntentId: piId, stripeChargeId: charge.id, createdAt: now })
+  // A checkout already recorded as succeeded is left as it is: its updated_at stays the moment it was captured (the dashboard counts by it).
+  if (checkout && (checkout.status !== 'succeeded' || checkout.stripeChargeId !== charge.id || checkout.stripePaymentIntentId !== piId)) {
+    await tx.update(payments).set({ status: 'succeeded', stripePaymentIntentId: piId, stripeChargeId: charge.id }).where(eq(payments.id, checkout.id))
+  }
+  else if (!checkout) await tx.insert(payments).values({ milestoneId: milestone.id, kind: 'checkout', status: 'succeeded', amountCents: charge.amount, stripePaymentIntentId: piId, stripeChargeId: charge.id, createdAt: now })
   await tx.insert(payments).values({ milestoneId: milestone.id, kind: 'refund', status: 'succeeded', amountCents: charge.amount_refunded, stripePaymentIntentId: piId, stripeChargeId: charge.id, createdAt: now })
   await tx.update(milestones).set({ state: 'refunded', refundedAt: now, fundedAt: milestone.fundedAt ?? now }).where(eq(milestones.id, milestone.id))
   await recordDealEvent(tx, { requestId: order.requestId, orderId: order.id, milestoneId: milestone.id, action: 'milestone_refunded', detail: `charge ${charge.id} refunded at the payment service` })
@@ -333,8 +336,15 @@ export async function markReleased(ctx: DealContext, tx: DbTransaction, order: O
   }
 }
 
-/** Refunds a held milestone in full (by idempotency key, so a retry refunds nothing twice) and records it. */
-export async function refundHeld(ctx: DealContext, tx: DbTransaction, order: Order, milestone: Milestone, reason: string, actorId: number | null): Promise<void> {
+/**
+ * Refunds a held milestone in full (by idempotency key, so a retry refunds nothing twice) and records it.
+ * A caller that writes its own audit row and tells the parties itself (a settled dispute) passes
+ * `{ audit: false, notify: false }`; the payment row, the state and the deal history are written either way.
+ */
+export async function refundHeld(
+  ctx: DealContext, tx: DbTransaction, order: Order, milestone: Milestone, reason: string, actorId: number | null,
+  opts: { audit?: boolean, notify?: boolean } = {},
+): Promise<Stripe.Refund> {
   const [funding] = await tx.select().from(payments)
     .where(and(eq(payments.milestoneId, milestone.id), eq(payments.kind, 'checkout'), eq(payments.status, 'succeeded'))).limit(1)
   if (!funding?.stripePaymentIntentId) throw conflict('This milestone has no recorded payment to refund.')
@@ -353,11 +363,16 @@ export async function refundHeld(ctx: DealContext, tx: DbTransaction, order: Ord
     await tx.insert(payments).values({ milestoneId: milestone.id, kind: 'refund', status: 'succeeded', amountCents: refund.amount, stripePaymentIntentId: funding.stripePaymentIntentId, stripeRefundId: refund.id, createdAt: now })
   }
   await tx.update(milestones).set({ state: 'refunded', refundedAt: now }).where(eq(milestones.id, milestone.id))
-  await writeAudit(tx, { actorId, action: 'milestone.refund', entityType: 'milestone', entityId: milestone.id, before: { state: milestone.state }, after: { state: 'refunded', refund: refund.id, amountCents: refund.amount }, note: reason })
+  if (opts.audit !== false) {
+    await writeAudit(tx, { actorId, action: 'milestone.refund', entityType: 'milestone', entityId: milestone.id, before: { state: milestone.state }, after: { state: 'refunded', refund: refund.id, amountCents: refund.amount }, note: reason })
+  }
   await recordDealEvent(tx, { requestId: order.requestId, orderId: order.id, milestoneId: milestone.id, actorId, action: 'milestone_refunded', detail: `${refund.id}: ${reason}` })
-  await postEvent(tx, order.requestId, actorId, `The deposit for "${milestone.title}" was refunded: ${reason}`, now)
-  const parties = await partiesOf(tx, order.requestId)
-  const mail = { kind: 'milestone_refunded' as const, milestone: milestone.title, amountCents: refund.amount, reason: `Reason: ${reason}`, link: `${ctx.config.siteUrl}/deals/orders/${order.id}` }
-  await enqueueMail(tx, parties.racerEmail, { ...mail, recipientName: parties.racerName }, `refunded:${milestone.id}:racer`)
-  await enqueueMail(tx, parties.builderEmail, { ...mail, recipientName: parties.shopName }, `refunded:${milestone.id}:builder`)
+  if (opts.notify !== false) {
+    await postEvent(tx, order.requestId, actorId, `The deposit for "${milestone.title}" was refunded: ${reason}`, now)
+    const parties = await partiesOf(tx, order.requestId)
+    const mail = { kind: 'milestone_refunded' as const, milestone: milestone.title, amountCents: refund.amount, reason: `Reason: ${reason}`, link: `${ctx.config.siteUrl}/deals/orders/${order.id}` }
+    await enqueueMail(tx, parties.racerEmail, { ...mail, recipientName: parties.racerName }, `refunded:${milestone.id}:racer`)
+    await enqueueMail(tx, parties.builderEmail, { ...mail, recipientName: parties.shopName }, `refunded:${milestone.id}:builder`)
+  }
+  return refund
 }

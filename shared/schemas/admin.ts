@@ -21,6 +21,18 @@ export const unpublishListingSchema = z.strictObject({
   reason: reasonSchema('why the listing comes down'),
 })
 
+export const DISPUTE_OUTCOMES = ['refund', 'release'] as const
+
+/** An admin's decision on a disputed milestone: where the deposit goes, and a note both parties read. */
+export const settleDisputeSchema = z.strictObject({
+  outcome: z.enum(DISPUTE_OUTCOMES, { error: 'Settle by refund (to the racer) or release (to the shop)' }),
+  note: z.string({ error: 'Write a note to both parties' })
+    .trim()
+    .min(10, 'Write the note to both parties in a sentence or two (at least 10 characters): it says why the deposit goes where it goes')
+    .max(2000, 'Keep the note under 2,000 characters'),
+})
+export type SettleDisputeInput = z.infer<typeof settleDisputeSchema>
+
 export const BUILD_STATUSES = ['draft', 'published', 'archived'] as const
 
 export const adminListingsQuery = paginationQuery.extend({

@@ -102,11 +102,6 @@ export const disputeSchema = z.object({
   reason: required(2000, 'The reason for the dispute'),
 })
 
-export const settleSchema = z.object({
-  outcome: z.enum(['refund', 'release'], { error: 'Settle by refund or release' }),
-  note: text(1000, 'The note').default(''),
-})
-
 export const cancelOrderSchema = z.object({
   reason: required(1000, 'The reason for cancelling'),
 })

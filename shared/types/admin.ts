@@ -1,6 +1,8 @@
 /** The shapes the admin routes answer with, used by the admin pages. */
+import type { MilestoneStateName } from '../deals/constants'
 import type { EvidenceCheck, EvidenceOutcome } from '../engine/types'
 import type { BuildStatus } from './editor'
+import type { DealEventView, OrderView, ThreadMessageView } from './deals'
 
 export type PullStatus = 'submitted' | 'verified' | 'rejected'
 
@@ -154,10 +156,64 @@ export interface AuditPage {
   entityTypes: string[]
 }
 
-/** The admin dashboard's figures; a part whose data is not kept yet says so instead of a number. */
+/** The admin dashboard's figures, each counted from the rows themselves. */
 export interface AdminOverview {
   queue: { length: number, oldestSubmittedAt: string | null, oldestAgeHours: number | null }
   builds: { published: number, verified: number, verifiedShare: number | null }
-  disputes: { available: true, open: number, oldestOpenedAt: string | null } | { available: false }
-  payments: { available: true, month: string, count: number, amountCents: number } | { available: false }
+  /** Milestones in the disputed state, with the age of the oldest. */
+  disputes: { open: number, oldestOpenedAt: string | null, oldestAgeHours: number | null }
+  /** Money this calendar month (UTC): deposits captured and refunds made. */
+  payments: { month: string, count: number, amountCents: number, refunds: { count: number, amountCents: number } }
+}
+
+/** One open dispute on the admin's list. */
+export interface DisputeListItem {
+  milestoneId: number
+  orderId: number
+  requestId: number
+  title: string
+  racer: { id: number, name: string }
+  shop: { slug: string, shopName: string }
+  milestone: { title: string, position: number, amountCents: number }
+  disputedAt: string
+  reason: string
+}
+
+/** A dispute an admin settled, from the audit log. */
+export interface SettledDisputeItem extends Omit<DisputeListItem, 'disputedAt'> {
+  disputedAt: string | null
+  settledAt: string
+  outcome: 'refund' | 'release'
+  note: string | null
+  settledBy: string | null
+  /** The milestone's state now (refunded, released, or approved while its payout waits). */
+  state: string
+}
+
+export interface DisputeList {
+  open: DisputeListItem[]
+  settled: SettledDisputeItem[]
+}
+
+/** Everything an admin needs to settle one dispute: the order, the milestone with its proof and payments, the thread. */
+export interface DisputeReview {
+  milestoneId: number
+  state: MilestoneStateName
+  reason: string | null
+  disputedAt: string | null
+  order: OrderView
+  parties: { racer: { name: string, email: string }, shop: { shopName: string, slug: string, ownerName: string, ownerEmail: string } }
+  thread: ThreadMessageView[]
+  /** The order's history lines about this milestone, oldest first. */
+  history: DealEventView[]
+  /** The decision once it is made, from the audit log. */
+  settlement: { outcome: 'refund' | 'release', note: string | null, at: string, by: string | null, after: Record<string, unknown> | null } | null
+}
+
+export interface SettleDisputeResult {
+  milestoneId: number
+  outcome: 'refund' | 'release'
+  state: MilestoneStateName
+  /** Why the payout of a release is still waiting (it is retried on its own), or null. */
+  problem: string | null
 }

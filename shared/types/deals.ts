@@ -143,6 +143,7 @@ export interface MilestoneView {
   approvedAt: string | null
   releasedAt: string | null
   refundedAt: string | null
+  disputedAt: string | null
   /** When a submitted milestone is approved on its own if the racer does not answer. */
   autoApproveAt: string | null
   proofs: DealFile[]

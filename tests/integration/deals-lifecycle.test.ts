@@ -152,7 +152,7 @@ describe('dispute and refund', () => {
     expect(await statusOf(disputeMilestone(ctx, builder, m.id, 'no'))).toBe(403)
     await disputeMilestone(ctx, racer, m.id, 'No parts invoices after three weeks.')
     expect(await statusOf(approveMilestone(ctx, racer, m.id))).toBe(409)
-    expect(await statusOf(settleDispute(ctx, racer, m.id, 'refund', ''))).toBe(403)
+    expect(await statusOf(settleDispute(ctx, racer, m.id, 'refund', 'Refund me.'))).toBe(403)
     const admin = await actorByEmail(ctx.db, PEOPLE.admin)
     await settleDispute(ctx, admin, m.id, 'refund', 'No evidence of work.')
     expect((await milestoneRow(ctx.db, m.id)).state).toBe('refunded')
@@ -160,10 +160,12 @@ describe('dispute and refund', () => {
     expect(refund.amountCents).toBe(738_000)
     const atStripe = await ctx.stripe.refunds.retrieve(refund.stripeRefundId!)
     expect(atStripe.status).toBe('succeeded')
-    const [audit] = await ctx.db.select().from(schema.auditLog).where(and(eq(schema.auditLog.entityType, 'milestone'), eq(schema.auditLog.entityId, m.id), eq(schema.auditLog.action, 'milestone.refund')))
-    expect(audit!.actorId).toBe(admin.id)
+    // One audit row for the decision, carrying the refund.
+    const audit = await ctx.db.select().from(schema.auditLog).where(and(eq(schema.auditLog.entityType, 'milestone'), eq(schema.auditLog.entityId, m.id)))
+    expect(audit).toHaveLength(1)
+    expect(audit[0]).toMatchObject({ action: 'dispute.settle', actorId: admin.id, after: { state: 'refunded', refund: refund.stripeRefundId } })
     // Settled once: a second settlement changes nothing.
-    expect(await statusOf(settleDispute(ctx, admin, m.id, 'release', ''))).toBe(409)
+    expect(await statusOf(settleDispute(ctx, admin, m.id, 'release', 'Released after all.'))).toBe(409)
   })
 
   it('settles a dispute in the shop\'s favour by releasing, and then refuses any refund of released money', async () => {
@@ -172,10 +174,10 @@ describe('dispute and refund', () => {
     await fundMilestone(ctx, racer, m.id)
     await disputeMilestone(ctx, racer, m.id, 'Unsure about the parts list.')
     const admin = await actorByEmail(ctx.db, PEOPLE.admin)
-    expect(await settleDispute(ctx, admin, m.id, 'release', 'Invoices check out.')).toEqual({ problem: null })
+    expect(await settleDispute(ctx, admin, m.id, 'release', 'Invoices check out.')).toEqual({ state: 'released', problem: null })
     expect((await milestoneRow(ctx.db, m.id)).state).toBe('released')
     expect(await statusOf(disputeMilestone(ctx, racer, m.id, 'again'))).toBe(409)
-    expect(await statusOf(settleDispute(ctx, admin, m.id, 'refund', ''))).toBe(409)
+    expect(await statusOf(settleDispute(ctx, admin, m.id, 'refund', 'Refunded after all.'))).toBe(409)
     expect((await paymentsOf(m.id)).filter(p => p.kind === 'refund')).toHaveLength(0)
   })
 })

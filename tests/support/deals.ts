@@ -9,6 +9,10 @@ import { acceptQuote, createRequest, sendQuote } from '../../server/services/dea
 import type { QuoteInput, QuoteRequestInput } from '../../shared/schemas/deals'
 import { quoteRequestSchema, quoteSchema } from '../../shared/schemas/deals'
 import { startCheckout } from '../../server/services/payments'
+import { disputeMilestone, submitMilestone } from '../../server/services/milestones'
+import { postMessage } from '../../server/services/messages'
+import { as, freshAddress, signedIn } from './auth'
+import { api } from './context'
 import { CARDS, eventually, payOnFakePage, runningFakeClient } from './payments'
 
 /**
@@ -114,4 +118,28 @@ export async function fundMilestone(ctx: DealContext, racer: DealActor, mileston
   if (page.status !== 303) throw new Error(`the fake's page answered ${page.status}`)
   await eventually(`milestone ${milestoneId} funded`, async () => (await milestoneRow(ctx.db, milestoneId)).state === 'funded')
   return { sessionId, redirect: page.location }
+}
+
+/**
+ * A disputed first milestone, made the way people make one: the racer writes in the thread, pays the
+ * deposit on the fake's page, the shop uploads a proof file (over HTTP) and submits with notes, and
+ * the racer disputes it. Everything else about the order is as makeOrder leaves it.
+ */
+export async function makeDispute(ctx: DealContext, opts: { title?: string, reason?: string } = {}) {
+  const tag = Math.random().toString(36).slice(2, 8)
+  const title = opts.title ?? `Disputed deal ${tag}`
+  const order = await makeOrder(ctx, { request: { title } })
+  const milestone = order.milestones[0]!
+  const message = `Please share the parts invoices before the block goes out (${tag}).`
+  await postMessage(ctx, order.racer, order.requestId, { body: message, attachmentIds: [] })
+  await fundMilestone(ctx, order.racer, milestone.id)
+  const shop = await signedIn(PEOPLE.builder)
+  const pdf = new Uint8Array(Buffer.from(`%PDF-1.4\n% parts invoice ${tag}\n1 0 obj <<>> endobj\ntrailer <<>>\n%%EOF\n`))
+  const upload = await api(`/api/attachments?kind=proof&name=parts-invoice-${tag}.pdf`, { method: 'POST', headers: as(shop, freshAddress(), { 'content-type': 'application/octet-stream' }), body: pdf })
+  if (upload.status !== 201) throw new Error(`the proof upload answered ${upload.status}: ${JSON.stringify(upload.body)}`)
+  const notes = `Parts ordered from three suppliers; the invoice is attached (${tag}).`
+  await submitMilestone(ctx, order.builder, milestone.id, { notes, proofFileIds: [upload.body.id as number], deliveryPullId: null })
+  const reason = opts.reason ?? `The invoice lists a cast crank, the quote says forged (${tag}).`
+  await disputeMilestone(ctx, order.racer, milestone.id, reason)
+  return { ...order, title, milestone: await milestoneRow(ctx.db, milestone.id), proofFileId: upload.body.id as number, proofName: `parts-invoice-${tag}.pdf`, notes, reason, message }
 }

@@ -24,6 +24,16 @@ export default defineAccess([
   { method: 'POST', path: '/api/admin/listings/1/unpublish', body: {}, expect: adminOnly(400) },
   { method: 'POST', path: '/api/admin/listings/999999999/unpublish', body: { reason: 'The photos belong to another shop.' }, expect: adminOnly(404) },
 
+  // Milestone 1 is the demo order's first (awaiting its deposit, never disputed): its review is a 404 and settling it a 409.
+  { method: 'GET', path: '/api/admin/disputes', expect: adminOnly(200) },
+  { method: 'GET', path: '/api/admin/disputes/1', expect: adminOnly(404) },
+  { method: 'GET', path: '/api/admin/disputes/999999999', expect: adminOnly(404) },
+  { method: 'GET', path: '/api/admin/disputes/not-a-number', expect: adminOnly(400) },
+  { method: 'POST', path: '/api/admin/disputes/1/settle', body: {}, expect: adminOnly(400) },
+  { method: 'POST', path: '/api/admin/disputes/1/settle', body: { outcome: 'refund', note: 'x' }, expect: adminOnly(400) },
+  { method: 'POST', path: '/api/admin/disputes/1/settle', body: { outcome: 'release', note: 'The invoices match the parts list.' }, expect: adminOnly(409) },
+  { method: 'POST', path: '/api/admin/disputes/999999999/settle', body: { outcome: 'refund', note: 'No proof of the work was sent.' }, expect: adminOnly(404) },
+
   { method: 'GET', path: '/api/admin/audit', expect: adminOnly(200) },
   { method: 'GET', path: '/api/admin/audit?action=pull.verify&from=2026-01-01&to=2026-12-31', expect: adminOnly(200) },
   { method: 'GET', path: '/api/admin/audit?from=2026-13-01', expect: adminOnly(400) },

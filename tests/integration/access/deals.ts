@@ -32,7 +32,6 @@ export default defineAccess([
   { method: 'POST', path: '/api/milestones/1/delivery-pull', body: {}, expect: dealOne(400, 403) },
   { method: 'POST', path: '/api/milestones/1/approve', expect: dealOne(403, 403) },
   { method: 'POST', path: '/api/milestones/1/dispute', body: {}, expect: dealOne(403, 403) },
-  { method: 'POST', path: '/api/milestones/1/settle', body: {}, expect: { anonymous: 401, racer: 403, builder: 403, admin: 400 } },
   { method: 'GET', path: '/api/messages/unread', expect: signedIn(200) },
   { method: 'POST', path: '/api/attachments', expect: signedIn(400) },
   { method: 'GET', path: '/api/attachments/999999', expect: signedIn(404) },
