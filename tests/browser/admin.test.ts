@@ -36,7 +36,7 @@ async function openReview(pullId: number) {
 }
 
 describe('the admin desk in Chromium', () => {
-  it('an admin verifies a pull, and the checked mark appears on the build page and in the build lists', async () => {
+  it('an admin verifies a pull, and the checked mark appears on the build page, in the build lists and in search results', async () => {
     const owner = await makeAccount({ role: 'builder' })
     const { db, close } = await testDb()
     const { pullId, slug, title, pullLabel } = await makeBuildAwaitingCheck(db, { shopId: (await shopOf(db, owner.id)).id })
@@ -66,6 +66,11 @@ describe('the admin desk in Chromium', () => {
     await page.goto(`${baseUrl()}/builders/${owner.shopSlug}`, { waitUntil: 'networkidle' })
     const card = page.locator('[data-test="build-card"]', { hasText: title })
     expect(await card.locator('[data-test="verified-mark"]').count()).toBe(1)
+    // The decision reaches the search index at once: the search page's hit carries the mark.
+    await page.goto(`${baseUrl()}/search?q=${encodeURIComponent(title)}`, { waitUntil: 'networkidle' })
+    const hit = page.locator('[data-test="search-hit"]', { hasText: title })
+    await hit.waitFor()
+    expect(await hit.locator('[data-test="verified-mark"]').count()).toBe(1)
     expect(browser.requests.filter(url => !isLocal(url))).toEqual([])
   })
 
