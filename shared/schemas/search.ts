@@ -78,7 +78,8 @@ function checkFilters(v: FilterValues, ctx: z.RefinementCtx): void {
 /** The filters alone (GET /api/search less sort, page and perPage): what a saved search keeps. */
 export const searchFilters = z.strictObject(filterShape, unknownParameter).superRefine(checkFilters)
 
-export type SearchFilterParams = z.infer<typeof searchFilters>
+/** Validated filters; every key may be absent. */
+export type SearchFilterParams = Partial<z.output<typeof searchFilters>>
 
 export const searchQuery = z.strictObject({
   ...filterShape,

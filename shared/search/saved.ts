@@ -21,7 +21,7 @@ export function canonicalFilters(f: SearchFilterParams): SearchFilterParams {
   for (const k of NUMBER_KEYS) if (f[k] !== undefined) out[k] = f[k]
   for (const k of LIST_KEYS) {
     const values = f[k]
-    if (values?.length) (out as Record<string, string[]>)[k] = [...new Set(values as string[])].sort()
+    if (values?.length) (out as unknown as Record<string, string[]>)[k] = [...new Set(values as string[])].sort()
   }
   if (f.verified === true) out.verified = true
   return Object.fromEntries(Object.entries(out).sort(([a], [b]) => a.localeCompare(b))) as SearchFilterParams
