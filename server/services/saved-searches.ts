@@ -138,7 +138,7 @@ export async function announceBuild(db: Database, index: SearchIndex, buildId: n
 
   const buildLink = `${siteUrl}/builds/${row.slug}`
   const manageLink = `${siteUrl}${MANAGE_PATH}`
-  return db.transaction(async (tx) => {
+  return retryOnDeadlock(() => db.transaction(async (tx) => {
     const result = { announced: 0, mailed: 0 }
     const now = new Date()
     for (const { search, email, name } of matched) {
@@ -156,5 +156,28 @@ export async function announceBuild(db: Database, index: SearchIndex, buildId: n
       result.mailed++
     }
     return result
-  })
+  }))
+}
+
+/** MariaDB's answer when it chose this transaction as a deadlock's victim (ER_LOCK_DEADLOCK). */
+const DEADLOCK = 1213
+
+function isDeadlock(err: unknown): boolean {
+  const e = err as { errno?: number, cause?: { errno?: number } }
+  return e.errno === DEADLOCK || e.cause?.errno === DEADLOCK
+}
+
+/**
+ * Runs the announcement again when MariaDB rolled it back to break a deadlock (the outbox drainer
+ * locks the same table's rows); it is safe to repeat, as every row it writes is unique per search and build.
+ */
+async function retryOnDeadlock<T>(work: () => Promise<T>, attempts = 3): Promise<T> {
+  for (let i = 1; ; i++) {
+    try {
+      return await work()
+    }
+    catch (err) {
+      if (i >= attempts || !isDeadlock(err)) throw err
+    }
+  }
 }
