@@ -235,6 +235,17 @@ class EmbeddedIndex implements SearchIndex {
   }
 
   query(params: SearchQuery): SearchResult {
+    return this.run(params, -1)
+  }
+
+  matches(id: number, params: SearchQuery): boolean {
+    const slot = this.slotOfId.get(id)
+    if (slot === undefined) return false
+    return this.run({ ...params, sort: undefined, page: 1, perPage: 1 }, this.positionOfSlot[slot] as number).total > 0
+  }
+
+  /** The query, over every row or (only ≥ 0) over that one position: the same filters either way. */
+  private run(params: SearchQuery, only: number): SearchResult {
     const page = params.page ?? 1
     const perPage = params.perPage ?? 24
     const hasBand = params.bandFrom !== undefined && params.bandTo !== undefined
@@ -273,11 +284,12 @@ class EmbeddedIndex implements SearchIndex {
     let total = 0
 
     // One loop over either the text matches (when fewer than the displacement range) or the range itself.
-    const viaText = text !== null && text.count < hi - lo
+    // A single row (only ≥ 0) is read in place, when it lies inside the displacement range.
+    const viaText = only < 0 && text !== null && text.count < hi - lo
     const textSlots = text?.slots
     const positionOfSlot = this.positionOfSlot
-    const from = viaText ? 0 : lo
-    const to = viaText ? (text as { count: number }).count : text && text.count === 0 ? lo : hi
+    const from = only >= 0 ? Math.max(lo, only) : viaText ? 0 : lo
+    const to = only >= 0 ? Math.min(hi, only + 1) : viaText ? (text as { count: number }).count : text && text.count === 0 ? lo : hi
     const candidates = sort === 'band' ? this.candidateBuffer() : this.noCandidates
     let candidateCount = 0
     const sortCode = sort === 'relevance' ? (text ? 0 : 1) : sort === 'newest' ? 1 : sort === 'price' ? 2 : sort === 'target' ? 3 : 4

@@ -129,6 +129,8 @@ export interface SearchIndex {
   upsert(doc: SearchDocument): void
   remove(id: number): boolean
   query(params: SearchQuery): SearchResult
+  /** Whether one indexed build is among the query's results (the same filters and words as query; order and page aside). */
+  matches(id: number, params: SearchQuery): boolean
   /** What the index holds for a build: its hit fields, stamp and curve. */
   get(id: number): IndexedEntry | undefined
   /** Every indexed id with its stamp, for the consistency check. */

@@ -6,6 +6,7 @@ import { REQUIRED_FOR_PUBLISH } from '../../shared/schemas/build'
 import type { EvidenceCheck } from '../../shared/engine/types'
 import { MILESTONE_STATES, TRANSMISSIONS } from '../../shared/deals/constants'
 import type { PullSummaryFigures } from '../../shared/pulls/summary'
+import type { SearchFilterParams } from '../../shared/schemas/search'
 
 /** Shared column shapes, so every table spells them once. */
 const id = () => bigint('id', { mode: 'number', unsigned: true }).autoincrement().primaryKey()
@@ -549,3 +550,33 @@ export type MilestoneState = Milestone['state']
 export type Payment = typeof payments.$inferSelect
 export type DeliveryPull = typeof deliveryPulls.$inferSelect
 export type OutboxMail = typeof mailOutbox.$inferSelect
+
+/**
+ * A search a signed-in user keeps: its filters as validated by shared/schemas/search.ts (the
+ * GET /api/search parameters less sort, page and perPage), and whether a new verified build that
+ * matches them is e-mailed.
+ */
+export const savedSearches = mysqlTable('saved_searches', {
+  id: id(),
+  userId: ref('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
+  name: varchar('name', { length: 80 }).notNull(),
+  query: json('query').$type<SearchFilterParams>().notNull(),
+  emailOn: boolean('email_on').notNull().default(true),
+  lastNotifiedAt: at('last_notified_at'),
+  createdAt: createdAt(),
+  updatedAt: updatedAt(),
+}, t => [index('saved_searches_user_idx').on(t.userId, t.id)])
+
+/** The builds a saved search has announced: one row per search and build, so a build is announced once. */
+export const savedSearchAnnouncements = mysqlTable('saved_search_announcements', {
+  id: id(),
+  savedSearchId: ref('saved_search_id').notNull().references(() => savedSearches.id, { onDelete: 'cascade' }),
+  buildId: ref('build_id').notNull().references(() => builds.id, { onDelete: 'cascade' }),
+  mailed: boolean('mailed').notNull(),
+  createdAt: createdAt(),
+}, t => [
+  uniqueIndex('saved_search_announcements_unique').on(t.savedSearchId, t.buildId),
+  index('saved_search_announcements_build_idx').on(t.buildId),
+])
+
+export type SavedSearch = typeof savedSearches.$inferSelect

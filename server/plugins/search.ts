@@ -1,5 +1,6 @@
 import { onBuildChanged } from '../services/listing-editor'
-import { checkIndex, loadSyntheticIndex, rebuildIndex, syncBuild } from '../services/search'
+import { announceBuild } from '../services/saved-searches'
+import { checkIndex, loadSyntheticIndex, rebuildIndex, syncBuild, useSearchIndex } from '../services/search'
 
 /** How often the consistency check compares the index with MariaDB (TW_SEARCH_CHECK_MS, default five minutes). */
 const CHECK_EVERY_MS = Number(process.env.TW_SEARCH_CHECK_MS) || 5 * 60_000
@@ -20,8 +21,17 @@ export default defineNitroPlugin((nitroApp) => {
   }
   if (!useRuntimeConfig().databaseUrl) return
   const db = useDb()
-  // Every listing write and evidence decision reaches the index at once through this hook.
-  onBuildChanged(buildId => syncBuild(db, buildId))
+  // Every listing write and evidence decision reaches the index at once through this hook; once the
+  // index is in step, a build that became a verified listing is announced to the saved searches it matches.
+  onBuildChanged(async (buildId) => {
+    await syncBuild(db, buildId)
+    try {
+      await announceBuild(db, await useSearchIndex(), buildId, siteOrigin())
+    }
+    catch (err) {
+      console.error(`saved searches: build ${buildId} could not be announced; the change itself stands`, err)
+    }
+  })
   rebuildIndex(db).then(
     r => console.log(`search: index of ${r.documents} published builds built in ${r.ms} ms`),
     err => console.error('search: the index could not be built from MariaDB; the consistency check will retry', err),

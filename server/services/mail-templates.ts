@@ -26,14 +26,26 @@ const COPPER = '#b8562a'
 
 const escape = (s: string) => s.replace(/[&<>"']/g, c => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', '\'': '&#39;' })[c]!)
 
-function layout(paragraphs: string[], action: { label: string, link: string }): { text: string, html: string } {
-  const text = `${paragraphs.join('\n\n')}\n\n${action.label}: ${action.link}\n\n— Torquewright\nYou get this e-mail because you are a party to this deal.`
+const DEAL_FOOTER = { text: 'You get this e-mail because you are a party to this deal.' }
+
+/** The note under the signature: why the reader gets this mail, with a link where they can change it. */
+interface Footer {
+  text: string
+  link?: { label: string, href: string }
+}
+
+function layout(paragraphs: string[], action: { label: string, link: string }, footer: Footer = DEAL_FOOTER): { text: string, html: string } {
+  const footerText = footer.link ? `${footer.text}\n${footer.link.label}: ${footer.link.href}` : footer.text
+  const footerHtml = footer.link
+    ? `${escape(footer.text)} <a href="${escape(footer.link.href)}" style="color:${INK}">${escape(footer.link.label)}</a>`
+    : escape(footer.text)
+  const text = `${paragraphs.join('\n\n')}\n\n${action.label}: ${action.link}\n\n— Torquewright\n${footerText}`
   const html = `<!doctype html><html><body style="margin:0;background:${PAPER};font-family:Manrope,Arial,sans-serif;color:${INK}">
 <div style="max-width:560px;margin:0 auto;padding:28px 24px">
 <p style="font-weight:800;font-size:18px;margin:0 0 18px">Torquewright</p>
 ${paragraphs.map(p => `<p style="font-size:15px;line-height:1.55;margin:0 0 14px">${escape(p)}</p>`).join('\n')}
 <p style="margin:22px 0"><a href="${escape(action.link)}" style="background:${COPPER};color:white;padding:10px 18px;border-radius:999px;text-decoration:none;font-weight:700">${escape(action.label)}</a></p>
-<p style="font-size:12px;color:${INK};opacity:.6">You get this e-mail because you are a party to this deal.</p>
+<p style="font-size:12px;color:${INK};opacity:.6">${footerHtml}</p>
 </div></body></html>`
   return { text, html }
 }
@@ -112,4 +124,35 @@ export function renderDealMail(mail: DealMail): RenderedMail {
         'The decision is final for this milestone. The rest of the order carries on as agreed; write in the deal\'s thread if something between you is still open.',
       ], { label: 'Open the order', link: mail.link }) }
   }
+}
+
+/** What the saved-search e-mail says about the new build; figures are the search index's (SAE J1349 (2004), recomputed from the raw pull). */
+export interface SavedSearchMail {
+  recipientName: string
+  searchName: string
+  buildTitle: string
+  shopName: string
+  displacementCi: number
+  peakHp: number | null
+  peakHpRpm: number | null
+  buildLink: string
+  manageLink: string
+}
+
+const figure = (v: number) => v.toLocaleString('en-US', { maximumFractionDigits: 1 })
+
+/** A new verified build that matches a saved search. */
+export function renderSavedSearchMail(mail: SavedSearchMail): RenderedMail {
+  const litres = (mail.displacementCi * 0.016387064).toFixed(1) // 1 in³ = 16.387064 cm³ (exact by definition of the inch)
+  const power = mail.peakHp !== null
+    ? `${figure(mail.peakHp)} hp peak${mail.peakHpRpm !== null ? ` at ${mail.peakHpRpm.toLocaleString('en-US')} rpm` : ''} under SAE J1349 (2004), recomputed from the shop's raw dyno pull`
+    : 'no peak power on file yet'
+  return { subject: `New verified build for "${mail.searchName}": ${mail.buildTitle}`, ...layout([
+    `Hello ${mail.recipientName},`,
+    `A build that matches your saved search "${mail.searchName}" now carries verified dyno evidence:`,
+    `${mail.buildTitle}, by ${mail.shopName}. ${figure(mail.displacementCi)} ci (${litres} L), ${power}.`,
+  ], { label: 'See the build', link: mail.buildLink }, {
+    text: 'You get this e-mail because you saved this search with e-mail on. Rename it, turn its e-mail off or delete it on your account page.',
+    link: { label: 'Manage saved searches', href: mail.manageLink },
+  }) }
 }

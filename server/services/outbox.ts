@@ -4,7 +4,7 @@ import { and, asc, eq, inArray, isNull, lte, lt } from 'drizzle-orm'
 import { mailOutbox, type OutboxMail } from '../database/schema'
 import type { Database } from '../database/types'
 import type { Executor } from './deal-context'
-import { renderDealMail, type DealMail } from './mail-templates'
+import { renderDealMail, type DealMail, type RenderedMail } from './mail-templates'
 
 /** After this many failed attempts a mail stays in the table with its last error, for a person to look at. */
 export const MAX_ATTEMPTS = 12
@@ -26,8 +26,12 @@ export interface OutgoingMail {
 
 /** Queues one deal e-mail; a repeated dedupe key (the same event reported twice) queues nothing. */
 export async function enqueueMail(tx: Executor, to: string, mail: DealMail, dedupeKey: string | null = null): Promise<void> {
+  await enqueueRendered(tx, to, renderDealMail(mail), dedupeKey)
+}
+
+/** Queues one e-mail already rendered; a repeated dedupe key queues nothing. */
+export async function enqueueRendered(tx: Executor, to: string, rendered: RenderedMail, dedupeKey: string | null = null): Promise<void> {
   if (!to) return
-  const rendered = renderDealMail(mail)
   await tx.insert(mailOutbox).values({
     dedupeKey, toAddress: to, subject: rendered.subject.slice(0, 200), text: rendered.text, html: rendered.html,
   }).onDuplicateKeyUpdate({ set: { dedupeKey } })

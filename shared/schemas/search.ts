@@ -36,7 +36,10 @@ const enumItem = <const T extends readonly [string, ...string[]]>(name: string, 
 
 const text = (name: string, max: number) => z.string().trim().min(1, `${name} is empty`).max(max, `${name} is at most ${max} characters`)
 
-export const searchQuery = z.strictObject({
+const unknownParameter = { error: (issue: z.core.$ZodRawIssue) => (issue.code === 'unrecognized_keys' ? `unknown parameter ${issue.keys.join(', ')}` : undefined) }
+
+/** What a search asks for: everything but the order and the page. A saved search stores exactly these. */
+const filterShape = {
   q: z.preprocess(blankToUndefined, z.string({ error: 'q is one piece of text' }).max(200, 'q is at most 200 characters').optional()),
   ciMin: numberParam('ciMin', 0, 2000, ' ci'),
   ciMax: numberParam('ciMax', 0, 2000, ' ci'),
@@ -51,15 +54,18 @@ export const searchQuery = z.strictObject({
   family: listParam('family', text('family', 60)),
   use: listParam('use', enumItem('use', SEARCH_USES)),
   region: listParam('region', text('region', 80)),
-  verified: z.preprocess(blankToUndefined, z.enum(['true', 'false'], { error: () => 'verified is true or false' }).optional())
+  // A stored (already validated) query carries a boolean; a URL carries the word.
+  verified: z.preprocess(v => (typeof v === 'boolean' ? String(v) : blankToUndefined(v)), z.enum(['true', 'false'], { error: () => 'verified is true or false' }).optional())
     .transform(v => (v === undefined ? undefined : v === 'true')),
   priceMax: numberParam('priceMax', 0, 100_000_000, ' dollars', true),
   bandFrom: numberParam('bandFrom', BAND_RPM.min, BAND_RPM.max, ' rpm', true),
   bandTo: numberParam('bandTo', BAND_RPM.min, BAND_RPM.max, ' rpm', true),
-  sort: z.preprocess(blankToUndefined, enumItem('sort', SEARCH_SORTS).optional()),
-  page: z.preprocess(blankToUndefined, z.coerce.number({ error: 'page is a whole number' }).int('page is a whole number').min(1, 'page starts at 1').max(MAX_RESULT_WINDOW, `page is at most ${MAX_RESULT_WINDOW}`).default(1)),
-  perPage: z.preprocess(blankToUndefined, z.coerce.number({ error: 'perPage is a whole number' }).int('perPage is a whole number').min(1, 'perPage is at least 1').max(100, 'perPage is at most 100').default(24)),
-}, { error: issue => (issue.code === 'unrecognized_keys' ? `unknown parameter ${issue.keys.join(', ')}` : undefined) }).superRefine((v, ctx) => {
+}
+
+type FilterValues = z.infer<z.ZodObject<typeof filterShape>>
+
+/** The rules between filters (ranges the right way round, a tolerance with its target, a whole band). */
+function checkFilters(v: FilterValues, ctx: z.RefinementCtx): void {
   const fail = (path: string, message: string) => ctx.addIssue({ code: 'custom', path: [path], message })
   if (v.ciMin !== undefined && v.ciMax !== undefined && v.ciMin > v.ciMax) fail('ciMin', 'ciMin is above ciMax')
   if (v.hpMin !== undefined && v.hpMax !== undefined && v.hpMin > v.hpMax) fail('hpMin', 'hpMin is above hpMax')
@@ -67,6 +73,22 @@ export const searchQuery = z.strictObject({
   if (v.hpTolerance !== undefined && v.hpTarget === undefined) fail('hpTolerance', 'hpTolerance needs hpTarget (the power it is measured from)')
   if ((v.bandFrom === undefined) !== (v.bandTo === undefined)) fail(v.bandFrom === undefined ? 'bandFrom' : 'bandTo', 'a band needs both bandFrom and bandTo')
   if (v.bandFrom !== undefined && v.bandTo !== undefined && v.bandTo - v.bandFrom < 100) fail('bandTo', 'bandTo is at least 100 rpm above bandFrom')
+}
+
+/** The filters alone (GET /api/search less sort, page and perPage): what a saved search keeps. */
+export const searchFilters = z.strictObject(filterShape, unknownParameter).superRefine(checkFilters)
+
+/** Validated filters; every key may be absent. */
+export type SearchFilterParams = Partial<z.output<typeof searchFilters>>
+
+export const searchQuery = z.strictObject({
+  ...filterShape,
+  sort: z.preprocess(blankToUndefined, enumItem('sort', SEARCH_SORTS).optional()),
+  page: z.preprocess(blankToUndefined, z.coerce.number({ error: 'page is a whole number' }).int('page is a whole number').min(1, 'page starts at 1').max(MAX_RESULT_WINDOW, `page is at most ${MAX_RESULT_WINDOW}`).default(1)),
+  perPage: z.preprocess(blankToUndefined, z.coerce.number({ error: 'perPage is a whole number' }).int('perPage is a whole number').min(1, 'perPage is at least 1').max(100, 'perPage is at most 100').default(24)),
+}, unknownParameter).superRefine((v, ctx) => {
+  checkFilters(v, ctx)
+  const fail = (path: string, message: string) => ctx.addIssue({ code: 'custom', path: [path], message })
   if (v.sort === 'target' && v.hpTarget === undefined) fail('sort', 'sort=target needs hpTarget')
   if (v.sort === 'band' && (v.bandFrom === undefined || v.bandTo === undefined)) fail('sort', 'sort=band needs bandFrom and bandTo')
   if (v.page * v.perPage > MAX_RESULT_WINDOW) fail('page', `page × perPage is at most ${MAX_RESULT_WINDOW}: narrow the search instead`)
@@ -81,7 +103,7 @@ export const forTargetQuery = z.strictObject({
   aspiration: z.preprocess(blankToUndefined, enumItem('aspiration', SEARCH_ASPIRATIONS).optional()),
   fuel: z.preprocess(blankToUndefined, enumItem('fuel', SEARCH_FUELS).optional()),
   limit: z.preprocess(blankToUndefined, z.coerce.number({ error: 'limit is a whole number' }).int('limit is a whole number').min(1, 'limit is at least 1').max(50, 'limit is at most 50').default(5)),
-}, { error: issue => (issue.code === 'unrecognized_keys' ? `unknown parameter ${issue.keys.join(', ')}` : undefined) }).superRefine((v, ctx) => {
+}, unknownParameter).superRefine((v, ctx) => {
   if (v.ci === undefined) ctx.addIssue({ code: 'custom', path: ['ci'], message: 'ci (the displacement) is required' })
   if (v.hp === undefined) ctx.addIssue({ code: 'custom', path: ['hp'], message: 'hp (the power target) is required' })
 })

@@ -181,6 +181,32 @@ describe('text', () => {
   })
 })
 
+describe('one build against a query (what a saved search runs)', () => {
+  // The same queries as the scan above, plus words: a build matches exactly when the full query lists it.
+  const queries: SearchQuery[] = [
+    ...seededFilterQueries(docs, 40),
+    { q: 'supercharged' }, { q: 'supercharged methanol', ciMin: 400 }, { q: 'pushrod', aspiration: ['na'] }, { q: 'zzyzx' },
+    { verified: true, hpTarget: 700 }, { bandFrom: 4000, bandTo: 6000, hpMin: 500 },
+  ]
+  const sample = docs.filter((_, i) => i % 97 === 0)
+
+  it.each(queries.map(q => [describeQuery(q), q] as const))('agrees with the full result list: %s', (_name, q) => {
+    const listed = new Set(index.query({ ...q, page: 1, perPage: 10_000 }).hits.map(h => h.id))
+    const matched = sample.filter(d => index.matches(d.id, q)).map(d => d.id)
+    expect(matched).toEqual(sample.filter(d => listed.has(d.id)).map(d => d.id))
+  })
+
+  it('finds some builds and misses others over the sample', () => {
+    const counts = queries.map(q => sample.filter(d => index.matches(d.id, q)).length)
+    expect(counts.some(n => n > 0)).toBe(true)
+    expect(counts.some(n => n === 0)).toBe(true)
+  })
+
+  it('is false for a build the index does not hold', () => {
+    expect(index.matches(987_654_321, {})).toBe(false)
+  })
+})
+
 describe('keeping in step', () => {
   it('reflects an upsert, an edit and a removal at once', () => {
     const own = createSearchIndex()
