@@ -6,6 +6,9 @@ import { drainOutbox } from '../services/outbox'
  * waits and is tried again), and approvals due after the configured days are made every few minutes.
  * Each run is skipped while the previous one is still going.
  */
+/** Mails claimed per batch by the outbox drainer. */
+const OUTBOX_BATCH = 20
+
 export default defineNitroPlugin((nitroApp) => {
   const c = useRuntimeConfig()
   let draining = false
@@ -15,7 +18,11 @@ export default defineNitroPlugin((nitroApp) => {
     if (draining || !c.databaseUrl) return
     draining = true
     try {
-      await drainOutbox(useDb(), sendMail)
+      // A full batch means more is waiting: keep going (up to ten batches a tick) rather than wait for the next tick.
+      for (let round = 0; round < 10; round++) {
+        const { sent, failed } = await drainOutbox(useDb(), sendMail, { batch: OUTBOX_BATCH })
+        if (sent + failed < OUTBOX_BATCH) break
+      }
     }
     catch (error) {
       log('draining the outbox failed', error)

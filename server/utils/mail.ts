@@ -20,6 +20,9 @@ function useTransport(): Transporter {
       ignoreTLS: smtpHost === '127.0.0.1' || smtpHost === 'localhost',
       connectionTimeout: 10_000,
       greetingTimeout: 10_000,
+      // Reuses open SMTP connections instead of one per message, so an outbox backlog drains quickly.
+      pool: true,
+      maxConnections: 3,
     })
   }
   return transport

@@ -192,7 +192,11 @@ describe('announcing a newly verified build', () => {
     expect((await rowsOf(saver.id))[0]!.lastNotifiedAt).not.toBeNull()
 
     // Sent by the outbox's drainer through SMTP to the catcher.
-    const mail = await waitForMail(saver.email, m => m.subject.includes(build.title))
+    // The drainer sends every 2 s and retries a refused send after 15 s (retryDelayMs): the wait covers one retry.
+    const mail = await waitForMail(saver.email, m => m.subject.includes(build.title), 30_000).catch(async (error: Error) => {
+      const [row] = await outboxTo(saver.email)
+      throw new Error(`${error.message}; outbox row: attempts ${row?.attempts}, sent ${row?.sentAt?.toISOString() ?? 'no'}, last error ${row?.lastError ?? 'none'}`)
+    })
     expect(mail.subject).toContain('Probe near this size')
     expect(mail.text).toContain(`/builds/${build.slug}`)
     expect(mail.text).toContain('/account#saved-searches')
