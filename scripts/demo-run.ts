@@ -18,7 +18,7 @@ async function main() {
   started = await startServices(cfg, developmentServices)
   const url = databaseUrl(cfg, cfg.db.name)
   await migrateDatabase(url)
-  const seeded = await seedDemo({ url, uploadsDir: resolve(cfg.dataDir, 'uploads'), paymentsFake: demoPaymentsFake(cfg) })
+  const seeded = await seedDemo({ url, uploadsDir: resolve(cfg.dataDir, 'uploads'), paymentsFake: demoPaymentsFake(cfg), savedSearches: true })
   console.log(`› demo scenario: ${seeded.builds} builds (${seeded.created} new)`)
   await buildIfStale(cfg)
   const server = await startBuiltServer(cfg, appEnv(cfg, {

@@ -15,7 +15,7 @@ async function main() {
   started = await startServices(cfg, developmentServices)
   const url = databaseUrl(cfg, cfg.db.name)
   await migrateDatabase(url)
-  await seedDemo({ url, uploadsDir: resolve(cfg.dataDir, 'uploads'), paymentsFake: demoPaymentsFake(cfg) })
+  await seedDemo({ url, uploadsDir: resolve(cfg.dataDir, 'uploads'), paymentsFake: demoPaymentsFake(cfg), savedSearches: true })
   const env = appEnv(cfg, { database: cfg.db.name, port: cfg.app.port, smtpPort: cfg.mail.smtpPort, uploadsDir: resolve(cfg.dataDir, 'uploads'), payments: { port: cfg.payments.port, keys: paymentsKeys(cfg) } })
   const nuxt = spawn(resolve(cfg.root, 'node_modules', '.bin', 'nuxt'), ['dev', '--host', '127.0.0.1', '--port', String(cfg.app.port)], {
     cwd: cfg.root, stdio: 'inherit', env: { ...env, NODE_ENV: 'development' },

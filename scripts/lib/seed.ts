@@ -10,6 +10,8 @@ import type { EvidenceCheck } from '../../shared/engine/types'
 import type { PullSummaryFigures } from '../../shared/pulls/summary'
 import * as schema from '../../server/database/schema'
 import { createStripeClient } from '../../server/services/payments'
+import { canonicalFilters } from '../../shared/search/saved'
+import type { SearchFilterParams } from '../../shared/schemas/search'
 import { seedDemoDeals, seedDemoDispute } from './seed-deals'
 import { DEMO_ADMIN, DEMO_PASSWORD, DEMO_RACERS, DEMO_SHOPS, demoBuilds, pullCsv, type DemoPull } from './demo-data'
 
@@ -25,9 +27,10 @@ async function ensureUser(db: Db, u: { name: string, email: string, role: 'racer
 
 /**
  * Seeds the invented demo scenario; entities that already exist (by e-mail or slug) are left as they are, so it is safe to run twice.
- * Given the local payments fake, it also seeds an open dispute paid through it (the tests seed without it).
+ * Given the local payments fake, it also seeds an open dispute paid through it; with `savedSearches`, two racers'
+ * saved searches (the tests seed without either, so their own searches and mail stay theirs alone).
  */
-export async function seedDemo(opts: { url: string, uploadsDir: string, paymentsFake?: { port: number, secretKey: string } }): Promise<{ builds: number, created: number }> {
+export async function seedDemo(opts: { url: string, uploadsDir: string, paymentsFake?: { port: number, secretKey: string }, savedSearches?: boolean }): Promise<{ builds: number, created: number }> {
   const connection = await mysql.createConnection({ uri: opts.url, timezone: 'Z' })
   const db = drizzle(connection, { schema, mode: 'default' })
   const storage = createStorage({ driver: fsDriver({ base: opts.uploadsDir }) })
@@ -131,6 +134,7 @@ export async function seedDemo(opts: { url: string, uploadsDir: string, payments
       created++
     }
     await seedDemoDeals(db)
+    if (opts.savedSearches) await seedDemoSavedSearches(db)
     if (opts.paymentsFake) {
       const stripe = createStripeClient({ secretKey: opts.paymentsFake.secretKey, apiHost: '127.0.0.1', apiPort: opts.paymentsFake.port, apiProtocol: 'http' })
       // A demo whose payments fake lost its books (or another data folder) still starts: the dispute is a nicety.
@@ -140,5 +144,24 @@ export async function seedDemo(opts: { url: string, uploadsDir: string, payments
   }
   finally {
     await connection.end()
+  }
+}
+
+/**
+ * Two racers' saved searches. The first matches the twin-turbo pump-gas build whose pulls wait in the
+ * admin's queue, so verifying one of them in the demo sends its saver an e-mail (see the mail inbox).
+ */
+const DEMO_SAVED_SEARCHES: { email: string, name: string, query: SearchFilterParams }[] = [
+  { email: 'jonah@racer.test', name: 'Turbo on pump gas, 450–520 ci', query: { ciMin: 450, ciMax: 520, aspiration: ['turbo'], fuel: ['pump_gas'] } },
+  { email: 'alma@racer.test', name: 'About 900 hp on E85', query: { hpTarget: 900, hpTolerance: 90, fuel: ['e85'], verified: true } },
+]
+
+async function seedDemoSavedSearches(db: Db): Promise<void> {
+  for (const s of DEMO_SAVED_SEARCHES) {
+    const [user] = await db.select({ id: schema.users.id }).from(schema.users).where(eq(schema.users.email, s.email))
+    if (!user) continue
+    const [existing] = await db.select({ id: schema.savedSearches.id }).from(schema.savedSearches).where(eq(schema.savedSearches.userId, user.id)).limit(1)
+    if (existing) continue
+    await db.insert(schema.savedSearches).values({ userId: user.id, name: s.name, query: canonicalFilters(s.query), createdAt: new Date() })
   }
 }
