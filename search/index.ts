@@ -46,8 +46,11 @@ function positionColumns(size: number) {
 type Columns = ReturnType<typeof positionColumns>
 
 /** A bit mask of allowed codes, or -1 (everything) when the list is empty. */
+/** The mask of a filter that is absent: every code allowed. */
+const ALL = -1
+
 function maskOf(values: readonly string[] | undefined, codes: Map<string, number>): number {
-  if (!values || values.length === 0) return -1
+  if (!values || values.length === 0) return ALL
   let mask = 0
   for (const v of values) {
     const c = codes.get(v)
@@ -269,6 +272,7 @@ class EmbeddedIndex implements SearchIndex {
     const tqMin = params.tqMin ?? -Infinity
     const tqMax = params.tqMax ?? Infinity
     const priceMax = params.priceMax === undefined ? Infinity : params.priceMax * 100
+    const priceFilter = params.priceMax !== undefined
     const aspirationMask = maskOf(params.aspiration, ASPIRATION_CODE)
     const fuelMask = maskOf(params.fuel, FUEL_CODE)
     const useMask = maskOf(params.use, USE_CODE)
@@ -300,38 +304,43 @@ class EmbeddedIndex implements SearchIndex {
         p = positionOfSlot[(textSlots as Int32Array)[i] as number] as number
         if (p < lo || p >= hi) continue
       }
-      const hp = hps[p] as number
-      if (hpFilter && !(hp >= hpMin && hp <= hpMax)) continue
-      if (targetFilter && !(Math.abs(hp - target) <= tolerance)) continue
+      // Each column is read only when a filter or the sort needs it: broad queries touch fewer arrays.
+      if (hpFilter || targetFilter) {
+        const hp = hps[p] as number
+        if (hpFilter && !(hp >= hpMin && hp <= hpMax)) continue
+        if (targetFilter && !(Math.abs(hp - target) <= tolerance)) continue
+      }
       if (tqFilter) {
         const tq = tqs[p] as number
         if (!(tq >= tqMin && tq <= tqMax)) continue
       }
       const a = aspirations[p] as number
       const f = fuels[p] as number
-      if (!((aspirationMask >> a) & 1) || !((fuelMask >> f) & 1) || !((useMask >> (uses[p] as number)) & 1)) continue
+      if (!((aspirationMask >> a) & 1) || !((fuelMask >> f) & 1)) continue
+      if (useMask !== ALL && !((useMask >> (uses[p] as number)) & 1)) continue
       if (onlyVerified && verified[p] === 0) continue
-      if ((price[p] as number) > priceMax) continue
+      if (priceFilter && (price[p] as number) > priceMax) continue
       const fam = family[p] as number
       if (familyAllowed && familyAllowed[fam] !== 1) continue
       if (regionAllowed && regionAllowed[region[p] as number] !== 1) continue
-      const slot = slots[p] as number
-      if (text && !textIndex.isMatch(slot)) continue
+      if (text && !textIndex.isMatch(slots[p] as number)) continue
       total++
       aspirationCounts[a]!++
       fuelCounts[f]!++
       familyCounts[fam]!++
       let key: number
-      if (sortCode === 0) key = -textIndex.scoreOf(slot)
+      if (sortCode === 0) key = -textIndex.scoreOf(slots[p] as number)
       else if (sortCode === 1) key = -(published[p] as number)
       else if (sortCode === 2) key = price[p] as number
-      else if (sortCode === 3) key = Math.abs(hp - target)
+      else if (sortCode === 3) key = Math.abs((hps[p] as number) - target)
       else {
         // Band sort: keep the candidate and rank it after the scan (see rankByBand).
         candidates[candidateCount++] = p
         continue
       }
-      top.offer(key, ids[p] as number, slot)
+      // Once the kept list is full, a key worse than its worst cannot get in, whatever its id.
+      if (key > top.threshold) continue
+      top.offer(key, ids[p] as number, slots[p] as number)
     }
     if (sortCode === 4) this.rankByBand(top, candidates, candidateCount, bandFrom, bandTo)
 
