@@ -149,14 +149,12 @@ export async function deletePull(db: Database, store: UploadStore, shop: ShopRef
   await afterBuildChanged(buildId)
 }
 
-/** The combination fields the evidence checks read: a change to any of them makes a stored report stale. */
-export const CHECKED_COMBINATION_FIELDS = ['aspiration', 'boreIn', 'strokeIn', 'cylinders'] as const
-
 /**
  * Runs the evidence checks again for a build's pulls still awaiting review, against the build's
  * combination as it stands now (after the builder changed the bore, stroke, cylinders or
- * aspiration), so the admin reviews a report that matches the listing. Verified and rejected pulls
- * keep the report their decision was made on. Answers how many reports were refreshed.
+ * aspiration), so the admin reviews a report that matches the listing. Rejected pulls keep the report
+ * their decision was made on; verified ones were sent back to the queue by the same change
+ * (updateBuild). Answers how many reports were refreshed.
  */
 export async function recheckSubmittedPulls(db: Database, buildId: number, read: ReadStoredText): Promise<number> {
   const [build] = await db.select().from(builds).where(eq(builds.id, buildId)).limit(1)

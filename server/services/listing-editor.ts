@@ -16,6 +16,10 @@ export interface ShopRef {
 type BuildListener = (buildId: number) => Promise<unknown>
 const listeners: BuildListener[] = []
 
+/** The combination fields the evidence checks read: a change to any of them makes a report, and a verification, stale. */
+export const CHECKED_COMBINATION_FIELDS = ['aspiration', 'boreIn', 'strokeIn', 'cylinders'] as const
+const COMBINATION_FIELD_WORDS: Record<(typeof CHECKED_COMBINATION_FIELDS)[number], string> = { aspiration: 'aspiration', boreIn: 'bore', strokeIn: 'stroke', cylinders: 'cylinder count' }
+
 /** Registers work to run after a build changes (the search plugin keeps the index in step through it). */
 export function onBuildChanged(listener: BuildListener): void {
   listeners.push(listener)
@@ -157,6 +161,17 @@ export async function updateBuild(db: Database, shop: ShopRef, buildId: number, 
       if (issues.length) throw createError({ status: 422, message: `A published listing must stay complete: ${issues.map(i => `${i.path}: ${i.message}`).join('; ')}.`, data: { issues } })
     }
     if (Object.keys(columns).length) await tx.update(builds).set(columns).where(eq(builds.id, buildId))
+    // A verification holds for the combination it was checked against: when the bore, stroke,
+    // cylinders or aspiration change, verified pulls go back to the queue and the mark comes off.
+    const changed = CHECKED_COMBINATION_FIELDS.filter(f => f in columns && columns[f] !== undefined && columns[f] !== build[f])
+    if (changed.length) {
+      const [sent] = await tx.update(dynoPulls).set({
+        status: 'submitted',
+        reviewedAt: null,
+        reviewNote: `Sent back for a new check: the ${changed.map(f => COMBINATION_FIELD_WORDS[f]).join(', ')} changed after it was verified.`,
+      }).where(and(eq(dynoPulls.buildId, buildId), eq(dynoPulls.status, 'verified')))
+      if (sent.affectedRows > 0) await refreshHeadline(tx, buildId)
+    }
     if (parts) {
       if (parts.length > MAX_PARTS) throw createError({ status: 422, message: `A parts list has at most ${MAX_PARTS} rows.` })
       await tx.delete(buildParts).where(eq(buildParts.buildId, buildId))

@@ -211,7 +211,7 @@ describe('the evidence report follows the combination', () => {
   const readStored = async (key: string) => readFileSync(resolve(testUploadsDir(), key), 'utf8')
   const bmepOf = async (buildId: number) => (await pullsOf(ctx.db, buildId))[0]!.checks!.find(c => c.id === 'bmep')!
 
-  it('re-runs the checks of a pull awaiting review after the bore and stroke change, and leaves a verified pull\'s report alone', async () => {
+  it('re-runs the checks of a pull awaiting review after the bore and stroke change', async () => {
     const id = await readyDraft('Combination changes after the upload')
     const text = inventedPullCsv(331)
     await savePull(db, store, shops.mine, id, { pull: file(text), meta: pullMeta() })
@@ -230,11 +230,27 @@ describe('the evidence report follows the combination', () => {
     const expectedKpa = (4 * Math.PI * peaks(parsed.points).peakTq * 1.3558179483) / (ci * 1.6387064e-5) / 1000
     expect(after.figures!.bmepKpa).toBeCloseTo(expectedKpa, 0)
     expect(after.figures!.bmepKpa).toBeGreaterThan(before.figures!.bmepKpa as number)
+  })
 
-    // Once an admin has decided, the report the decision was made on stays as it was.
-    await ctx.db.update(schema.dynoPulls).set({ status: 'verified' }).where(eq(schema.dynoPulls.buildId, id))
-    await updateBuild(db, shops.mine, id, { boreIn: 4.25, strokeIn: 4 })
-    expect(await recheckSubmittedPulls(db, id, readStored)).toBe(0)
-    expect((await bmepOf(id)).figures!.displacementCi).toBeCloseTo(ci, 6)
+  it('sends a verified pull back for a new check when the combination changes, and keeps it verified when the values stay the same', async () => {
+    const id = await readyDraft('Verified, then re-machined')
+    await savePull(db, store, shops.mine, id, { pull: file(inventedPullCsv(337)), meta: pullMeta() })
+    const verifiedAt = new Date(Date.now() - 86_400_000)
+    await ctx.db.update(schema.dynoPulls).set({ status: 'verified', reviewedAt: verifiedAt }).where(eq(schema.dynoPulls.buildId, id))
+    await ctx.db.update(schema.builds).set({ verifiedAt }).where(eq(schema.builds.id, id))
+
+    // An autosave that repeats the stored values changes nothing.
+    await updateBuild(db, shops.mine, id, { boreIn: COMPLETE_COMBINATION.boreIn, cylinders: 8 })
+    expect((await pullsOf(ctx.db, id))[0]!.status).toBe('verified')
+
+    await updateBuild(db, shops.mine, id, { boreIn: 4.155, strokeIn: 4 })
+    const [pull] = await pullsOf(ctx.db, id)
+    expect(pull!.status).toBe('submitted')
+    expect(pull!.reviewNote).toContain('bore, stroke changed')
+    const [build] = await ctx.db.select().from(schema.builds).where(eq(schema.builds.id, id))
+    expect(build!.verifiedAt).toBeNull()
+    // Back in the queue, its report is re-run against the new combination.
+    expect(await recheckSubmittedPulls(db, id, readStored)).toBe(1)
+    expect((await bmepOf(id)).figures!.displacementCi).toBeCloseTo(displacementCi(4.155, 4, 8), 6)
   })
 })

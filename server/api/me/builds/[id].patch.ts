@@ -1,7 +1,7 @@
 import { buildDraftPatch } from '#shared/schemas/build'
 import { idParams } from '#shared/schemas/common'
-import { CHECKED_COMBINATION_FIELDS, recheckSubmittedPulls } from '../../../services/evidence-uploads'
-import { editorBuild, updateBuild } from '../../../services/listing-editor'
+import { recheckSubmittedPulls } from '../../../services/evidence-uploads'
+import { CHECKED_COMBINATION_FIELDS, editorBuild, updateBuild } from '../../../services/listing-editor'
 
 /** An autosave of some fields and/or the whole parts list; answers the updated owner's view. */
 export default defineEventHandler(async (event) => {
