@@ -74,6 +74,8 @@ describe('search page in Chromium', () => {
     await page.goto(`${baseUrl()}/search?aspiration=na`, { waitUntil: 'networkidle' })
     await page.waitForURL(/bandFrom=4000/)
     expect(await page.locator('[data-test="field-bandTo"]').inputValue()).toBe('6200')
+    // ...and the results are asked again with it: the cards carry band power, not "pull too short" everywhere.
+    await page.waitForFunction(() => [...document.querySelectorAll('[data-test="hit-band"]')].some(el => /\d/.test(el.textContent ?? '')), undefined, { timeout: 10_000 })
 
     await page.locator('[data-test="search-q"]').fill('zzyzx')
     await page.locator('[data-test="search-empty"]').waitFor()
