@@ -27,7 +27,6 @@ export function useUpload() {
       }
       xhr.onload = () => {
         active.value = false
-        progress.value = 1
         let body: Record<string, unknown> | null = null
         try {
           body = xhr.responseText ? JSON.parse(xhr.responseText) : null
@@ -36,6 +35,8 @@ export function useUpload() {
           body = null
         }
         const ok = xhr.status >= 200 && xhr.status < 300
+        // Only a file the server took is "all sent"; a refused one goes back to nothing.
+        progress.value = ok ? 1 : 0
         const message = ok ? '' : String(body?.message ?? `The upload was refused (${xhr.status}).`)
         resolve({ ok, status: xhr.status, body: ok ? (body as T) : null, message, data: ok ? null : (body?.data as Record<string, unknown>) ?? null })
       }

@@ -11,6 +11,9 @@ export const NEAR_TARGET = { ci: 0.1, hp: 0.15 } as const
 export interface TargetQuery {
   ci: number
   hp: number
+  /** The racer's own displacement range; when given it replaces the 10 % window, never widened. */
+  ciMin?: number
+  ciMax?: number
   aspiration?: Aspiration
   fuel?: Fuel
   limit: number
@@ -38,8 +41,8 @@ export interface TargetRanking {
 /** Ranks the shops with verified builds near the target. */
 export function rankShopsForTarget(index: SearchIndex, target: TargetQuery): TargetRanking {
   const window = {
-    ciMin: target.ci * (1 - NEAR_TARGET.ci),
-    ciMax: target.ci * (1 + NEAR_TARGET.ci),
+    ciMin: target.ciMin ?? target.ci * (1 - NEAR_TARGET.ci),
+    ciMax: target.ciMax ?? target.ci * (1 + NEAR_TARGET.ci),
     hpMin: target.hp * (1 - NEAR_TARGET.hp),
     hpMax: target.hp * (1 + NEAR_TARGET.hp),
   }

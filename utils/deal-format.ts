@@ -7,6 +7,13 @@ export function standardLabel(id: string | null | undefined): string {
   return CORRECTION_STANDARDS.find(s => s.id === id)?.label ?? (id ?? '—')
 }
 
+/** A history line's detail with every standard's stored code written as its name ("SAE J1349 (2004)"). */
+export function readableDetail(detail: string): string {
+  let out = detail
+  for (const s of CORRECTION_STANDARDS) out = out.split(s.id).join(s.label)
+  return out
+}
+
 const day = new Intl.DateTimeFormat('en-US', { year: 'numeric', month: 'short', day: 'numeric', timeZone: 'UTC' })
 const moment = new Intl.DateTimeFormat('en-US', { month: 'short', day: 'numeric', hour: 'numeric', minute: '2-digit' })
 

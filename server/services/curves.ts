@@ -1,6 +1,7 @@
 import { createError } from 'h3'
 import { and, asc, eq, inArray } from 'drizzle-orm'
 import { convertCurve, deltaCurve, describeDelta, parsePull, peaks, torqueAt, type CorrectionStandard, type PullPoint } from '#shared/engine'
+import { displayCurve } from '#shared/listings/display-curve'
 import type { BuildCurves, CurveComparison, CurvePull } from '#shared/types/listings'
 import { builds, dynoPulls, files, type DynoPull } from '../database/schema'
 import type { Database } from '../database/types'
@@ -25,8 +26,12 @@ async function rawPoints(read: ReadStoredText, storageKey: string): Promise<Pull
   return parsed.points
 }
 
-/** Every pull of a build re-expressed under `target`, with the A/B comparisons between baseline and variants. */
-export async function curvesForBuild(db: Database, read: ReadStoredText, buildId: number, slug: string, target: CorrectionStandard): Promise<BuildCurves> {
+/**
+ * Every pull of a build re-expressed under `target`, with the A/B comparisons between baseline and variants.
+ * Pages get each curve on at most DISPLAY_MAX_POINTS points (`resolution: 'display'`, the default); the
+ * CSV download asks for every point of the file (`'full'`). Peaks and comparisons always use every point.
+ */
+export async function curvesForBuild(db: Database, read: ReadStoredText, buildId: number, slug: string, target: CorrectionStandard, resolution: 'display' | 'full' = 'display'): Promise<BuildCurves> {
   const rows = await db.select({ pull: dynoPulls, storageKey: files.storageKey }).from(dynoPulls)
     .innerJoin(files, eq(files.id, dynoPulls.fileId))
     .where(and(eq(dynoPulls.buildId, buildId), inArray(dynoPulls.status, ['submitted', 'verified'])))
@@ -61,7 +66,7 @@ export async function curvesForBuild(db: Database, read: ReadStoredText, buildId
       standard: converted.uncorrected ? 'UNCORRECTED' : target,
       uncorrected: converted.uncorrected,
       notes: converted.notes,
-      points: converted.points.map(p => ({ rpm: p.rpm, hp: one(p.hp), lbFt: one(torqueAt(p)) })),
+      points: (resolution === 'full' ? converted.points : displayCurve(converted.points)).map(p => ({ rpm: p.rpm, hp: one(p.hp), lbFt: one(torqueAt(p)) })),
       peaks: { peakHp: one(pk.peakHp), peakHpRpm: pk.peakHpRpm, peakTq: one(pk.peakTq), peakTqRpm: pk.peakTqRpm },
     })
   }

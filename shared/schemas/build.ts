@@ -24,7 +24,8 @@ const whole = (label: string, min: number, max: number) => z.number({ error: `${
 const text = (label: string, min: number, max: number) => z.string({ error: `${label} is text` }).trim()
   .min(min, min <= 1 ? `${label} is required` : `${label} needs at least ${min} characters`)
   .max(max, `${label} is at most ${max} characters`)
-const choice = <T extends readonly [string, ...string[]]>(label: string, values: T) => z.enum(values, { error: `${label} must be one of ${values.join(', ')}` })
+// People read these messages in the editor's checklist: no stored codes (pump_gas, e85) in them.
+const choice = <T extends readonly [string, ...string[]]>(label: string, values: T) => z.enum(values, { error: `Pick the ${label.toLowerCase()} from the list` })
 
 /** Most a listing may ask, in cents (ten million dollars). */
 export const MAX_PRICE_CENTS = 1_000_000_000
@@ -179,7 +180,7 @@ const optionalRpm = (label: string) => whole(label, 500, 20_000).nullable().defa
 export const pullMetaSchema = z.object({
   label: text('The label', 2, 120),
   dynoKind: choice('The dyno kind', DYNO_KINDS),
-  declaredStandard: z.enum(standardIds, { error: `The declared standard must be one of ${standardIds.join(', ')}` }),
+  declaredStandard: z.enum(standardIds, { error: 'Pick the correction standard the dyno sheet used from the list' }),
   declaredFactor: optionalFigure('The correction factor', 0.8, 1.25),
   weather: z.object({
     baroInHg: num('The barometer', 20, 32, 'inHg'),

@@ -99,12 +99,15 @@ export type SearchQueryInput = z.infer<typeof searchQuery>
 /** GET /api/builders/for-target: the target a racer wants shops to have proven. */
 export const forTargetQuery = z.strictObject({
   ci: numberParam('ci', 1, 2000, ' ci'),
+  ciMin: numberParam('ciMin', 0, 2000, ' ci'),
+  ciMax: numberParam('ciMax', 0, 2000, ' ci'),
   hp: numberParam('hp', 1, 20000, ' hp'),
   aspiration: z.preprocess(blankToUndefined, enumItem('aspiration', SEARCH_ASPIRATIONS).optional()),
   fuel: z.preprocess(blankToUndefined, enumItem('fuel', SEARCH_FUELS).optional()),
   limit: z.preprocess(blankToUndefined, z.coerce.number({ error: 'limit is a whole number' }).int('limit is a whole number').min(1, 'limit is at least 1').max(50, 'limit is at most 50').default(5)),
 }, unknownParameter).superRefine((v, ctx) => {
-  if (v.ci === undefined) ctx.addIssue({ code: 'custom', path: ['ci'], message: 'ci (the displacement) is required' })
+  if (v.ci === undefined && (v.ciMin === undefined || v.ciMax === undefined)) ctx.addIssue({ code: 'custom', path: ['ci'], message: 'ci (the displacement) is required, or both ciMin and ciMax' })
+  if (v.ciMin !== undefined && v.ciMax !== undefined && v.ciMin > v.ciMax) ctx.addIssue({ code: 'custom', path: ['ciMin'], message: 'ciMin is above ciMax' })
   if (v.hp === undefined) ctx.addIssue({ code: 'custom', path: ['hp'], message: 'hp (the power target) is required' })
 })
 

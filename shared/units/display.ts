@@ -1,4 +1,4 @@
-import { ciToCc, fToC, hpToKw, inHgToKpa, inToMm, lbFtToNm } from '../engine/units'
+import { cToF, ccToCi, ciToCc, fToC, hpToKw, inHgToKpa, inToMm, kpaToInHg, kwToHp, lbFtToNm, mmToIn, nmToLbFt } from '../engine/units'
 import type { UnitSystem } from '../schemas/auth'
 
 /**
@@ -31,6 +31,20 @@ export function toDisplay(kind: FigureKind, imperial: number, system: UnitSystem
     // Barometer: 29.92 inHg reads 101.3 kPa, so one decimal either way.
     case 'pressure': return { value: inHgToKpa(imperial), unit: METRIC.pressure, digits }
     case 'temperature': return { value: fToC(imperial), unit: METRIC.temperature, digits }
+  }
+}
+
+/** A figure typed in the viewer's system back to the stored imperial value (the inverse of toDisplay). */
+export function fromDisplay(kind: FigureKind, shown: number, system: UnitSystem): number {
+  if (system === 'imperial') return shown
+  switch (kind) {
+    case 'power': return kwToHp(shown)
+    case 'torque': return nmToLbFt(shown)
+    case 'displacement': return ccToCi(shown * 1000)
+    case 'length': return mmToIn(shown)
+    case 'specificPower': return kwToHp(shown) * (ciToCc(1) / 1000)
+    case 'pressure': return kpaToInHg(shown)
+    case 'temperature': return cToF(shown)
   }
 }
 

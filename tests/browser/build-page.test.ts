@@ -5,6 +5,7 @@ import { readFileSync } from 'node:fs'
 import { resolve } from 'node:path'
 import { loadConfig } from '../../scripts/lib/config'
 import { baseUrl, schema, testDb } from '../support/context'
+import { makeBuildAwaitingCheck } from '../support/fixtures'
 import { isLocal, openBrowser } from '../support/browser'
 
 let browser: Awaited<ReturnType<typeof openBrowser>>
@@ -43,7 +44,25 @@ describe('build page in Chromium', () => {
     await page.waitForFunction(() => document.querySelector('[data-test="figures-standard"]')?.textContent?.includes('DIN 70020'))
     expect(await shown()).toBeCloseTo(expectedPeak('DIN_70020'), 1)
     expect(await page.locator('[data-test="pull-status"]').first().innerText()).toMatch(/Checked|Awaiting/)
+
+    // Uncorrected is a choice: the shop gave the weather, so no "no weather" note appears.
+    await page.locator('[data-test="standard-picker"]').selectOption('UNCORRECTED')
+    await page.waitForURL(/standard=UNCORRECTED/)
+    await page.waitForFunction(() => document.querySelector('[data-test="figures-standard"]')?.textContent?.includes('Uncorrected (as observed)'))
+    expect(await shown()).toBeCloseTo(expectedPeak('UNCORRECTED'), 1)
+    expect(await page.locator('[data-test="no-weather-note"]').count()).toBe(0)
     expect(requests.filter(url => !isLocal(url))).toEqual([])
+  })
+
+  it('says the weather is unknown only for a pull the shop gave no weather for', async () => {
+    const { db, close } = await testDb()
+    const { slug, pullId } = await makeBuildAwaitingCheck(db)
+    await db.update(schema.dynoPulls).set({ baroInHg: null, airTempF: null, humidityPct: null }).where(eq(schema.dynoPulls.id, pullId))
+    await close()
+    const { page } = browser
+    await page.goto(`${baseUrl()}/builds/${slug}`, { waitUntil: 'networkidle' })
+    expect(await page.locator('[data-test="no-weather-note"]').innerText()).toContain('no weather')
+    expect(await page.locator('[data-test="figures-standard"]').innerText()).toContain('weather unknown')
   })
 
   it('overlays two builds on the compare page', async () => {

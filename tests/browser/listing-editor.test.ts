@@ -102,6 +102,12 @@ describe('the listing editor in Chromium', () => {
     await page.fill('[data-test="pull-baroInHg"]', String(WEATHER.baroInHg))
     await page.fill('[data-test="pull-airTempF"]', String(WEATHER.airTempF))
     await page.fill('[data-test="pull-humidityPct"]', String(WEATHER.humidityPct))
+    // A file that is no pull is refused with the reason, and no bar claims it went through.
+    await page.setInputFiles('[data-test="pull-file"]', { name: 'notes.csv', mimeType: 'text/csv', buffer: Buffer.from('these are my notes\nnot a pull\n') })
+    await page.click('[data-test="pull-preview-button"]')
+    await page.waitForSelector('[data-test="pull-message"]')
+    expect(await page.locator('[data-test="upload-progress"]').count()).toBe(0)
+
     await page.setInputFiles('[data-test="pull-file"]', { name: 'final-pull.csv', mimeType: 'text/csv', buffer: Buffer.from(PULL_TEXT) })
     await page.click('[data-test="pull-preview-button"]')
     await page.waitForSelector('[data-test="pull-preview"]')

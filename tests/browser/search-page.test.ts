@@ -74,6 +74,8 @@ describe('search page in Chromium', () => {
     await page.goto(`${baseUrl()}/search?aspiration=na`, { waitUntil: 'networkidle' })
     await page.waitForURL(/bandFrom=4000/)
     expect(await page.locator('[data-test="field-bandTo"]').inputValue()).toBe('6200')
+    // ...and the results are asked again with it: the cards carry band power, not "pull too short" everywhere.
+    await page.waitForFunction(() => [...document.querySelectorAll('[data-test="hit-band"]')].some(el => /\d/.test(el.textContent ?? '')), undefined, { timeout: 10_000 })
 
     await page.locator('[data-test="search-q"]').fill('zzyzx')
     await page.locator('[data-test="search-empty"]').waitFor()
@@ -82,5 +84,27 @@ describe('search page in Chromium', () => {
     await widen.click()
     await page.locator('[data-test="search-hit"]').first().waitFor()
     expect(await page.locator('[data-test="search-q"]').inputValue()).toBe('')
+  })
+  it('shows the cards and the number filters in the viewer\'s units, and keeps the filters in stored units', async () => {
+    const { page } = browser
+    // The shops panel keeps the racer's displacement range rather than 10 % around its middle.
+    await page.goto(`${baseUrl()}/search?ciMin=400&ciMax=450&hpTarget=600`, { waitUntil: 'networkidle' })
+    expect(await page.locator('[data-test="shops-for-target"]').innerText()).toContain('between 400 ci and 450 ci')
+
+    await page.goto(`${baseUrl()}/search?ciMin=300&ciMax=500`, { waitUntil: 'networkidle' })
+    await page.locator('[data-test="search-hit"]').first().waitFor()
+    await page.click('[data-test="units-toggle-metric"]')
+    await page.waitForFunction(() => document.querySelector('[data-test="unit-ciMin"]')?.textContent?.trim() === 'L')
+    expect(await page.locator('[data-test="hit-peak"]').first().innerText()).toContain('kW')
+    // 300 ci is 4.916 L (NIST SP 811: 1 in³ = 16.387064 cm³), shown to one decimal.
+    expect(await page.locator('[data-test="field-ciMin"]').inputValue()).toBe('4.9')
+    await page.locator('[data-test="field-ciMin"]').fill('5.7')
+    await page.locator('[data-test="field-ciMin"]').blur()
+    // 5.7 L = 5700 / 16.387064 = 347.8 ci, to a tenth.
+    await page.waitForURL(/ciMin=347\.8/)
+    expect(await page.locator('[data-test="field-ciMin"]').inputValue()).toBe('5.7')
+    await page.click('[data-test="units-toggle-imperial"]')
+    await page.waitForFunction(() => document.querySelector('[data-test="unit-ciMin"]')?.textContent?.trim() === 'ci')
+    expect(await page.locator('[data-test="field-ciMin"]').inputValue()).toBe('347.8')
   })
 })

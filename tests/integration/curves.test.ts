@@ -4,7 +4,11 @@ import { and, eq, isNotNull } from 'drizzle-orm'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { convertCurve, deltaCurve, parsePull, peaks, type CorrectionStandard } from '../../shared/engine'
 import { loadConfig } from '../../scripts/lib/config'
+import { makeCurve, pullCsv } from '../../scripts/lib/demo-data'
+import { seededRandom } from '../../scripts/lib/random'
+import { DISPLAY_MAX_POINTS } from '../../shared/listings/display-curve'
 import { api, schema, testDb } from '../support/context'
+import { makeBuildAwaitingCheck, testUploads } from '../support/fixtures'
 
 let ctx: Awaited<ReturnType<typeof testDb>>
 beforeAll(async () => {
@@ -81,6 +85,44 @@ describe('GET /api/builds/:slug/curves', () => {
     expect(bad.status).toBe(400)
     expect(bad.body.message).toContain('SAE_J1349_2004')
     expect((await api('/api/builds/no-such-build/curves')).status).toBe(404)
+  })
+})
+
+describe('a dense pull on the public page', () => {
+  it('sends a bounded display curve to the page, computes peaks from every point, and keeps every point in the CSV', async () => {
+    const { slug, pullId } = await makeBuildAwaitingCheck(ctx.db)
+    // An invented pull logged every 1 rpm: thousands of rows, far more than a chart can show.
+    const dense = pullCsv(makeCurve(seededRandom(4242), { peakHpTarget: 560, redline: 7200, boosted: false, stepRpm: 1 }))
+    const [row] = await ctx.db.select({ key: schema.files.storageKey }).from(schema.dynoPulls)
+      .innerJoin(schema.files, eq(schema.files.id, schema.dynoPulls.fileId)).where(eq(schema.dynoPulls.id, pullId))
+    await testUploads().setItemRaw(row!.key, dense)
+    const full = parsePull(dense)
+    if (!full.ok) throw new Error('the dense pull does not parse')
+    expect(full.points.length).toBeGreaterThan(4000)
+
+    // Asked under the standard the shop declared, the figures are the file's own.
+    const [meta] = await ctx.db.select({ standard: schema.dynoPulls.declaredStandard }).from(schema.dynoPulls).where(eq(schema.dynoPulls.id, pullId))
+    const res = await api(`/api/builds/${slug}/curves?standard=${meta!.standard}`)
+    expect(res.status).toBe(200)
+    const pull = res.body.pulls.find((p: { id: number }) => p.id === pullId)
+    expect(pull.points.length).toBeLessThanOrEqual(DISPLAY_MAX_POINTS)
+    expect(pull.points.length).toBeGreaterThan(DISPLAY_MAX_POINTS / 2)
+    // The display grid stays inside the pull and steps by whole tens of rpm.
+    expect(pull.points[0].rpm).toBeGreaterThanOrEqual(full.points[0]!.rpm)
+    expect(pull.points.at(-1).rpm).toBeLessThanOrEqual(full.points.at(-1)!.rpm)
+    expect(pull.points[1].rpm - pull.points[0].rpm).toBe(pull.points[2].rpm - pull.points[1].rpm)
+    expect((pull.points[1].rpm - pull.points[0].rpm) % 10).toBe(0)
+    // Peaks come from every point of the file, not from the thinned curve.
+    const pk = peaks(full.points)
+    expect(pull.peaks.peakHp).toBeCloseTo(pk.peakHp, 1)
+    expect(pull.peaks.peakHpRpm).toBe(pk.peakHpRpm)
+    // The whole answer stays small: a few hundred points, not the file.
+    expect(JSON.stringify(res.body).length).toBeLessThan(200_000)
+
+    const csv = await api(`/api/builds/${slug}/pulls/${pullId}/curve.csv?standard=${meta!.standard}`)
+    expect(csv.status).toBe(200)
+    const back = parsePull(String(csv.body).split('\n').filter(l => !l.startsWith('#')).join('\n'))
+    expect(back.ok && back.points.length).toBe(full.points.length)
   })
 })
 

@@ -215,6 +215,26 @@ describe('GET /api/builders/for-target', () => {
     expect(res.body.shops.length).toBe(Math.min(5, shopIds.length))
   })
 
+  it('keeps the racer\'s displacement range (never a build outside it) and says so in the window', async () => {
+    const rows = (await published()).filter(r => r.verifiedAt !== null && r.peakHp !== null)
+    const pick = rows[0]!
+    const ci = displacementCi(pick.boreIn!, pick.strokeIn!, pick.cylinders!)
+    const [ciMin, ciMax] = [Math.floor(ci), Math.ceil(ci * 1.08)]
+    const res = await api(`/api/builders/for-target?ciMin=${ciMin}&ciMax=${ciMax}&hp=${pick.peakHp}`)
+    expect(res.status).toBe(200)
+    expect(res.body.window.ciMin).toBe(ciMin)
+    expect(res.body.window.ciMax).toBe(ciMax)
+    const shown = res.body.shops.flatMap((s: { closest: { displacementCi: number }[] }) => s.closest.map(c => c.displacementCi))
+    expect(shown.length).toBeGreaterThan(0)
+    for (const d of shown) {
+      expect(d).toBeGreaterThanOrEqual(ciMin)
+      expect(d).toBeLessThanOrEqual(ciMax)
+    }
+    const bad = await api('/api/builders/for-target?ciMin=450&ciMax=400&hp=700')
+    expect(bad.status).toBe(400)
+    expect(bad.body.message).toContain('ciMin is above ciMax')
+  })
+
   it.each([
     ['hp=700', 'ci (the displacement) is required'],
     ['ci=427', 'hp (the power target) is required'],

@@ -106,3 +106,15 @@ describe('pull metadata', () => {
     expect(paths(pullMetaSchema.safeParse({ ...base, declaredStandard: 'SAE_J9999' }))).toEqual(['declaredStandard'])
   })
 })
+
+describe('messages a shop reads in the editor', () => {
+  it('name a choice in words, never the stored codes', () => {
+    const r = buildPublishSchema.safeParse({ ...complete, fuel: 'kerosene', aspiration: undefined, intendedUse: 'x' })
+    expect(r.success).toBe(false)
+    const messages = (r.error?.issues ?? []).map(i => i.message)
+    expect(messages).toContain('Pick the fuel from the list')
+    expect(messages).toContain('Pick the aspiration from the list')
+    expect(messages).toContain('Pick the intended use from the list')
+    for (const m of messages) expect(m).not.toMatch(/pump_gas|race_gas|road_course|street_strip|_/)
+  })
+})

@@ -55,4 +55,17 @@ describe('shops ranked for a target', () => {
     expect(rankShopsForTarget(index, { ci: 427, hp: 700, limit: 1 }).shops).toHaveLength(1)
     expect(rankShopsForTarget(index, { ci: 427, hp: 700, fuel: 'e85', limit: 5 }).shops).toEqual([])
   })
+
+  it('keeps the racer\'s own displacement range instead of widening it', () => {
+    // 427 ± 10 % would take in 425–430 ci; the racer asked for 426–428 ci only.
+    const kept = rankShopsForTarget(index, { ci: 427, ciMin: 426, ciMax: 428, hp: 700, aspiration: 'na', limit: 5 })
+    expect(kept.window.ciMin).toBe(426)
+    expect(kept.window.ciMax).toBe(428)
+    const shown = kept.shops.flatMap(s => s.closest.map(c => c.displacementCi))
+    expect(shown.length).toBeGreaterThan(0)
+    for (const ci of shown) expect(ci).toBeGreaterThanOrEqual(426)
+    for (const ci of shown) expect(ci).toBeLessThanOrEqual(428)
+    // Build 2 (430 ci) and build 3 (425 ci) of the steady shop fall outside the racer's range.
+    expect(kept.shops.find(s => s.builder.slug === 'steady-hands-machine')!.builds).toBe(1)
+  })
 })

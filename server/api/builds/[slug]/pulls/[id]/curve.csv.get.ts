@@ -13,7 +13,7 @@ export default defineEventHandler(async (event) => {
   const db = useDb()
   const buildId = await publishedBuildId(db, slug)
   if (!buildId) throw createError({ status: 404, message: 'No published build has that address.' })
-  const curves = await curvesForBuild(db, readUploadText, buildId, slug, standard as CorrectionStandard)
+  const curves = await curvesForBuild(db, readUploadText, buildId, slug, standard as CorrectionStandard, 'full')
   const pull = curves.pulls.find(p => p.id === id)
   if (!pull) throw createError({ status: 404, message: 'That build has no such pull.' })
   setResponseHeader(event, 'content-type', 'text/csv; charset=utf-8')
