@@ -9,7 +9,7 @@ import { authOrigin, authSecret, clientAddress, loadAccount, siteOrigin } from '
 import { useDb } from '../utils/db'
 import { sendMailLater } from '../utils/mail'
 import { emails } from './messages'
-import { signInRefusal } from './policy'
+import { SESSION_MAX_AGE_S, sessionCurrent, signInRefusal } from './policy'
 import { bucketKey, giveBackTokens, POLICIES, takeTokens, type BucketRequest } from './rate-limit'
 
 /** A refused sign-in; the code reaches the sign-in form, which turns it into words. Codes never say whether an e-mail is registered. */
@@ -23,8 +23,6 @@ class SignInRefused extends CredentialsSignin {
 // Verified against when the e-mail is unknown, so a wrong e-mail takes as long as a wrong password.
 let decoyHash: Promise<string> | undefined
 const decoy = () => (decoyHash ??= hash('decoy password that no account has'))
-
-export const SESSION_MAX_AGE_S = 14 * 24 * 3600
 
 /** The Auth.js configuration for one request: two credentials providers (password, e-mailed link) and JWT sessions that carry id, name and role. */
 export function authOptions(event: H3Event): AuthConfig {
@@ -50,7 +48,7 @@ export function authOptions(event: H3Event): AuthConfig {
       sendMailLater(event, { to: user.email, ...emails.verify(user.name, `${siteOrigin(event)}/sign-in/link?token=${token}`) })
     }
     if (refusal) throw new SignInRefused(refusal)
-    return { id: String(user.id), name: user.name, email: user.email, role: user.role, units: user.unitPreference }
+    return { id: String(user.id), name: user.name, email: user.email, role: user.role, units: user.unitPreference, sessionVersion: user.sessionVersion }
   }
 
   async function authorizeLink(raw: Partial<Record<string, unknown>>) {
@@ -63,7 +61,7 @@ export function authOptions(event: H3Event): AuthConfig {
     await giveBackTokens(db, buckets)
     const { user } = outcome
     if (outcome.previousEmail) sendMailLater(event, { to: outcome.previousEmail, ...emails.emailChanged(user.name, user.email) })
-    return { id: String(user.id), name: user.name, email: user.email, role: user.role, units: user.unitPreference }
+    return { id: String(user.id), name: user.name, email: user.email, role: user.role, units: user.unitPreference, sessionVersion: user.sessionVersion }
   }
 
   return {
@@ -85,12 +83,12 @@ export function authOptions(event: H3Event): AuthConfig {
     callbacks: {
       async jwt({ token, user, account }) {
         if (user) {
-          const u = user as { id: string, role: Role, units: UnitSystem }
-          return { ...token, sub: u.id, role: u.role, units: u.units, method: account?.provider, authAt: Date.now() }
+          const u = user as { id: string, role: Role, units: UnitSystem, sessionVersion: number }
+          return { ...token, sub: u.id, role: u.role, units: u.units, method: account?.provider, authAt: Date.now(), sv: u.sessionVersion }
         }
-        // Every read of the session re-checks the account: a suspended or deleted one loses its session here.
+        // Every read of the session re-checks the account: a suspended, deleted or signed-out-everywhere one loses its session here.
         const row = await loadAccount(Number(token.sub))
-        if (!row || row.suspendedAt) return null
+        if (!row || row.suspendedAt || !sessionCurrent(row, token.sv)) return null
         return { ...token, name: row.name, email: row.email, role: row.role, units: row.unitPreference }
       },
       session({ session, token }) {
