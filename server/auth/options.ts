@@ -10,7 +10,7 @@ import { useDb } from '../utils/db'
 import { sendMailLater } from '../utils/mail'
 import { emails } from './messages'
 import { SESSION_MAX_AGE_S, sessionCurrent, signInRefusal } from './policy'
-import { bucketKey, giveBackTokens, POLICIES, takeTokens, type BucketRequest } from './rate-limit'
+import { bucketKey, giveBackTokens, POLICIES, signInBuckets, takeTokens } from './rate-limit'
 
 /** A refused sign-in; the code reaches the sign-in form, which turns it into words. Codes never say whether an e-mail is registered. */
 class SignInRefused extends CredentialsSignin {
@@ -29,15 +29,27 @@ export function authOptions(event: H3Event): AuthConfig {
   const db = useDb()
   const address = clientAddress(event)
 
+  /**
+   * The account-wide bucket ran dry: tell the owner, at most once an hour, that password sign-in
+   * is paused and that a link still works. The same steps run for an unknown address, and the mail
+   * goes out after the answer, so the refusal says nothing about whether the address is registered.
+   */
+  async function noticePaused(email: string) {
+    const notice = await takeTokens(db, [{ key: bucketKey.signInPausedNotice(email), policy: POLICIES.signInPausedNotice }])
+    const user = await findUserByEmail(db, email)
+    if (notice.allowed && user && !user.suspendedAt) sendMailLater(event, { to: user.email, ...emails.signInPaused(user.name, `${siteOrigin(event)}/sign-in`) })
+  }
+
   async function authorizePassword(raw: Partial<Record<string, unknown>>) {
     const parsed = passwordSignInSchema.safeParse(raw)
     if (!parsed.success) throw new SignInRefused('invalid')
     const { email, password } = parsed.data
-    const buckets: BucketRequest[] = [
-      { key: bucketKey.signInAccount(email), policy: POLICIES.signInAccount },
-      { key: bucketKey.signInAddress(address), policy: POLICIES.signInAddress },
-    ]
-    if (!(await takeTokens(db, buckets)).allowed) throw new SignInRefused('rate_limited')
+    const buckets = signInBuckets(email, address)
+    const limit = await takeTokens(db, buckets)
+    if (!limit.allowed) {
+      if (limit.refused.includes(bucketKey.signInAccount(email))) await noticePaused(email)
+      throw new SignInRefused('rate_limited')
+    }
     const user = await findUserByEmail(db, email)
     const matches = user?.passwordHash ? await verify(user.passwordHash, password) : (await verify(await decoy(), password), false)
     if (!user || !matches) throw new SignInRefused('invalid')

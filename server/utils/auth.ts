@@ -5,7 +5,7 @@ import type { H3Event } from 'h3'
 import type { Role } from '#shared/schemas/auth'
 import type { SessionUser } from '#shared/types/auth'
 import { activeUser, assertOwner, assertRole, currentPasswordNeeded, SESSION_MAX_AGE_S, type AccountRow } from '../auth/policy'
-import { bucketKey, giveBackTokens, POLICIES, takeTokens } from '../auth/rate-limit'
+import { giveBackTokens, signInBuckets, takeTokens } from '../auth/rate-limit'
 import { builderProfiles, users, type BuilderProfile } from '../database/schema'
 
 /** The full address of the sign-in routes (AUTH_ORIGIN), which also says whether cookies are https-only. */
@@ -119,7 +119,7 @@ export function clientAddress(event: H3Event): string {
 /**
  * Asks for the current password before a password or e-mail change, unless the account has none
  * or the session began with an e-mailed link minutes ago. Wrong guesses count against the same
- * per-account limit as sign-in.
+ * limits as sign-in.
  */
 export async function confirmCurrentPassword(event: H3Event, user: SessionUser, currentPassword: string | undefined): Promise<void> {
   const db = useDb()
@@ -127,7 +127,7 @@ export async function confirmCurrentPassword(event: H3Event, user: SessionUser, 
   const session = await readSession(event)
   if (!row?.passwordHash || !currentPasswordNeeded(true, { method: session?.method, authAt: session?.authAt })) return
   if (!currentPassword) throw fieldError('currentPassword', 'Enter your current password.')
-  const buckets = [{ key: bucketKey.signInAccount(user.email), policy: POLICIES.signInAccount }]
+  const buckets = signInBuckets(user.email, clientAddress(event))
   if (!(await takeTokens(db, buckets)).allowed) throw createError({ status: 429, message: 'Too many wrong passwords: wait a few minutes, or sign in with an e-mailed link.' })
   if (!(await verify(row.passwordHash, currentPassword))) throw fieldError('currentPassword', 'That is not your current password.')
   await giveBackTokens(db, buckets)
