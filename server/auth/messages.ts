@@ -56,6 +56,13 @@ export const emails = {
     ['Someone asked to move another Torquewright account to this e-mail address, which already has an account of its own. Nothing was changed.'],
     { label: 'Go to sign-in', url: signInUrl },
   ),
+  signInPaused: (name: string, signInUrl: string): MailBody => compose(
+    'Password sign-in to your Torquewright account is paused',
+    `Hello ${name},`,
+    ['Many wrong passwords for your account arrived from different places within the last hour, so sign-in by password is paused for now. Nobody signed in with them. Password sign-in comes back by itself within the hour after the wrong attempts stop.',
+      'An e-mailed sign-in link still works meanwhile: ask for one on the sign-in page. If the wrong passwords were not yours, consider setting a new, longer password once signed in.'],
+    { label: 'Sign in with an e-mailed link', url: signInUrl },
+  ),
   emailChanged: (name: string, newEmail: string): MailBody => compose(
     'Your Torquewright e-mail address was changed',
     `Hello ${name},`,

@@ -9,8 +9,8 @@ import { authOrigin, authSecret, clientAddress, loadAccount, siteOrigin } from '
 import { useDb } from '../utils/db'
 import { sendMailLater } from '../utils/mail'
 import { emails } from './messages'
-import { signInRefusal } from './policy'
-import { bucketKey, giveBackTokens, POLICIES, takeTokens, type BucketRequest } from './rate-limit'
+import { SESSION_MAX_AGE_S, sessionCurrent, signInRefusal } from './policy'
+import { bucketKey, giveBackTokens, POLICIES, signInBuckets, takeTokens } from './rate-limit'
 
 /** A refused sign-in; the code reaches the sign-in form, which turns it into words. Codes never say whether an e-mail is registered. */
 class SignInRefused extends CredentialsSignin {
@@ -24,22 +24,32 @@ class SignInRefused extends CredentialsSignin {
 let decoyHash: Promise<string> | undefined
 const decoy = () => (decoyHash ??= hash('decoy password that no account has'))
 
-export const SESSION_MAX_AGE_S = 14 * 24 * 3600
-
 /** The Auth.js configuration for one request: two credentials providers (password, e-mailed link) and JWT sessions that carry id, name and role. */
 export function authOptions(event: H3Event): AuthConfig {
   const db = useDb()
   const address = clientAddress(event)
 
+  /**
+   * The account-wide bucket ran dry: tell the owner, at most once an hour, that password sign-in
+   * is paused and that a link still works. The same steps run for an unknown address, and the mail
+   * goes out after the answer, so the refusal says nothing about whether the address is registered.
+   */
+  async function noticePaused(email: string) {
+    const notice = await takeTokens(db, [{ key: bucketKey.signInPausedNotice(email), policy: POLICIES.signInPausedNotice }])
+    const user = await findUserByEmail(db, email)
+    if (notice.allowed && user && !user.suspendedAt) sendMailLater(event, { to: user.email, ...emails.signInPaused(user.name, `${siteOrigin(event)}/sign-in`) })
+  }
+
   async function authorizePassword(raw: Partial<Record<string, unknown>>) {
     const parsed = passwordSignInSchema.safeParse(raw)
     if (!parsed.success) throw new SignInRefused('invalid')
     const { email, password } = parsed.data
-    const buckets: BucketRequest[] = [
-      { key: bucketKey.signInAccount(email), policy: POLICIES.signInAccount },
-      { key: bucketKey.signInAddress(address), policy: POLICIES.signInAddress },
-    ]
-    if (!(await takeTokens(db, buckets)).allowed) throw new SignInRefused('rate_limited')
+    const buckets = signInBuckets(email, address)
+    const limit = await takeTokens(db, buckets)
+    if (!limit.allowed) {
+      if (limit.refused.includes(bucketKey.signInAccount(email))) await noticePaused(email)
+      throw new SignInRefused('rate_limited')
+    }
     const user = await findUserByEmail(db, email)
     const matches = user?.passwordHash ? await verify(user.passwordHash, password) : (await verify(await decoy(), password), false)
     if (!user || !matches) throw new SignInRefused('invalid')
@@ -50,7 +60,7 @@ export function authOptions(event: H3Event): AuthConfig {
       sendMailLater(event, { to: user.email, ...emails.verify(user.name, `${siteOrigin(event)}/sign-in/link?token=${token}`) })
     }
     if (refusal) throw new SignInRefused(refusal)
-    return { id: String(user.id), name: user.name, email: user.email, role: user.role, units: user.unitPreference }
+    return { id: String(user.id), name: user.name, email: user.email, role: user.role, units: user.unitPreference, sessionVersion: user.sessionVersion }
   }
 
   async function authorizeLink(raw: Partial<Record<string, unknown>>) {
@@ -63,7 +73,7 @@ export function authOptions(event: H3Event): AuthConfig {
     await giveBackTokens(db, buckets)
     const { user } = outcome
     if (outcome.previousEmail) sendMailLater(event, { to: outcome.previousEmail, ...emails.emailChanged(user.name, user.email) })
-    return { id: String(user.id), name: user.name, email: user.email, role: user.role, units: user.unitPreference }
+    return { id: String(user.id), name: user.name, email: user.email, role: user.role, units: user.unitPreference, sessionVersion: user.sessionVersion }
   }
 
   return {
@@ -85,12 +95,12 @@ export function authOptions(event: H3Event): AuthConfig {
     callbacks: {
       async jwt({ token, user, account }) {
         if (user) {
-          const u = user as { id: string, role: Role, units: UnitSystem }
-          return { ...token, sub: u.id, role: u.role, units: u.units, method: account?.provider, authAt: Date.now() }
+          const u = user as { id: string, role: Role, units: UnitSystem, sessionVersion: number }
+          return { ...token, sub: u.id, role: u.role, units: u.units, method: account?.provider, authAt: Date.now(), sv: u.sessionVersion }
         }
-        // Every read of the session re-checks the account: a suspended or deleted one loses its session here.
+        // Every read of the session re-checks the account: a suspended, deleted or signed-out-everywhere one loses its session here.
         const row = await loadAccount(Number(token.sub))
-        if (!row || row.suspendedAt) return null
+        if (!row || row.suspendedAt || !sessionCurrent(row, token.sv)) return null
         return { ...token, name: row.name, email: row.email, role: row.role, units: row.unitPreference }
       },
       session({ session, token }) {

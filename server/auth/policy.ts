@@ -14,14 +14,29 @@ export interface AccountRow {
   unitPreference: UnitSystem
   emailVerifiedAt: Date | null
   suspendedAt: Date | null
+  sessionVersion: number
 }
+
+/** How long a session cookie lives (Auth.js rolls it forward while it is used). */
+export const SESSION_MAX_AGE_S = 14 * 24 * 3600
 
 export const ROLE_LABELS: Record<Role, string> = { racer: 'racers', builder: 'shops', admin: 'admins' }
 
-/** The user a session stands for: 401 when the session names no account or a suspended one. */
-export function activeUser(row: AccountRow | undefined | null): SessionUser {
+/** The session version a token carries; a token from before versions existed counts as version 0. */
+export function tokenSessionVersion(claim: unknown): number {
+  return typeof claim === 'number' && Number.isSafeInteger(claim) && claim >= 0 ? claim : 0
+}
+
+/** Whether a token issued at `claim` is still current for the account (a password change or a sign-out everywhere raises the account's version). */
+export function sessionCurrent(row: Pick<AccountRow, 'sessionVersion'>, claim: unknown): boolean {
+  return tokenSessionVersion(claim) === row.sessionVersion
+}
+
+/** The user a session stands for: 401 when the session names no account, a suspended one, or was revoked since it was issued. */
+export function activeUser(row: AccountRow | undefined | null, sessionVersion: unknown): SessionUser {
   if (!row) throw createError({ status: 401, message: 'Sign in to continue.' })
   if (row.suspendedAt) throw createError({ status: 401, message: 'This account is suspended, so its sessions no longer work.' })
+  if (!sessionCurrent(row, sessionVersion)) throw createError({ status: 401, message: 'This session was signed out (a password change or a sign-out elsewhere). Sign in again.' })
   return { id: row.id, name: row.name, email: row.email, role: row.role, units: row.unitPreference }
 }
 

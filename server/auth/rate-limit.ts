@@ -20,10 +20,17 @@ export interface BucketState {
 
 /** The limits in force. Values are our own choice, in line with common practice for sign-in throttling. */
 export const POLICIES = {
-  /** Wrong passwords for one e-mail address: 5 in a row, then one more every 3 minutes. */
-  signInAccount: { capacity: 5, refillMs: 3 * 60_000 },
+  /** Wrong passwords for one e-mail address from one client address: 5 in a row, then one more every 3 minutes. */
+  signInPair: { capacity: 5, refillMs: 3 * 60_000 },
   /** Wrong passwords from one client address, whatever the e-mail: 20, then one every 30 s. */
   signInAddress: { capacity: 20, refillMs: 30_000 },
+  /**
+   * Wrong passwords for one e-mail address from anywhere: 50 an hour. Only an attacker spread over
+   * many addresses reaches it; it then pauses password sign-in for the account (links still work).
+   */
+  signInAccount: { capacity: 50, refillMs: 72_000 },
+  /** The notice that password sign-in is paused: one an hour per account at most. */
+  signInPausedNotice: { capacity: 1, refillMs: 3_600_000 },
   /** E-mailed links asked for one address: 3, then one every 5 minutes. */
   linkAccount: { capacity: 3, refillMs: 5 * 60_000 },
   /** E-mailed links and sign-ups asked from one client address: 10, then one a minute. */
@@ -59,9 +66,10 @@ const { rateLimitBuckets } = schema
 
 /**
  * Takes one token from every bucket, all or nothing, in one transaction with the rows locked
- * (keys in a fixed order, so two requests cannot deadlock). A refusal changes no bucket.
+ * (keys in a fixed order, so two requests cannot deadlock). A refusal changes no bucket and names
+ * the buckets that were empty.
  */
-export async function takeTokens(db: Db, requests: BucketRequest[], now = Date.now()): Promise<{ allowed: boolean, retryAfterMs: number }> {
+export async function takeTokens(db: Db, requests: BucketRequest[], now = Date.now()): Promise<{ allowed: boolean, retryAfterMs: number, refused: string[] }> {
   const sorted = [...requests].sort((a, b) => a.key.localeCompare(b.key))
   const keys = sorted.map(r => r.key)
   return db.transaction(async (tx) => {
@@ -72,11 +80,11 @@ export async function takeTokens(db: Db, requests: BucketRequest[], now = Date.n
     const byKey = new Map(rows.map(r => [r.key, { tokens: r.tokens, updatedAt: r.updatedAt.getTime() }]))
     const results = sorted.map(r => ({ r, result: take(byKey.get(r.key), r.policy, now) }))
     const refused = results.filter(x => !x.result.allowed)
-    if (refused.length) return { allowed: false, retryAfterMs: Math.max(...refused.map(x => x.result.retryAfterMs)) }
+    if (refused.length) return { allowed: false, retryAfterMs: Math.max(...refused.map(x => x.result.retryAfterMs)), refused: refused.map(x => x.r.key) }
     for (const { r, result } of results) {
       await tx.update(rateLimitBuckets).set({ tokens: result.next.tokens, updatedAt: new Date(now) }).where(eq(rateLimitBuckets.key, r.key))
     }
-    return { allowed: true, retryAfterMs: 0 }
+    return { allowed: true, retryAfterMs: 0, refused: [] }
   })
 }
 
@@ -100,10 +108,25 @@ export async function pruneBuckets(db: Db, now = Date.now()): Promise<void> {
   await db.delete(rateLimitBuckets).where(lt(rateLimitBuckets.updatedAt, new Date(now - 86_400_000)))
 }
 
-/** Bucket keys: one per e-mail address and one per client address, for each kind of attempt. */
+/** Bucket keys: per e-mail address, per client address, and per pair of the two, for each kind of attempt. */
 export const bucketKey = {
+  signInPair: (email: string, address: string) => `sign-in:pair:${email.toLowerCase()}|${address}`,
   signInAccount: (email: string) => `sign-in:account:${email.toLowerCase()}`,
   signInAddress: (address: string) => `sign-in:address:${address}`,
+  signInPausedNotice: (email: string) => `notice:sign-in-paused:${email.toLowerCase()}`,
   linkAccount: (email: string) => `link:account:${email.toLowerCase()}`,
   linkAddress: (address: string) => `link:address:${address}`,
+}
+
+/**
+ * The three buckets a password attempt takes from. Wrong guesses from one address exhaust that
+ * address's pair first, so they never stop the owner's right password from another address; only
+ * guesses spread over many addresses reach the slower per-account bucket.
+ */
+export function signInBuckets(email: string, address: string): BucketRequest[] {
+  return [
+    { key: bucketKey.signInPair(email, address), policy: POLICIES.signInPair },
+    { key: bucketKey.signInAddress(address), policy: POLICIES.signInAddress },
+    { key: bucketKey.signInAccount(email), policy: POLICIES.signInAccount },
+  ]
 }

@@ -38,6 +38,8 @@ export const users = mysqlTable('users', {
   unitPreference: mysqlEnum('unit_preference', ['imperial', 'metric']).notNull().default('imperial'),
   emailVerifiedAt: datetime('email_verified_at', { mode: 'date', fsp: 3 }),
   suspendedAt: datetime('suspended_at', { mode: 'date', fsp: 3 }),
+  // Carried in every session cookie; raising it ends every session issued before (server/utils/auth.ts).
+  sessionVersion: int('session_version', { unsigned: true }).notNull().default(0),
   createdAt: createdAt(),
   updatedAt: updatedAt(),
 }, t => [uniqueIndex('users_email_unique').on(t.email)])

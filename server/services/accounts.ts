@@ -1,5 +1,5 @@
 import { createHash, randomBytes } from 'node:crypto'
-import { and, asc, count, eq, gt, isNull, like, lt, ne, or, type SQL } from 'drizzle-orm'
+import { and, asc, count, eq, gt, isNull, like, lt, ne, or, sql, type SQL } from 'drizzle-orm'
 import { createError } from 'h3'
 import type { Role, SignUpInput, UnitSystem } from '../../shared/schemas/auth'
 import { firstFreeSlug, slugify } from '../../shared/text/slug'
@@ -154,8 +154,29 @@ export async function updateProfile(db: Database, userId: number, patch: { name?
   await db.update(users).set(patch).where(eq(users.id, userId))
 }
 
-export async function setPasswordHash(db: Database, userId: number, passwordHash: string): Promise<void> {
-  await db.update(users).set({ passwordHash }).where(eq(users.id, userId))
+/** The next session version of a row about to be written: every session cookie issued before stops working. */
+const nextSessionVersion = sql`${users.sessionVersion} + 1`
+
+async function sessionVersionOf(db: Pick<Database, 'select'>, userId: number): Promise<number> {
+  const [row] = await db.select({ v: users.sessionVersion }).from(users).where(eq(users.id, userId)).limit(1)
+  if (!row) throw createError({ status: 401, message: 'Sign in to continue.' })
+  return row.v
+}
+
+/** Sets a new password and ends every session of the account; returns the new session version (for the caller's fresh cookie). */
+export async function setPasswordHash(db: Database, userId: number, passwordHash: string): Promise<number> {
+  return db.transaction(async (tx) => {
+    await tx.update(users).set({ passwordHash, sessionVersion: nextSessionVersion }).where(eq(users.id, userId))
+    return sessionVersionOf(tx, userId)
+  })
+}
+
+/** Ends every session of the account (sign out everywhere, or all but the caller's once it is renewed); returns the new session version. */
+export async function revokeSessions(db: Database, userId: number): Promise<number> {
+  return db.transaction(async (tx) => {
+    await tx.update(users).set({ sessionVersion: nextSessionVersion }).where(eq(users.id, userId))
+    return sessionVersionOf(tx, userId)
+  })
 }
 
 function toAdminRow({ user, shop }: { user: User, shop: { slug: string | null, shopName: string | null } | null }): AdminUserRow {
@@ -199,7 +220,7 @@ export async function getAdminUserRow(db: Database, id: number): Promise<AdminUs
   return row ? toAdminRow(row) : null
 }
 
-/** Suspends or restores an account, with an audit row. An admin cannot suspend their own account. */
+/** Suspends or restores an account, with an audit row, ending its sessions either way. An admin cannot suspend their own account. */
 export async function setSuspended(db: Database, actorId: number, userId: number, suspended: boolean): Promise<void> {
   if (actorId === userId && suspended) throw createError({ status: 409, message: 'You cannot suspend your own account; ask another admin.' })
   await db.transaction(async (tx) => {
@@ -207,7 +228,8 @@ export async function setSuspended(db: Database, actorId: number, userId: number
     if (!user) throw createError({ status: 404, message: 'No account has that id.' })
     if ((user.suspendedAt !== null) === suspended) return
     const suspendedAt = suspended ? new Date() : null
-    await tx.update(users).set({ suspendedAt }).where(eq(users.id, userId))
+    // Both ways end every session: one from before a suspension must not come back with the restore.
+    await tx.update(users).set({ suspendedAt, sessionVersion: nextSessionVersion }).where(eq(users.id, userId))
     await writeAudit(tx, {
       actorId,
       action: suspended ? 'account.suspend' : 'account.restore',

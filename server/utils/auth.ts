@@ -1,11 +1,11 @@
-import { getToken, type JWT } from '@auth/core/jwt'
+import { encode, getToken, type JWT } from '@auth/core/jwt'
 import { verify } from '@node-rs/argon2'
 import { eq } from 'drizzle-orm'
 import type { H3Event } from 'h3'
 import type { Role } from '#shared/schemas/auth'
 import type { SessionUser } from '#shared/types/auth'
-import { activeUser, assertOwner, assertRole, currentPasswordNeeded, type AccountRow } from '../auth/policy'
-import { bucketKey, giveBackTokens, POLICIES, takeTokens } from '../auth/rate-limit'
+import { activeUser, assertOwner, assertRole, currentPasswordNeeded, SESSION_MAX_AGE_S, type AccountRow } from '../auth/policy'
+import { giveBackTokens, signInBuckets, takeTokens } from '../auth/rate-limit'
 import { builderProfiles, users, type BuilderProfile } from '../database/schema'
 
 /** The full address of the sign-in routes (AUTH_ORIGIN), which also says whether cookies are https-only. */
@@ -26,29 +26,58 @@ export function authSecret(): string {
   return secret
 }
 
+/** The session cookie's name, as Auth.js picks it (https-only cookies get the __Secure- prefix). */
+function sessionCookie(event: H3Event): { name: string, secure: boolean } {
+  const secure = authOrigin(event).protocol === 'https:'
+  return { name: `${secure ? '__Secure-' : ''}authjs.session-token`, secure }
+}
+
 /** The decoded session token of the request, or null (no cookie, tampered, or expired). */
 export async function readSession(event: H3Event): Promise<JWT | null> {
   if (event.context.authToken !== undefined) return event.context.authToken as JWT | null
-  const token = await getToken({ req: { headers: event.headers }, secret: authSecret(), secureCookie: authOrigin(event).protocol === 'https:' })
+  const token = await getToken({ req: { headers: event.headers }, secret: authSecret(), secureCookie: sessionCookie(event).secure })
   event.context.authToken = token
   return token
+}
+
+/**
+ * Gives the caller a fresh session cookie carrying the account's new session version, so their
+ * own session outlives a revocation of all the others. Encoded as Auth.js encodes it (same salt,
+ * lifetime and cookie attributes), so Auth.js reads and rolls it as its own.
+ */
+export async function renewSession(event: H3Event, sessionVersion: number): Promise<void> {
+  const current = await readSession(event)
+  if (!current) return
+  const { exp: _exp, iat: _iat, jti: _jti, ...claims } = current
+  const token: JWT = { ...claims, sv: sessionVersion }
+  const { name, secure } = sessionCookie(event)
+  const value = await encode({ token, secret: authSecret(), salt: name, maxAge: SESSION_MAX_AGE_S })
+  setCookie(event, name, value, { httpOnly: true, sameSite: 'lax', path: '/', secure, maxAge: SESSION_MAX_AGE_S })
+  event.context.authToken = token
+}
+
+/** Removes the caller's session cookie (after a sign-out everywhere). */
+export function endSession(event: H3Event): void {
+  const { name, secure } = sessionCookie(event)
+  deleteCookie(event, name, { httpOnly: true, sameSite: 'lax', path: '/', secure })
+  event.context.authToken = null
 }
 
 /** The columns a guard needs, read fresh on every request so that a suspension or a role change takes effect at once. */
 export async function loadAccount(id: number): Promise<AccountRow | undefined> {
   const [row] = await useDb().select({
     id: users.id, name: users.name, email: users.email, role: users.role, unitPreference: users.unitPreference,
-    emailVerifiedAt: users.emailVerifiedAt, suspendedAt: users.suspendedAt,
+    emailVerifiedAt: users.emailVerifiedAt, suspendedAt: users.suspendedAt, sessionVersion: users.sessionVersion,
   }).from(users).where(eq(users.id, id)).limit(1)
   return row
 }
 
-/** The signed-in user: 401 when anonymous, when the session is stale, or when the account is suspended. */
+/** The signed-in user: 401 when anonymous, when the session is stale or revoked, or when the account is suspended. */
 export async function requireUser(event: H3Event): Promise<SessionUser> {
   if (event.context.user) return event.context.user as SessionUser
   const token = await readSession(event)
   const id = Number(token?.sub)
-  const user = activeUser(Number.isSafeInteger(id) && id > 0 ? await loadAccount(id) : undefined)
+  const user = activeUser(Number.isSafeInteger(id) && id > 0 ? await loadAccount(id) : undefined, token?.sv)
   event.context.user = user
   return user
 }
@@ -90,7 +119,7 @@ export function clientAddress(event: H3Event): string {
 /**
  * Asks for the current password before a password or e-mail change, unless the account has none
  * or the session began with an e-mailed link minutes ago. Wrong guesses count against the same
- * per-account limit as sign-in.
+ * limits as sign-in.
  */
 export async function confirmCurrentPassword(event: H3Event, user: SessionUser, currentPassword: string | undefined): Promise<void> {
   const db = useDb()
@@ -98,7 +127,7 @@ export async function confirmCurrentPassword(event: H3Event, user: SessionUser, 
   const session = await readSession(event)
   if (!row?.passwordHash || !currentPasswordNeeded(true, { method: session?.method, authAt: session?.authAt })) return
   if (!currentPassword) throw fieldError('currentPassword', 'Enter your current password.')
-  const buckets = [{ key: bucketKey.signInAccount(user.email), policy: POLICIES.signInAccount }]
+  const buckets = signInBuckets(user.email, clientAddress(event))
   if (!(await takeTokens(db, buckets)).allowed) throw createError({ status: 429, message: 'Too many wrong passwords: wait a few minutes, or sign in with an e-mailed link.' })
   if (!(await verify(row.passwordHash, currentPassword))) throw fieldError('currentPassword', 'That is not your current password.')
   await giveBackTokens(db, buckets)

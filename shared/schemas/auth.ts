@@ -76,6 +76,13 @@ export const passwordChangeSchema = z.object({
   newPassword: passwordSchema,
 })
 
+/** Which sessions to end: every other one (the caller's stays), or all of them, the caller's too. */
+export const SIGN_OUT_SCOPES = ['others', 'everywhere'] as const
+export const signOutSchema = z.object({
+  scope: z.enum(SIGN_OUT_SCOPES, { error: 'scope is others or everywhere' }),
+}).strict()
+export type SignOutInput = z.infer<typeof signOutSchema>
+
 export const emailChangeSchema = z.object({
   email: emailSchema,
   currentPassword: z.string().max(PASSWORD_MAX, 'That password is too long').optional(),

@@ -5,6 +5,7 @@ declare module '@auth/core/types' {
   interface User {
     role?: Role
     units?: UnitSystem
+    sessionVersion?: number
   }
 }
 
@@ -16,5 +17,7 @@ declare module '@auth/core/jwt' {
     method?: string
     /** When the session began (ms since the epoch). */
     authAt?: number
+    /** The account's session version when the cookie was issued; a raised version revokes it. */
+    sv?: number
   }
 }

@@ -1,9 +1,10 @@
 import { eq } from 'drizzle-orm'
 import type { Page } from 'playwright-core'
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest'
-import { DEMO_PASSWORD, PERSONAS, uniqueEmail, waitForMail } from '../support/auth'
+import type { CookieJar } from '../support/auth'
+import { DEMO_PASSWORD, json, makeAccount, PERSONAS, signIn, uniqueEmail, waitForMail } from '../support/auth'
 import { openBrowser } from '../support/browser'
-import { baseUrl, schema, testDb } from '../support/context'
+import { api, baseUrl, schema, testDb } from '../support/context'
 
 let browser: Awaited<ReturnType<typeof openBrowser>>
 let page: Page
@@ -176,5 +177,54 @@ describe('suspension and units, in Chromium', () => {
       await close()
       return row!.unitPreference
     }).toBe('imperial')
+  })
+})
+
+describe('sessions on the account page, in Chromium', () => {
+  const meStatus = async (jar: CookieJar) => (await api('/api/me', { headers: { cookie: jar.header() } })).status
+
+  /** A fresh account signed in twice: once through the API (another device) and once in this browser, on the account page. */
+  async function twoSessions(name: string) {
+    const account = await makeAccount({ role: 'racer', name })
+    const other = await signIn('password', { email: account.email, password: account.password })
+    expect(other.code).toBeNull()
+    await signInWithForm(account.email, account.password)
+    await page.waitForURL(`${baseUrl()}/`)
+    await page.goto(`${baseUrl()}/account`, { waitUntil: 'networkidle' })
+    expect(await page.locator('[data-test="account-name"]').innerText()).toBe(name)
+    return { account, otherJar: other.jar }
+  }
+
+  it('"Sign out other sessions" ends the other device\'s session and keeps this one signed in', async () => {
+    const { otherJar } = await twoSessions('Tamsin Ardley')
+    expect(await meStatus(otherJar)).toBe(200)
+    await page.click('[data-test="sign-out-others"]')
+    await expect.poll(() => page.locator('[data-test="account-sessions"]').innerText()).toContain('this one stays signed in')
+    expect(await meStatus(otherJar)).toBe(401)
+    await page.reload({ waitUntil: 'networkidle' })
+    expect(await page.locator('[data-test="account-name"]').innerText()).toBe('Tamsin Ardley')
+    expect(await nav().getAttribute('data-role')).toBe('racer')
+  })
+
+  it('"Sign out everywhere" ends both sessions and lands on the sign-in page', async () => {
+    const { otherJar } = await twoSessions('Corin Maddox')
+    await page.click('[data-test="sign-out-everywhere"]')
+    await page.waitForURL(/\/sign-in\?signedOut=1$/)
+    await expect.poll(() => nav().getAttribute('data-role')).toBe('anonymous')
+    expect(await meStatus(otherJar)).toBe(401)
+  })
+
+  it('a page open in a session revoked elsewhere shows the signed-out state', async () => {
+    const { otherJar } = await twoSessions('Ilse Varga')
+    await page.goto(`${baseUrl()}/`, { waitUntil: 'networkidle' })
+    expect((await api('/api/account/sign-out', json('POST', { scope: 'others' }, otherJar, '127.0.0.1'))).status).toBe(200)
+    // Moving within the open page: the client still believes it is signed in until the server answers 401.
+    await page.click('[data-test="nav-account"]')
+    await expect.poll(() => page.locator('[data-test="account-signed-out"]').count()).toBe(1)
+    expect(await page.locator('[data-test="account-signed-out"]').innerText()).toContain('signed out')
+    await expect.poll(() => nav().getAttribute('data-role')).toBe('anonymous')
+    // A fresh load goes to sign-in.
+    await page.goto(`${baseUrl()}/account`, { waitUntil: 'networkidle' })
+    expect(page.url()).toContain('/sign-in?next=')
   })
 })

@@ -1,6 +1,7 @@
 import { and, eq } from 'drizzle-orm'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { freshAddress, issuePaths, json, linkToken, makeAccount, session, signIn, uniqueEmail, waitForMail, type CookieJar } from '../support/auth'
+import type { CookieJar } from '../support/auth'
+import { freshAddress, issuePaths, json, linkToken, makeAccount, session, signIn, uniqueEmail, waitForMail } from '../support/auth'
 import { api, schema, testDb } from '../support/context'
 
 let ctx: Awaited<ReturnType<typeof testDb>>
@@ -79,6 +80,100 @@ describe('POST /api/me/password', () => {
     const res = await send('POST', '/api/me/password', { newPassword: 'remembered at last' }, jar)
     expect(res.status).toBe(200)
     expect((await signIn('password', { email: account.email, password: 'remembered at last' })).code).toBeNull()
+  })
+})
+
+const meStatus = async (jar: CookieJar) => (await api('/api/me', { headers: { cookie: jar.header() } })).status
+const signOutSessions = (scope: unknown, jar: CookieJar) => send('POST', '/api/account/sign-out', { scope }, jar)
+/** A second sign-in of the same account, as from another device. */
+async function secondDevice(email: string, password: string) {
+  const { code, jar } = await signIn('password', { email, password })
+  expect(code).toBeNull()
+  return jar
+}
+
+describe('revoking sessions', () => {
+  it('a password change ends every earlier cookie on the next request; the caller carries on with a fresh cookie and a new sign-in works', async () => {
+    const me = await signedInAccount()
+    const laptop = await secondDevice(me.email, me.password)
+    const stolenCopy = me.jar.header()
+    expect(await meStatus(laptop)).toBe(200)
+
+    const res = await send('POST', '/api/me/password', { currentPassword: me.password, newPassword: 'a brand new passphrase' }, me.jar)
+    expect(res.status).toBe(200)
+    expect(res.headers.getSetCookie()).toHaveLength(1)
+    me.jar.take(res.headers)
+
+    const refused = await api('/api/me', { headers: { cookie: laptop.header() } })
+    expect(refused.status).toBe(401)
+    expect(refused.body.message).toContain('signed out')
+    expect(await session(laptop)).toBeNull()
+    // The caller's cookie from before the change is revoked too; the one the change answered with is not.
+    expect((await api('/api/me', { headers: { cookie: stolenCopy } })).status).toBe(401)
+    expect(await meStatus(me.jar)).toBe(200)
+    expect((await session(me.jar))?.user.email).toBe(me.email)
+
+    const fresh = await secondDevice(me.email, 'a brand new passphrase')
+    expect(await meStatus(fresh)).toBe(200)
+    expect((await userRow(me.id)).sessionVersion).toBe(1)
+  })
+
+  it('"sign out other sessions" ends the other cookie and keeps the caller\'s; "sign out everywhere" then ends both', async () => {
+    const me = await signedInAccount()
+    const phone = await secondDevice(me.email, me.password)
+
+    const others = await signOutSessions('others', me.jar)
+    expect(others.status).toBe(200)
+    expect(others.body.scope).toBe('others')
+    expect(others.headers.getSetCookie()).toHaveLength(1)
+    me.jar.take(others.headers)
+    expect(await meStatus(phone)).toBe(401)
+    expect(await meStatus(me.jar)).toBe(200)
+    // Auth.js reads the renewed cookie as its own: the pages' session answers and rolls it on.
+    expect((await session(me.jar))?.user.id).toBe(me.id)
+
+    const tablet = await secondDevice(me.email, me.password)
+    expect(await meStatus(tablet)).toBe(200)
+    const keptHeader = me.jar.header()
+    const everywhere = await signOutSessions('everywhere', me.jar)
+    expect(everywhere.status).toBe(200)
+    me.jar.take(everywhere.headers)
+    expect(me.jar.has('authjs.session-token')).toBe(false)
+    expect(await meStatus(tablet)).toBe(401)
+    expect((await api('/api/me', { headers: { cookie: keptHeader } })).status).toBe(401)
+    expect(await session(tablet)).toBeNull()
+    expect((await userRow(me.id)).sessionVersion).toBe(2)
+    // Signing in again afterwards works as before.
+    expect(await meStatus(await secondDevice(me.email, me.password))).toBe(200)
+  })
+
+  it('a plain sign-out ends only that cookie', async () => {
+    const me = await signedInAccount()
+    const phone = await secondDevice(me.email, me.password)
+    const csrf = await api('/api/auth/csrf', { headers: { cookie: phone.header() } })
+    phone.take(csrf.headers)
+    const out = await api('/api/auth/signout', {
+      method: 'POST',
+      headers: { 'cookie': phone.header(), 'content-type': 'application/x-www-form-urlencoded' },
+      body: new URLSearchParams({ csrfToken: csrf.body.csrfToken, json: 'true' }).toString(),
+    })
+    phone.take(out.headers)
+    expect(await meStatus(phone)).toBe(401)
+    expect(await meStatus(me.jar)).toBe(200)
+    expect((await userRow(me.id)).sessionVersion).toBe(0)
+  })
+
+  it('refuses a stranger with 401 and a missing or unknown scope with 400, revoking nothing', async () => {
+    const me = await signedInAccount()
+    expect((await api('/api/account/sign-out', json('POST', { scope: 'others' }, null, freshAddress()))).status).toBe(401)
+    for (const body of [{}, { scope: 'all-but-one' }, { scope: 'others', extra: 1 }]) {
+      const res = await send('POST', '/api/account/sign-out', body, me.jar)
+      expect(res.status).toBe(400)
+    }
+    const noBody = await api('/api/account/sign-out', { method: 'POST', headers: { 'cookie': me.jar.header(), 'x-forwarded-for': freshAddress() } })
+    expect(noBody.status).toBe(400)
+    expect((await userRow(me.id)).sessionVersion).toBe(0)
+    expect(await meStatus(me.jar)).toBe(200)
   })
 })
 

@@ -50,6 +50,23 @@ describe('suspending an account', () => {
     expect((await audits(account.id))[0]!.action).toBe('account.restore')
   })
 
+  it('keeps a cookie from before a suspension refused after the restore; a sign-in after the restore works', async () => {
+    const account = await makeAccount({ role: 'racer' })
+    const { jar: before } = await signIn('password', { email: account.email, password: account.password })
+    expect((await api('/api/me', { headers: { cookie: before.header() } })).status).toBe(200)
+
+    expect((await patchUser(account.id, { suspended: true })).status).toBe(200)
+    expect((await patchUser(account.id, { suspended: false })).body.suspended).toBe(false)
+
+    const stale = await api('/api/me', { headers: { cookie: before.header() } })
+    expect(stale.status).toBe(401)
+    expect(stale.body.message).toContain('signed out')
+    expect(await session(before)).toBeNull()
+    const { code, jar: after } = await signIn('password', { email: account.email, password: account.password })
+    expect(code).toBeNull()
+    expect((await api('/api/me', { headers: { cookie: after.header() } })).status).toBe(200)
+  })
+
   it('does not let an admin suspend their own account', async () => {
     const me = await session(admin)
     const res = await patchUser(me!.user.id, { suspended: true })

@@ -41,16 +41,55 @@ describe('password sign-in through Auth.js', () => {
     expect(await session(wrong.jar)).toBeNull()
   })
 
-  it('stops an account after 5 wrong passwords, even with the right one next, while other accounts still sign in', async () => {
+  it('five wrong passwords from one address do not stop the owner\'s right password from another address; that address is refused for that account only', async () => {
     const account = await makeAccount({ role: 'racer' })
+    const attacker = freshAddress()
     const codes: (string | null)[] = []
-    // A new client address for every attempt: only the per-account limit is in play.
-    for (let i = 0; i < 5; i++) codes.push((await signIn('password', { email: account.email, password: `wrong ${i}` })).code)
+    for (let i = 0; i < 5; i++) codes.push((await signIn('password', { email: account.email, password: `wrong ${i}` }, attacker)).code)
     expect(codes).toEqual(Array(5).fill('invalid'))
-    expect((await signIn('password', { email: account.email, password: account.password })).code).toBe('rate_limited')
-    expect((await signIn('password', { email: account.email.toUpperCase(), password: account.password })).code).toBe('rate_limited')
+    // The pair (this account, this address) is empty: even the right password is refused from here.
+    expect((await signIn('password', { email: account.email, password: account.password }, attacker)).code).toBe('rate_limited')
+    expect((await signIn('password', { email: account.email.toUpperCase(), password: account.password }, attacker)).code).toBe('rate_limited')
+    // The owner, from anywhere else, signs in.
+    const owner = await signIn('password', { email: account.email, password: account.password }, freshAddress())
+    expect(owner.code).toBeNull()
+    expect((await session(owner.jar))?.user.email).toBe(account.email)
+    // The address itself is not stopped for other accounts (its own limit is 20).
     const other = await makeAccount({ role: 'racer' })
-    expect((await signIn('password', { email: other.email, password: other.password })).code).toBeNull()
+    expect((await signIn('password', { email: other.email, password: other.password }, attacker)).code).toBeNull()
+  })
+
+  it('50 wrong passwords spread over 50 addresses pause password sign-in for the account and mail the owner one notice; an e-mailed link still works', async () => {
+    const account = await makeAccount({ role: 'racer', name: 'Wren Halloway' })
+    for (let i = 0; i < 50; i++) expect((await signIn('password', { email: account.email, password: `spread guess ${i}` })).code).toBe('invalid')
+    expect((await signIn('password', { email: account.email, password: account.password })).code).toBe('rate_limited')
+    expect((await signIn('password', { email: account.email, password: 'one more guess' })).code).toBe('rate_limited')
+
+    const notice = await waitForMail(account.email, m => m.subject.includes('paused'))
+    expect(notice.text).toContain('Hello Wren Halloway')
+    expect(notice.text).toContain('e-mailed sign-in link still works')
+    expect(notice.text).toContain(`${baseUrl()}/sign-in`)
+    // Another refusal after the notice sends none (one an hour at most).
+    expect((await signIn('password', { email: account.email, password: account.password })).code).toBe('rate_limited')
+
+    expect((await askLink(account.email)).status).toBe(202)
+    const link = await waitForMail(account.email, m => m.subject.includes('sign-in link'))
+    const viaLink = await signIn('link', { token: linkToken(link) })
+    expect(viaLink.code).toBeNull()
+    expect((await session(viaLink.jar))?.user.email).toBe(account.email)
+    // The link mail went out after every refusal above; still exactly one notice.
+    expect((await mailFor(account.email)).filter(m => m.subject.includes('paused'))).toHaveLength(1)
+  })
+
+  it('answers an exhausted unknown e-mail exactly as a registered one, and mails nobody', async () => {
+    const unknown = `nobody-${freshAddress()}@example.test`
+    await ctx.db.insert(schema.rateLimitBuckets).values({ key: `sign-in:account:${unknown}`, tokens: 0, updatedAt: new Date() })
+    expect((await signIn('password', { email: unknown, password: 'a guess' })).code).toBe('rate_limited')
+    const known = await makeAccount({ role: 'racer' })
+    await ctx.db.insert(schema.rateLimitBuckets).values({ key: `sign-in:account:${known.email}`, tokens: 0, updatedAt: new Date() })
+    expect((await signIn('password', { email: known.email, password: known.password })).code).toBe('rate_limited')
+    await waitForMail(known.email, m => m.subject.includes('paused'))
+    expect(await mailFor(unknown)).toEqual([])
   })
 
   it('counts only failures: successful sign-ins give their attempt back', async () => {
@@ -66,13 +105,14 @@ describe('password sign-in through Auth.js', () => {
     expect((await signIn('password', { email: account.email, password: account.password }, freshAddress())).code).toBeNull()
   })
 
-  it('keeps the buckets in MariaDB, keyed by account and by address', async () => {
+  it('keeps the buckets in MariaDB, keyed by account, by address and by the pair', async () => {
     const address = freshAddress()
     await signIn('password', { email: 'bucket-check@example.test', password: 'guess' }, address)
     const rows = await ctx.db.select().from(schema.rateLimitBuckets)
     const keys = rows.map(r => r.key)
     expect(keys).toContain('sign-in:account:bucket-check@example.test')
     expect(keys).toContain(`sign-in:address:${address}`)
+    expect(rows.find(r => r.key === `sign-in:pair:bucket-check@example.test|${address}`)!.tokens).toBeCloseTo(4, 2)
     expect(rows.find(r => r.key === `sign-in:address:${address}`)!.tokens).toBeCloseTo(19, 2)
   })
 

@@ -10,6 +10,7 @@ export default defineEventHandler(async (event) => {
   const user = await requireUser(event)
   const { currentPassword, newPassword } = await readValidatedBody(event, validator(passwordChangeSchema))
   await confirmCurrentPassword(event, user, currentPassword)
-  await setPasswordHash(useDb(), user.id, await hash(newPassword))
-  return { message: 'Your password is changed.' }
+  // A new password ends every other session; the caller's own continues on a fresh cookie.
+  await renewSession(event, await setPasswordHash(useDb(), user.id, await hash(newPassword)))
+  return { message: 'Your password is changed. Any other sessions of your account are signed out.' }
 })

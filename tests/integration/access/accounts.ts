@@ -23,6 +23,7 @@ export default defineAccess([
   { method: 'PATCH', path: '/api/me', body: {}, expect: signedIn(400) },
   { method: 'POST', path: '/api/me/password', body: {}, expect: signedIn(400) },
   { method: 'POST', path: '/api/me/email', body: {}, expect: signedIn(400) },
+  { method: 'POST', path: '/api/account/sign-out', body: {}, expect: signedIn(400) },
 
   // A shop's own rows: each builder reads their own; only the owner may change a shop.
   { method: 'GET', path: '/api/me/builds', expect: { anonymous: 401, racer: 403, builder: 200, otherBuilder: 200, admin: 403 } },

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { bucketKey, giveBack, POLICIES, take, tokensAt, type BucketPolicy, type BucketState } from '../../../server/auth/rate-limit'
+import { bucketKey, giveBack, POLICIES, signInBuckets, take, tokensAt, type BucketPolicy, type BucketState } from '../../../server/auth/rate-limit'
 
 const policy: BucketPolicy = { capacity: 5, refillMs: 60_000 }
 
@@ -60,7 +60,7 @@ describe('token bucket arithmetic', () => {
 })
 
 describe('the policies in force', () => {
-  it('allow 5 wrong passwords per account and 20 per client address before refusing', () => {
+  it('allow 5 wrong passwords per account and address pair, 20 per client address and 50 per account before refusing', () => {
     const count = (p: BucketPolicy) => {
       let state: BucketState | undefined
       let n = 0
@@ -70,10 +70,25 @@ describe('the policies in force', () => {
       }
       return n
     }
-    expect(count(POLICIES.signInAccount)).toBe(5)
+    expect(count(POLICIES.signInPair)).toBe(5)
     expect(count(POLICIES.signInAddress)).toBe(20)
+    expect(count(POLICIES.signInAccount)).toBe(50)
+    expect(count(POLICIES.signInPausedNotice)).toBe(1)
     expect(count(POLICIES.linkAccount)).toBe(3)
     expect(count(POLICIES.linkAddress)).toBe(10)
+  })
+
+  it('refills the per-account bucket at 50 an hour, the pair at one per 3 minutes, and the notice once an hour', () => {
+    expect(3_600_000 / POLICIES.signInAccount.refillMs).toBe(50)
+    expect(POLICIES.signInPair.refillMs).toBe(3 * 60_000)
+    expect(POLICIES.signInPausedNotice.refillMs).toBe(3_600_000)
+  })
+
+  it('a password attempt takes from the pair, the address and the account, each keyed apart', () => {
+    const keys = signInBuckets('Ada@Example.test', '10.0.0.1').map(b => b.key)
+    expect(keys).toEqual([bucketKey.signInPair('ada@example.test', '10.0.0.1'), bucketKey.signInAddress('10.0.0.1'), bucketKey.signInAccount('ada@example.test')])
+    expect(new Set(keys).size).toBe(3)
+    expect(bucketKey.signInPair('a@b.test', '10.0.0.1')).not.toBe(bucketKey.signInPair('a@b.test', '10.0.0.2'))
   })
 
   it('keys accounts case-insensitively and keeps kinds apart', () => {

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { adminUserPatchSchema, fieldErrors, linkTokenSchema, passwordSignInSchema, profilePatchSchema, signUpSchema } from '../../../shared/schemas/auth'
+import { adminUserPatchSchema, fieldErrors, linkTokenSchema, passwordSignInSchema, profilePatchSchema, signOutSchema, signUpSchema } from '../../../shared/schemas/auth'
 
 // The same schemas run in the forms and in the routes; these pin what each accepts and says.
 describe('signUpSchema', () => {
@@ -47,6 +47,14 @@ describe('the other request shapes', () => {
     expect(profilePatchSchema.safeParse({}).success).toBe(false)
     expect(profilePatchSchema.safeParse({ unitPreference: 'metric' }).success).toBe(true)
     expect(profilePatchSchema.safeParse({ unitPreference: 'cubits' }).success).toBe(false)
+  })
+
+  it('a sign-out of sessions names its scope, others or everywhere, and nothing else', () => {
+    expect(signOutSchema.safeParse({ scope: 'others' }).success).toBe(true)
+    expect(signOutSchema.safeParse({ scope: 'everywhere' }).success).toBe(true)
+    expect(signOutSchema.safeParse({}).success).toBe(false)
+    expect(signOutSchema.safeParse({ scope: 'all' }).success).toBe(false)
+    expect(signOutSchema.safeParse({ scope: 'others', userId: 1 }).success).toBe(false)
   })
 
   it('an admin makes one change at a time and can only raise to admin', () => {
