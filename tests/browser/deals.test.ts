@@ -100,6 +100,11 @@ describe('a deal in Chromium', () => {
     expect(await r.locator('[data-test="quote-total"]').innerText()).toBe('$18,000.01')
     expect(await r.locator('[data-test="quote-milestone"]').count()).toBe(3)
     await r.click('[data-test="accept-quote"]')
+    // Accepting asks first, with the total and the first deposit that comes next.
+    const acceptDetail = await r.locator('[data-test="confirm-detail"]').innerText()
+    expect(acceptDetail).toContain('$18,000.01')
+    expect(acceptDetail).toContain('$5,400.00')
+    await r.click('[data-test="confirm-yes"]')
     await r.waitForURL(/\/deals\/orders\/\d+$/)
     const orderUrl = r.url()
     await r.click('[data-test="pay-milestone"]')
