@@ -23,7 +23,7 @@ export default defineNitroErrorHandler((error, event) => {
   }
   const status = error.statusCode || 500
   if (status === 503) {
-    setResponseHeader(event, 'retry-after', String(DATABASE_RETRY_AFTER_S))
+    setResponseHeader(event, 'retry-after', DATABASE_RETRY_AFTER_S)
     if (!event.path.startsWith('/api/')) Object.assign(error, { message: PAGE_UNAVAILABLE_MESSAGE, statusMessage: undefined, fatal: false })
   }
   else if (status < 500) {

@@ -11,7 +11,7 @@ export default defineEventHandler(async (event) => {
   }
   catch (err) {
     if (!noteDatabaseOutage(err, 'GET /api/health')) console.error(`[health] the database check failed: ${(err as Error).message}`)
-    setResponseHeader(event, 'retry-after', String(DATABASE_RETRY_AFTER_S))
+    setResponseHeader(event, 'retry-after', DATABASE_RETRY_AFTER_S)
     throw createError({ status: 503, message: 'The database does not answer.' })
   }
 })
