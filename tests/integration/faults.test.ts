@@ -99,7 +99,7 @@ describe('the public CSV of a pull', () => {
       expect(text).not.toMatch(/\r/)
 
       // Read as a spreadsheet would (Papa Parse, RFC 4180): one comment cell, and no cell that begins a formula.
-      const rows = Papa.parse<string[]>(text.trimEnd(), { skipEmptyLines: true }).data
+      const rows = Papa.parse<string[]>(text.trimEnd(), { delimiter: ',', skipEmptyLines: true }).data
       expect(rows[0]).toHaveLength(1)
       expect(rows[0]![0]).toMatch(/^# Baseline /)
       for (const row of rows) for (const cell of row) expect(cell, cell).not.toMatch(/^[=+\-@\t\r]/)
