@@ -1,4 +1,10 @@
 // Nuxt configuration: the root is the source folder (no app/ folder), see DEVELOPERS.md.
+import { createRequire } from 'node:module'
+import { dirname, join } from 'node:path'
+
+// Nuxt's own error handler (it renders error.vue), which Nuxt adds only when no handler is configured.
+const nuxtErrorHandler = join(dirname(createRequire(createRequire(import.meta.url).resolve('nuxt/package.json')).resolve('@nuxt/nitro-server')), 'runtime/handlers/error')
+
 export default defineNuxtConfig({
   modules: ['@pinia/nuxt', '@nuxtjs/tailwindcss', '@sidebase/nuxt-auth', '@nuxt/eslint'],
   devtools: { enabled: false },
@@ -42,6 +48,9 @@ export default defineNuxtConfig({
   nitro: {
     storage: {},
     experimental: { tasks: false },
+    // server/error.ts shapes every error (503 for a database away, real 4xx messages) and answers none itself;
+    // Nuxt's handler then renders the error page, and Nitro's own answers JSON after both.
+    errorHandler: ['~~/server/error', nuxtErrorHandler],
   },
   typescript: {
     strict: true,

@@ -13,7 +13,8 @@ export default defineNitroPlugin((nitroApp) => {
   const c = useRuntimeConfig()
   let draining = false
   let approving = false
-  const log = (what: string, error: unknown) => console.error(`[deals] ${what}:`, error instanceof Error ? error.message : error)
+  // While MariaDB is away the outage is one line now and then, not one per tick.
+  const log = (what: string, error: unknown) => noteDatabaseOutage(error, `[deals] ${what}`) || console.error(`[deals] ${what}:`, error instanceof Error ? error.message : error)
   const outbox = setInterval(async () => {
     if (draining || !c.databaseUrl) return
     draining = true

@@ -34,12 +34,16 @@ export default defineNitroPlugin((nitroApp) => {
   })
   rebuildIndex(db).then(
     r => console.log(`search: index of ${r.documents} published builds built in ${r.ms} ms`),
-    err => console.error('search: the index could not be built from MariaDB; the consistency check will retry', err),
+    (err) => {
+      if (!noteDatabaseOutage(err, 'search: building the index (the consistency check will retry)')) console.error('search: the index could not be built from MariaDB; the consistency check will retry', err)
+    },
   )
   const timer = setInterval(() => {
     checkIndex(db).then((r) => {
       if (r.added + r.updated + r.removed > 0) console.warn(`search: repaired drift (${r.added} added, ${r.updated} updated, ${r.removed} removed)`)
-    }, err => console.error('search: consistency check failed', err))
+    }, (err) => {
+      if (!noteDatabaseOutage(err, 'search: the consistency check')) console.error('search: consistency check failed', err)
+    })
   }, CHECK_EVERY_MS)
   timer.unref()
   nitroApp.hooks.hook('close', () => clearInterval(timer))

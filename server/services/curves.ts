@@ -3,6 +3,7 @@ import { and, asc, eq, inArray } from 'drizzle-orm'
 import { convertCurve, deltaCurve, describeDelta, parsePull, peaks, torqueAt, type CorrectionStandard, type PullPoint } from '#shared/engine'
 import { displayCurve } from '#shared/listings/display-curve'
 import type { BuildCurves, CurveComparison, CurvePull } from '#shared/types/listings'
+import { toCsv } from '#shared/csv'
 import { builds, dynoPulls, files, type DynoPull } from '../database/schema'
 import type { Database } from '../database/types'
 
@@ -101,6 +102,7 @@ export async function publishedBuildId(db: Database, slug: string): Promise<numb
 
 /** A pull's points as CSV under the chosen standard, for download. */
 export function curveCsv(pull: CurvePull): string {
+  // The label is the shop's own text: toCsv keeps it inside the one comment cell, on one line, never a formula.
   const header = `# ${pull.label}; standard ${pull.standard}${pull.uncorrected ? ' (weather unknown: as observed)' : ''}`
-  return [header, 'rpm,power_hp,torque_lbft', ...pull.points.map(p => `${p.rpm},${p.hp.toFixed(1)},${p.lbFt.toFixed(1)}`)].join('\n') + '\n'
+  return toCsv([[header], ['rpm', 'power_hp', 'torque_lbft'], ...pull.points.map(p => [p.rpm, Number(p.hp.toFixed(1)), Number(p.lbFt.toFixed(1))])])
 }

@@ -1,4 +1,5 @@
 import type { H3Event } from 'h3'
+import { attachmentDisposition } from './download'
 import type { UploadStore } from '../services/listing-files'
 
 /** Reads an uploaded file's text from the 'uploads' storage mount. */
@@ -27,9 +28,8 @@ export async function sendStoredDownload(event: H3Event, file: { storageKey: str
   const value = await useStorage('uploads').getItemRaw(file.storageKey)
   if (value === null || value === undefined) throw createError({ status: 404, message: 'The stored file is missing.' })
   const bytes = typeof value === 'string' ? Buffer.from(value, 'utf8') : Buffer.from(value as Uint8Array)
-  const safeName = file.name.replace(/[^\w.-]+/g, '_').slice(0, 120) || 'file'
   setResponseHeader(event, 'content-type', file.mime.startsWith('text/') ? `${file.mime}; charset=utf-8` : file.mime)
-  setResponseHeader(event, 'content-disposition', `attachment; filename="${safeName}"`)
+  setResponseHeader(event, 'content-disposition', attachmentDisposition(file.name))
   setResponseHeader(event, 'x-content-type-options', 'nosniff')
   return bytes
 }

@@ -11,7 +11,7 @@ export default defineEventHandler(async (event) => {
   if (data === null || data === undefined) throw createError({ status: 404, message: 'That file is missing from storage.' })
   setResponseHeaders(event, {
     'content-type': file.mime,
-    'content-disposition': `attachment; filename="${file.originalName.replace(/["\\\r\n]/g, '_')}"`,
+    'content-disposition': attachmentDisposition(file.originalName),
     'x-content-type-options': 'nosniff',
     'cache-control': 'private, no-store',
   })

@@ -17,6 +17,6 @@ export default defineEventHandler(async (event) => {
   const pull = curves.pulls.find(p => p.id === id)
   if (!pull) throw createError({ status: 404, message: 'That build has no such pull.' })
   setResponseHeader(event, 'content-type', 'text/csv; charset=utf-8')
-  setResponseHeader(event, 'content-disposition', `attachment; filename="${slug}-pull-${id}-${pull.standard.toLowerCase()}.csv"`)
+  setResponseHeader(event, 'content-disposition', attachmentDisposition(`${slug}-pull-${id}-${pull.standard.toLowerCase()}.csv`))
   return curveCsv(pull)
 })
