@@ -1,0 +1,20 @@
+/**
+ * The bounds that keep one file or one argument from hurting the process: every curve, grid and
+ * window the module builds is sized from these, so no input can make it loop or allocate without end.
+ */
+
+/**
+ * Highest engine speed a pull point may have, rpm. The fastest-revving piston engines raced run
+ * to about 20,000 rpm; 25,000 leaves room above them and still refuses a mistyped or hostile
+ * figure (our own bound).
+ */
+export const RPM_CEILING = 25_000
+
+/**
+ * Largest power (hp) or torque (lb·ft) a pull point may have: several times the most powerful
+ * piston engines raced (our own bound). Keeps every sum over a pull far from overflow.
+ */
+export const FIGURE_CEILING = 100_000
+
+/** Most points an rpm grid may hold (resample, deltaCurve, rpmGrid): a 0.25 rpm step over the whole ceiling. */
+export const MAX_GRID_POINTS = 100_000
