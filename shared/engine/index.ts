@@ -10,7 +10,7 @@ export {
 } from './geometry'
 export type { CompressionInput, DynamicCompressionInput, ValveTimingBasis } from './geometry'
 export { MAX_MAGNITUDE } from './guard'
-export { RPM_CEILING, FIGURE_CEILING, MAX_GRID_POINTS } from './limits'
+export { RPM_CEILING, FIGURE_CEILING, MAX_GRID_POINTS, PULL_MAX_ROWS, PULL_MAX_PREAMBLE_ROWS } from './limits'
 export { camEvents } from './cam'
 export type { CamSpec, CamEvents } from './cam'
 export {

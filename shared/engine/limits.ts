@@ -18,3 +18,12 @@ export const FIGURE_CEILING = 100_000
 
 /** Most points an rpm grid may hold (resample, deltaCurve, rpmGrid): a 0.25 rpm step over the whole ceiling. */
 export const MAX_GRID_POINTS = 100_000
+
+/**
+ * Most data rows a pull file may hold. A dyno logs a sweep at a few hundred samples a second at
+ * most, over tens of seconds: 20,000 rows is several times the longest real pull.
+ */
+export const PULL_MAX_ROWS = 20_000
+
+/** Lines above the header a pull file may carry (a title, the shop's notes), skipped by the parser. */
+export const PULL_MAX_PREAMBLE_ROWS = 30

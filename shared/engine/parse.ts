@@ -4,17 +4,14 @@
  */
 import Papa from 'papaparse'
 import { show, text as textArg } from './guard'
-import { FIGURE_CEILING, RPM_CEILING } from './limits'
+import { FIGURE_CEILING, PULL_MAX_PREAMBLE_ROWS, PULL_MAX_ROWS, RPM_CEILING } from './limits'
 import { HP_TORQUE_CROSSOVER_RPM } from './power'
 import type { ParseColumns, ParseError, ParseResult, PowerUnit, PullPoint, TorqueUnit } from './types'
 import { NM_PER_LBFT, W_PER_HP, W_PER_PS } from './units'
 
 export const PARSE_LIMITS = {
-  /**
-   * Most data rows a pull file may hold. A dyno logs a sweep at a few hundred samples a second
-   * at most, over tens of seconds: 20,000 rows is several times the longest real pull.
-   */
-  maxRows: 20_000,
+  /** Most data rows a pull file may hold (PULL_MAX_ROWS: 20,000, several times the longest real pull). */
+  maxRows: PULL_MAX_ROWS,
   /** Highest rpm a row may give (the module's RPM_CEILING). */
   maxRpm: RPM_CEILING,
   /** Largest power (hp) or torque (lb·ft) a row may give once converted (the module's FIGURE_CEILING). */
@@ -24,7 +21,7 @@ export const PARSE_LIMITS = {
   /** Row errors listed before the rest are counted in one line. */
   maxListedErrors: 50,
   /** Lines above the header that may be skipped (a title, the shop's notes). */
-  maxPreambleRows: 30,
+  maxPreambleRows: PULL_MAX_PREAMBLE_ROWS,
 } as const
 
 type Delimiter = ParseColumns['delimiter']

@@ -5,6 +5,7 @@ import {
   deltaCurve, hpAt, injectorSizeLbHr, parsePull, peaks, powerBandRpm, resample, rpmGrid, valueAt,
 } from '../../../shared/engine'
 import type { PullPoint } from '../../../shared/engine'
+import { PULL_MAX_ROWS, pullTextOverRowBound } from '../../../shared/uploads'
 import { inventedPull } from './helpers'
 
 /** Runs the fuzz worker; a call that gives no sign of life for 1 s (a hang) stops it and fails naming the call. */
@@ -22,11 +23,11 @@ function fuzz(numRuns: number, seed: number): Promise<{ failures: string[], call
       }, limitMs)
     }
     arm(30_000)
-    worker.on('message', (m: { type: string, name?: string, args?: string, names?: string[], failures?: string[], calls?: number }) => {
+    worker.on('message', (m: { type: string, name?: string, args?: string, limitMs?: number, names?: string[], failures?: string[], calls?: number }) => {
       if (m.type === 'functions') functions = m.names ?? []
       if (m.type === 'call') {
         last = `${m.name}(${m.args})`
-        arm(1000)
+        arm(m.limitMs ?? 1000)
       }
       if (m.type === 'done') {
         clearTimeout(timer)
@@ -71,8 +72,18 @@ describe('the parser bounds rpm and rows', () => {
     expect(r.ok).toBe(false)
     if (!r.ok) expect(r.errors[0]!.message).toMatch(new RegExp(FIGURE_CEILING.toLocaleString('en-US')))
   })
-  it('keeps the row bound at 20,000', () => {
+  it('keeps the row bound at 20,000, and the upload pages\' check never refuses a file the parser would take', () => {
     expect(PARSE_LIMITS.maxRows).toBe(20_000)
+    expect(PULL_MAX_ROWS).toBe(PARSE_LIMITS.maxRows)
+    const rows = (n: number) => Array.from({ length: n }, (_, i) => `${1000 + i * 0.5},400,${((400 * (1000 + i * 0.5)) / 5252.113).toFixed(2)}`)
+    // The most the parser takes: the full preamble, a header, a line of units and 20,000 rows, blank lines between.
+    const preamble = Array.from({ length: PARSE_LIMITS.maxPreambleRows }, (_, i) => `Note ${i}`)
+    const fullest = [...preamble, 'RPM,Torque,Power', 'rpm,lb-ft,hp', rows(PULL_MAX_ROWS).join('\n\n')].join('\n')
+    expect(parsePull(fullest).ok).toBe(true)
+    expect(pullTextOverRowBound(fullest)).toBe(false)
+    const over = ['RPM,Torque,Power', ...rows(PULL_MAX_ROWS + PARSE_LIMITS.maxPreambleRows + 2)].join('\r\n')
+    expect(parsePull(over).ok).toBe(false)
+    expect(pullTextOverRowBound(over)).toBe(true)
   })
 })
 
