@@ -69,11 +69,11 @@ describe('calculators page in Chromium', () => {
     await expectFigure('compression-dynamic', dynamicCompressionRatio({ ...engine, ...heads, timingBasis: 'lift050' }), 2)
     await expectFigure('compression-seat-closing', 42 + SEAT_CLOSING_OFFSET_DEG, 1)
     expect(await text('compression-card')).toMatch(/Seat timing: the 0\.050 in closing \+ 15° \(common practice\)/)
-    await at('compression-basis-seat').check()
+    await at('compression-basis-seat').click()
     await expectFigure('compression-dynamic', dynamicCompressionRatio({ ...engine, ...heads, timingBasis: 'seat' }), 2)
     await expectFigure('compression-seat-closing', 42, 1)
     expect(await text('compression-card')).toMatch(/Seat timing, as the cam card gives it/)
-    await at('compression-basis-lift050').check()
+    await at('compression-basis-lift050').click()
     await expectFigure('compression-dynamic', dynamicCompressionRatio({ ...engine, ...heads, timingBasis: 'lift050' }), 2)
 
     await fill({ 'power-lbFt': '520', 'power-rpm': '5400', 'power-displacementCi': String(ci.toFixed(1)) })
@@ -131,7 +131,7 @@ describe('calculators page in Chromium', () => {
     // At 0.050 in the seat closing is estimated 15° later (common practice); on seat timing it is the closing itself.
     await expectFigure('cam-intake-seats', events.intakeClosesAbdcDeg + SEAT_CLOSING_OFFSET_DEG, 1)
     expect(await text('cam-figures')).toContain('At 0.050 in lift')
-    await at('cam-basis-seat').check()
+    await at('cam-basis-seat').click()
     await expectFigure('cam-intake-seats', events.intakeClosesAbdcDeg, 1)
     expect(await text('cam-figures')).toContain('At the seat')
 
