@@ -1,3 +1,5 @@
+import { PULL_MAX_PREAMBLE_ROWS, PULL_MAX_ROWS } from './engine/limits'
+
 /** Size limits per kind of upload, in bytes: the server enforces them (413), the pages check before sending. */
 export const UPLOAD_LIMITS = {
   pull: 2 * 1024 * 1024,
@@ -20,4 +22,26 @@ export const UPLOAD_ACCEPT: Record<'pull' | 'sheet' | 'photo', string> = {
 export function formatBytes(bytes: number): string {
   if (bytes >= 1024 * 1024) return `${(bytes / 1024 / 1024).toFixed(1)} MB`
   return `${Math.max(1, Math.round(bytes / 1024))} KB`
+}
+
+/** Most data rows a pull file may hold: the parser's bound (shared/engine/limits.ts), refused with 422 by the server. */
+export { PULL_MAX_ROWS }
+
+/**
+ * True when a pull file's text certainly holds more data rows than the parser accepts: more
+ * non-blank lines than the row bound plus a header, a line of units and the skippable lines above
+ * the header. The page refuses such a file before sending it; the server counts exactly.
+ */
+export function pullTextOverRowBound(text: string): boolean {
+  const limit = PULL_MAX_ROWS + PULL_MAX_PREAMBLE_ROWS + 2
+  let lines = 0
+  let start = 0
+  for (let i = 0; i <= text.length; i++) {
+    const c = i < text.length ? text.charCodeAt(i) : 10
+    if (c !== 10 && c !== 13) continue
+    if (text.slice(start, i).trim() !== '') lines++
+    if (lines > limit) return true
+    start = i + 1
+  }
+  return false
 }

@@ -1,8 +1,8 @@
 /** Camshaft valve events from duration, lobe separation and installed intake centreline (cam card arithmetic). */
-import { within } from './guard'
+import { record, within } from './guard'
 
 export interface CamSpec {
-  /** Intake duration in crank degrees (Torquewright uses duration at 0.050 in lift). */
+  /** Intake duration in crank degrees, at one lift for both lobes (0.050 in or seat): the events come out on the same basis. */
   intakeDurationDeg: number
   exhaustDurationDeg: number
   /** Lobe separation angle: cam degrees between the intake and exhaust lobe centrelines. */
@@ -30,6 +30,7 @@ export interface CamEvents {
  * EVC = dur/2 − ECL, overlap = IVO + EVC.
  */
 export function camEvents(spec: CamSpec): CamEvents {
+  record('spec', spec, 'intakeDurationDeg, exhaustDurationDeg, lobeSeparationDeg and intakeCenterlineDeg')
   const intDur = within('intakeDurationDeg', spec.intakeDurationDeg, 1, 359, '°')
   const exhDur = within('exhaustDurationDeg', spec.exhaustDurationDeg, 1, 359, '°')
   const lsa = within('lobeSeparationDeg', spec.lobeSeparationDeg, 80, 140, '°')

@@ -2,7 +2,8 @@
  * Atmospheric correction of engine power to a standard's reference conditions, and conversion
  * of a curve from one standard to another.
  */
-import { finite, within } from './guard'
+import { assertPoint } from './curves'
+import { record, show, within } from './guard'
 import type { CorrectionSpec, CorrectionStandard, PullPoint, Weather } from './types'
 import { CORRECTION_STANDARDS } from './types'
 import { fToC, inHgToKpa, inHgToMbar, kpaToInHg } from './units'
@@ -52,9 +53,13 @@ function saeJ1349(k: number, air: AirState): number {
   return k * (99 / air.dryKpa) * Math.sqrt((air.tempC + 273) / 298) - (k - 1)
 }
 
-/** SAE J607 ("STD"): cf = (29.92 / Pd) × √((T + 460) / 520), Pd dry inHg, T °F. */
+/**
+ * SAE J607 ("STD"): cf = (29.92 / Pd) × √((T + 459.67) / 519.67), Pd dry inHg, T °F: the standard's
+ * 60 °F reference in degrees Rankine, with the exact 459.67 offset (NIST SP 811 B.8: T/°R = t/°F + 459.67)
+ * where the usual form rounds to 460 and 520.
+ */
 function saeJ607(air: AirState, tempF: number): number {
-  return (29.92 / kpaToInHg(air.dryKpa)) * Math.sqrt((tempF + 460) / 520)
+  return (29.92 / kpaToInHg(air.dryKpa)) * Math.sqrt((tempF + 459.67) / 519.67)
 }
 
 /** DIN 70020: cf = (1013 / p) × √((273 + t) / 293), p total mbar, t °C; humidity is not used. */
@@ -76,7 +81,7 @@ export function isCorrectionStandard(value: unknown): value is CorrectionStandar
 }
 
 function requireStandard(standard: CorrectionStandard): CorrectionStandard {
-  if (!isCorrectionStandard(standard)) throw new RangeError(`unknown correction standard "${String(standard)}"`)
+  if (!isCorrectionStandard(standard)) throw new RangeError(`standard must be one of ${STANDARD_IDS.join(', ')} (got ${show(standard)})`)
   return standard
 }
 
@@ -108,17 +113,26 @@ export interface StandardLimits {
 }
 
 /**
- * Allowed ranges. ISO 1585 / ECE R85: factor 0.93–1.07, 15–35 °C (288–308 K), dry pressure 80–110 kPa.
- * SAE J1349: 15–35 °C and 90–105 kPa dry; its factor band is taken as ISO's 0.93–1.07.
- * All of these are from memory of the standards, not read from the documents. DIN 70020 and
- * SAE J607 carry no band that we hold firmly, so a sanity band of our own (0.90–1.10) is applied.
+ * The published air-temperature band of the spark-ignition correction: 283.2 K < T < 318.2 K
+ * (EU Regulation 134/2014, Annex I, Appendix 2.2, which carries the ISO 1585 / ECE R85 method).
+ */
+export const PUBLISHED_TEMP_BAND_C = { min: 283.2 - 273.15, max: 318.2 - 273.15 } as const
+
+const PUBLISHED = 'Air temperature 283.2–318.2 K (10.05–45.05 °C): EU Regulation 134/2014, Annex I, Appendix 2.2'
+const OWN_BANDS = 'factor 0.93–1.07 and dry-air pressure 80–110 kPa: Torquewright\'s own plausibility bands'
+
+/**
+ * Allowed ranges. The temperature band is the published one for ISO 1585 / ECE R85 (see
+ * PUBLISHED_TEMP_BAND_C); SAE J1349's own band is not available to us, so the same published band is
+ * applied to it. The factor and dry-pressure bands are our own plausibility bands, the same for
+ * all three. DIN 70020 and SAE J607 get a sanity band of our own on the factor only (0.90–1.10).
  */
 export const STANDARD_LIMITS: Record<Exclude<CorrectionStandard, 'UNCORRECTED'>, StandardLimits> = {
-  SAE_J1349_2004: { factorMin: 0.93, factorMax: 1.07, tempMinC: 15, tempMaxC: 35, dryPressureMinKpa: 90, dryPressureMaxKpa: 105, source: 'SAE J1349 test conditions from memory; factor band as ISO 1585' },
-  SAE_J1349_1990: { factorMin: 0.93, factorMax: 1.07, tempMinC: 15, tempMaxC: 35, dryPressureMinKpa: 90, dryPressureMaxKpa: 105, source: 'SAE J1349 test conditions from memory; factor band as ISO 1585' },
-  ISO_1585: { factorMin: 0.93, factorMax: 1.07, tempMinC: 15, tempMaxC: 35, dryPressureMinKpa: 80, dryPressureMaxKpa: 110, source: 'ISO 1585 / ECE R85 limits from memory' },
-  DIN_70020: { factorMin: 0.9, factorMax: 1.1, tempMinC: null, tempMaxC: null, dryPressureMinKpa: null, dryPressureMaxKpa: null, source: 'Torquewright sanity band (no published band applied)' },
-  SAE_J607: { factorMin: 0.9, factorMax: 1.1, tempMinC: null, tempMaxC: null, dryPressureMinKpa: null, dryPressureMaxKpa: null, source: 'Torquewright sanity band (no published band applied)' },
+  SAE_J1349_2004: { factorMin: 0.93, factorMax: 1.07, tempMinC: PUBLISHED_TEMP_BAND_C.min, tempMaxC: PUBLISHED_TEMP_BAND_C.max, dryPressureMinKpa: 80, dryPressureMaxKpa: 110, source: `${PUBLISHED} (SAE J1349's own band not held, so the published ISO 1585 band is applied); ${OWN_BANDS}` },
+  SAE_J1349_1990: { factorMin: 0.93, factorMax: 1.07, tempMinC: PUBLISHED_TEMP_BAND_C.min, tempMaxC: PUBLISHED_TEMP_BAND_C.max, dryPressureMinKpa: 80, dryPressureMaxKpa: 110, source: `${PUBLISHED} (SAE J1349's own band not held, so the published ISO 1585 band is applied); ${OWN_BANDS}` },
+  ISO_1585: { factorMin: 0.93, factorMax: 1.07, tempMinC: PUBLISHED_TEMP_BAND_C.min, tempMaxC: PUBLISHED_TEMP_BAND_C.max, dryPressureMinKpa: 80, dryPressureMaxKpa: 110, source: `${PUBLISHED}; ${OWN_BANDS}` },
+  DIN_70020: { factorMin: 0.9, factorMax: 1.1, tempMinC: null, tempMaxC: null, dryPressureMinKpa: null, dryPressureMaxKpa: null, source: 'Factor 0.90–1.10: Torquewright\'s own sanity band (no published band applied)' },
+  SAE_J607: { factorMin: 0.9, factorMax: 1.1, tempMinC: null, tempMaxC: null, dryPressureMinKpa: null, dryPressureMaxKpa: null, source: 'Factor 0.90–1.10: Torquewright\'s own sanity band (no published band applied)' },
 }
 
 export interface CorrectionValidity {
@@ -145,10 +159,10 @@ export function correctionValidity(standard: CorrectionStandard, weather: Weathe
     reasons.push(`the factor ${fmt(factor, 4)} lies outside ${fmt(limits.factorMin, 2)}–${fmt(limits.factorMax, 2)}`)
   }
   if (limits.tempMinC !== null && air.tempC < limits.tempMinC) {
-    reasons.push(`air temperature ${fmt(air.tempC, 1)} °C is below the ${limits.tempMinC} °C the standard allows`)
+    reasons.push(`air temperature ${fmt(air.tempC, 1)} °C is below the ${fmt(limits.tempMinC, 2)} °C the standard allows`)
   }
   if (limits.tempMaxC !== null && air.tempC > limits.tempMaxC) {
-    reasons.push(`air temperature ${fmt(air.tempC, 1)} °C is above the ${limits.tempMaxC} °C the standard allows`)
+    reasons.push(`air temperature ${fmt(air.tempC, 1)} °C is above the ${fmt(limits.tempMaxC, 2)} °C the standard allows`)
   }
   if (limits.dryPressureMinKpa !== null && air.dryKpa < limits.dryPressureMinKpa) {
     reasons.push(`dry-air pressure ${fmt(air.dryKpa, 1)} kPa is below the ${limits.dryPressureMinKpa} kPa the standard allows`)
@@ -161,6 +175,7 @@ export function correctionValidity(standard: CorrectionStandard, weather: Weathe
 
 /** The factor a spec stands for: 1 when the standard is 'UNCORRECTED' or the weather is unknown. */
 export function specFactor(spec: CorrectionSpec): { factor: number, uncorrected: boolean } {
+  record('spec', spec, 'a standard and, optionally, the weather')
   requireStandard(spec.standard)
   if (spec.standard === 'UNCORRECTED' || !spec.weather) return { factor: 1, uncorrected: true }
   return { factor: correctionFactor(spec.standard, spec.weather), uncorrected: false }
@@ -181,8 +196,9 @@ export interface ConvertedCurve {
 /** Re-express a curve under another standard: raw = observed / factor(from), target = raw × factor(to). */
 export function convertCurve(points: PullPoint[], from: CorrectionSpec, to: CorrectionSpec): ConvertedCurve {
   if (!Array.isArray(points)) throw new RangeError('points must be an array')
-  const source = specFactor(from)
-  const target = specFactor(to)
+  points.forEach((p, i) => assertPoint(p, `points[${i}]`))
+  const source = specFactor(record(`from`, from, 'a standard and, optionally, the weather'))
+  const target = specFactor(record(`to`, to, 'a standard and, optionally, the weather'))
   const notes: string[] = []
   if (from.standard !== 'UNCORRECTED' && !from.weather) {
     notes.push('The source standard was named without weather, so its figures are taken as uncorrected.')
@@ -192,9 +208,8 @@ export function convertCurve(points: PullPoint[], from: CorrectionSpec, to: Corr
   }
   const ratio = target.factor / source.factor
   const converted = points.map((p) => {
-    finite('hp', p.hp)
     const out: PullPoint = { rpm: p.rpm, hp: p.hp * ratio }
-    if (p.lbFt !== undefined) out.lbFt = finite('lbFt', p.lbFt) * ratio
+    if (p.lbFt !== undefined) out.lbFt = p.lbFt * ratio
     return out
   })
   return { points: converted, fromFactor: source.factor, toFactor: target.factor, ratio, standard: to.standard, uncorrected: target.uncorrected, notes }

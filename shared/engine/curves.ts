@@ -1,19 +1,27 @@
 /** Curve processing: validation, resampling, peaks, band averages, power band and the delta between two pulls. */
-import { finite, nonNegative, positive, within } from './guard'
+import { aboveZeroUpTo, callable, fieldName, finite, nonNegative, positive, record, within } from './guard'
+import { FIGURE_CEILING, MAX_GRID_POINTS, RPM_CEILING } from './limits'
 import { HP_TORQUE_CROSSOVER_RPM } from './power'
 import type { PullPoint } from './types'
 
-/** Checks a curve has at least two points, finite figures and strictly increasing rpm. */
-export function assertCurve(points: readonly PullPoint[], name = 'points'): void {
+/** Checks one point: an object with rpm above zero up to the ceiling and finite power (and torque) within the figure ceiling. */
+export function assertPoint(p: PullPoint, label = 'point'): PullPoint {
+  const name = fieldName(label, 'point')
+  if (!p || typeof p !== 'object') throw new RangeError(`${name} is not a point (expected { rpm, hp })`)
+  within(`${name}.rpm`, p.rpm, Number.MIN_VALUE, RPM_CEILING, `rpm (the module's ceiling is ${RPM_CEILING.toLocaleString('en-US')} rpm)`)
+  within(`${name}.hp`, p.hp, -FIGURE_CEILING, FIGURE_CEILING, 'hp')
+  if (p.lbFt !== undefined) within(`${name}.lbFt`, p.lbFt, -FIGURE_CEILING, FIGURE_CEILING, 'lb·ft')
+  return p
+}
+
+/** Checks a curve has at least two points, each as assertPoint wants, and strictly increasing rpm. */
+export function assertCurve(points: readonly PullPoint[], label = 'points'): void {
+  const name = fieldName(label, 'points')
   if (!Array.isArray(points)) throw new RangeError(`${name} must be an array of { rpm, hp } points`)
   if (points.length < 2) throw new RangeError(`${name} needs at least two points (got ${points.length})`)
   let previous = -Infinity
   for (let i = 0; i < points.length; i++) {
-    const p = points[i]
-    if (!p || typeof p !== 'object') throw new RangeError(`${name}[${i}] is not a point`)
-    nonNegative(`${name}[${i}].rpm`, p.rpm)
-    finite(`${name}[${i}].hp`, p.hp)
-    if (p.lbFt !== undefined) finite(`${name}[${i}].lbFt`, p.lbFt)
+    const p = assertPoint(points[i] as PullPoint, `${name}[${i}]`)
     if (p.rpm <= previous) {
       throw new RangeError(`rpm must keep increasing: ${name}[${i}] is ${p.rpm} rpm after ${previous} rpm`)
     }
@@ -21,14 +29,15 @@ export function assertCurve(points: readonly PullPoint[], name = 'points'): void
   }
 }
 
-/** Torque at a point: the measured figure, else hp × 5252.11 / rpm. */
+/** Torque at a point: the measured figure, else hp × 5252.11 / rpm (rpm is above zero on every checked point). */
 export function torqueAt(p: PullPoint): number {
+  assertPoint(p)
   if (p.lbFt !== undefined) return p.lbFt
-  return p.rpm > 0 ? (p.hp * HP_TORQUE_CROSSOVER_RPM) / p.rpm : Number.NaN
+  return (p.hp * HP_TORQUE_CROSSOVER_RPM) / p.rpm
 }
 
-/** Every point carries a torque figure. */
-const allHaveTorque = (points: readonly PullPoint[]): boolean => points.every(p => p.lbFt !== undefined)
+/** torqueAt without the checks, for points a caller has already checked. */
+const torqueOf = (p: PullPoint): number => (p.lbFt !== undefined ? p.lbFt : (p.hp * HP_TORQUE_CROSSOVER_RPM) / p.rpm)
 
 const lerp = (x0: number, y0: number, x1: number, y1: number, x: number): number =>
   x1 === x0 ? y0 : y0 + ((y1 - y0) * (x - x0)) / (x1 - x0)
@@ -45,20 +54,67 @@ function segmentIndex(points: readonly PullPoint[], rpm: number): number {
   return lo
 }
 
-/** A figure at an rpm inside the curve, by linear interpolation. */
-export function valueAt(points: readonly PullPoint[], rpm: number, value: (p: PullPoint) => number): number {
+/** Linear interpolation on a checked curve at an rpm inside it. */
+function interpolate(points: readonly PullPoint[], rpm: number, value: (p: PullPoint) => number): number {
   const i = segmentIndex(points, rpm)
   const a = points[i] as PullPoint
   const b = (points[i + 1] ?? a) as PullPoint
-  return lerp(a.rpm, value(a), b.rpm, value(b), rpm)
+  const y = lerp(a.rpm, value(a), b.rpm, value(b), rpm)
+  if (!Number.isFinite(y)) throw new RangeError(`value must give a finite figure at every point (got ${y} at ${rpm} rpm)`)
+  return y
 }
 
-/** Power in hp at an rpm inside the curve, by linear interpolation. */
+/** rpm inside the pull, or a RangeError saying the pull does not reach it (figures are never extrapolated). */
+function insidePull(points: readonly PullPoint[], rpm: number, name = 'rpm'): number {
+  finite(name, rpm)
+  const first = (points[0] as PullPoint).rpm
+  const last = (points[points.length - 1] as PullPoint).rpm
+  if (rpm < first || rpm > last) {
+    throw new RangeError(`${name} ${rpm} lies outside the pull, which runs ${first}–${last} rpm (figures are not extrapolated)`)
+  }
+  return rpm
+}
+
+/** A figure at an rpm inside the curve, by linear interpolation; a RangeError outside it. */
+export function valueAt(points: readonly PullPoint[], rpm: number, value: (p: PullPoint) => number): number {
+  assertCurve(points)
+  callable('value', value)
+  return interpolate(points, insidePull(points, rpm), value)
+}
+
+/** Power in hp at an rpm inside the curve, by linear interpolation; a RangeError outside it. */
 export const hpAt = (points: readonly PullPoint[], rpm: number): number => valueAt(points, rpm, p => p.hp)
 
-/** The multiples of stepRpm that lie inside [fromRpm, toRpm]. */
+/**
+ * Torque and power at an rpm inside a checked curve, kept in step: torque is interpolated and
+ * power recomputed from it (hp = lb·ft × rpm / 5252.113), so the two never disagree between samples.
+ */
+function figuresAt(points: readonly PullPoint[], rpm: number, hint?: { i: number }): { hp: number, lbFt: number } {
+  let i: number
+  if (hint) {
+    while (hint.i < points.length - 2 && (points[hint.i + 1] as PullPoint).rpm < rpm) hint.i++
+    i = hint.i
+  }
+  else {
+    i = segmentIndex(points, rpm)
+  }
+  const a = points[i] as PullPoint
+  const b = points[i + 1] as PullPoint
+  const lbFt = lerp(a.rpm, torqueOf(a), b.rpm, torqueOf(b), rpm)
+  return { lbFt, hp: (lbFt * rpm) / HP_TORQUE_CROSSOVER_RPM }
+}
+
+/** The multiples of stepRpm that lie inside [fromRpm, toRpm]; a RangeError past MAX_GRID_POINTS. */
 export function rpmGrid(fromRpm: number, toRpm: number, stepRpm: number): number[] {
+  finite('fromRpm', fromRpm)
+  finite('toRpm', toRpm)
   positive('stepRpm', stepRpm)
+  if (toRpm < fromRpm) throw new RangeError(`toRpm (${toRpm}) must not be below fromRpm (${fromRpm})`)
+  // Refuse before counting: with a step this small the counting below would not end (k·step stays put).
+  const estimate = (toRpm - fromRpm) / stepRpm
+  if (!(estimate <= MAX_GRID_POINTS) || !Number.isFinite(fromRpm / stepRpm) || !Number.isFinite(toRpm / stepRpm)) {
+    throw new RangeError(`stepRpm ${stepRpm} gives more than ${MAX_GRID_POINTS.toLocaleString('en-US')} grid points over ${fromRpm}–${toRpm} rpm: use a larger step`)
+  }
   // Rounding in the division can land one step off either way; settle k·step inside the range exactly.
   let first = Math.ceil(fromRpm / stepRpm)
   while (first * stepRpm < fromRpm) first++
@@ -66,6 +122,10 @@ export function rpmGrid(fromRpm: number, toRpm: number, stepRpm: number): number
   let last = Math.floor(toRpm / stepRpm)
   while (last * stepRpm > toRpm) last--
   while ((last + 1) * stepRpm <= toRpm) last++
+  const count = last - first + 1
+  if (count > MAX_GRID_POINTS) {
+    throw new RangeError(`stepRpm ${stepRpm} gives ${Math.round(count).toLocaleString('en-US')} grid points over ${fromRpm}–${toRpm} rpm; the most is ${MAX_GRID_POINTS.toLocaleString('en-US')}: use a larger step`)
+  }
   const grid: number[] = []
   for (let k = first; k <= last; k++) grid.push(k * stepRpm)
   return grid
@@ -73,24 +133,20 @@ export function rpmGrid(fromRpm: number, toRpm: number, stepRpm: number): number
 
 /**
  * Linear interpolation onto the multiples of stepRpm inside the data's rpm range (no extrapolation).
- * Torque is carried when every input point has it.
+ * Torque is interpolated (measured, or hp × 5252.113 / rpm where a point gives none) and power is
+ * recomputed from it, so hp and lb·ft agree at every resampled point.
  */
 export function resample(points: readonly PullPoint[], stepRpm: number): PullPoint[] {
   assertCurve(points)
   const first = points[0] as PullPoint
   const last = points[points.length - 1] as PullPoint
   const grid = rpmGrid(first.rpm, last.rpm, stepRpm)
-  const withTorque = allHaveTorque(points)
   const out: PullPoint[] = new Array(grid.length)
-  let i = 0
+  const hint = { i: 0 }
   for (let g = 0; g < grid.length; g++) {
     const rpm = grid[g] as number
-    while (i < points.length - 2 && (points[i + 1] as PullPoint).rpm < rpm) i++
-    const a = points[i] as PullPoint
-    const b = points[i + 1] as PullPoint
-    const point: PullPoint = { rpm, hp: lerp(a.rpm, a.hp, b.rpm, b.hp, rpm) }
-    if (withTorque) point.lbFt = lerp(a.rpm, a.lbFt as number, b.rpm, b.lbFt as number, rpm)
-    out[g] = point
+    const { hp, lbFt } = figuresAt(points, rpm, hint)
+    out[g] = { rpm, hp, lbFt }
   }
   return out
 }
@@ -102,26 +158,25 @@ export interface Peaks {
   peakTqRpm: number
 }
 
-/** Peak power and peak torque with their rpm (the first, lowest rpm, on a tie). */
+/** Peak power and peak torque with their rpm (the first, lowest rpm, on a tie); one point is enough. */
 export function peaks(points: readonly PullPoint[]): Peaks {
-  if (!Array.isArray(points) || points.length === 0) throw new RangeError('peaks needs at least one point')
+  if (!Array.isArray(points) || points.length === 0) throw new RangeError('points: peaks needs at least one point')
   let peakHp = -Infinity
   let peakHpRpm = Number.NaN
   let peakTq = -Infinity
   let peakTqRpm = Number.NaN
-  for (const p of points) {
-    finite('hp', p.hp)
+  for (let i = 0; i < points.length; i++) {
+    const p = assertPoint(points[i] as PullPoint, `points[${i}]`)
     if (p.hp > peakHp) {
       peakHp = p.hp
       peakHpRpm = p.rpm
     }
-    const tq = torqueAt(p)
-    if (Number.isFinite(tq) && tq > peakTq) {
+    const tq = torqueOf(p)
+    if (tq > peakTq) {
       peakTq = tq
       peakTqRpm = p.rpm
     }
   }
-  if (!Number.isFinite(peakTq)) peakTq = Number.NaN
   return { peakHp, peakHpRpm, peakTq, peakTqRpm }
 }
 
@@ -133,6 +188,7 @@ export function bandAverage(
   value: (p: PullPoint) => number,
 ): number {
   assertCurve(points)
+  callable('value', value)
   finite('fromRpm', fromRpm)
   finite('toRpm', toRpm)
   if (toRpm <= fromRpm) throw new RangeError(`the band must run upwards (got ${fromRpm}–${toRpm} rpm)`)
@@ -145,19 +201,22 @@ export function bandAverage(
   }
   let area = 0
   let x0 = lo
-  let y0 = valueAt(points, lo, value)
+  let y0 = interpolate(points, lo, value)
   let i = segmentIndex(points, lo) + 1
   while (i < points.length && (points[i] as PullPoint).rpm < hi) {
     const p = points[i] as PullPoint
     const y = value(p)
+    if (!Number.isFinite(y)) throw new RangeError(`value must give a finite figure at every point (got ${y} at ${p.rpm} rpm)`)
     area += ((y0 + y) / 2) * (p.rpm - x0)
     x0 = p.rpm
     y0 = y
     i++
   }
-  const yHi = valueAt(points, hi, value)
+  const yHi = interpolate(points, hi, value)
   area += ((y0 + yHi) / 2) * (hi - x0)
-  return area / (hi - lo)
+  const mean = area / (hi - lo)
+  if (!Number.isFinite(mean)) throw new RangeError('value must give a finite figure at every point')
+  return mean
 }
 
 /** Average power in hp over an rpm band, trapezoid rule, clipped to the data; RangeError if the band misses the data. */
@@ -167,7 +226,7 @@ export function averagePower(points: readonly PullPoint[], fromRpm: number, toRp
 
 /** Average torque in lb·ft over an rpm band, as averagePower. */
 export function averageTorque(points: readonly PullPoint[], fromRpm: number, toRpm: number): number {
-  return bandAverage(points, fromRpm, toRpm, torqueAt)
+  return bandAverage(points, fromRpm, toRpm, torqueOf)
 }
 
 export interface PowerBand {
@@ -180,15 +239,19 @@ export interface PowerBand {
   reachesEnd: boolean
 }
 
-/** The contiguous rpm span around peak power where hp ≥ fraction × peak hp, crossings interpolated. */
+/**
+ * The contiguous rpm span around peak power where hp ≥ fraction × peak hp, crossings interpolated.
+ * A curve whose power never rises above zero has no band: a RangeError.
+ */
 export function powerBandRpm(points: readonly PullPoint[], fraction: number): PowerBand {
   assertCurve(points)
-  within('fraction', fraction, Number.MIN_VALUE, 1)
+  aboveZeroUpTo('fraction', fraction, 1, '(of peak power)')
   let peakIndex = 0
   for (let i = 1; i < points.length; i++) {
     if ((points[i] as PullPoint).hp > (points[peakIndex] as PullPoint).hp) peakIndex = i
   }
   const peak = points[peakIndex] as PullPoint
+  if (peak.hp <= 0) throw new RangeError(`points: a power band needs power above zero somewhere (peak is ${peak.hp} hp)`)
   const threshold = fraction * peak.hp
   let fromRpm = (points[0] as PullPoint).rpm
   let reachesStart = true
@@ -196,7 +259,7 @@ export function powerBandRpm(points: readonly PullPoint[], fraction: number): Po
     const below = points[i - 1] as PullPoint
     if (below.hp < threshold) {
       const above = points[i] as PullPoint
-      fromRpm = lerp(below.hp, below.rpm, above.hp, above.rpm, threshold)
+      fromRpm = Math.min(above.rpm, Math.max(below.rpm, lerp(below.hp, below.rpm, above.hp, above.rpm, threshold)))
       reachesStart = false
       break
     }
@@ -207,7 +270,7 @@ export function powerBandRpm(points: readonly PullPoint[], fraction: number): Po
     const after = points[i + 1] as PullPoint
     if (after.hp < threshold) {
       const above = points[i] as PullPoint
-      toRpm = lerp(above.hp, above.rpm, after.hp, after.rpm, threshold)
+      toRpm = Math.min(after.rpm, Math.max(above.rpm, lerp(above.hp, above.rpm, after.hp, after.rpm, threshold)))
       reachesEnd = false
       break
     }
@@ -281,6 +344,7 @@ function seriesMean(xs: readonly number[], ys: readonly number[]): number {
 export function deltaCurve(baseline: readonly PullPoint[], variant: readonly PullPoint[], options: DeltaOptions = {}): DeltaCurve {
   assertCurve(baseline, 'baseline')
   assertCurve(variant, 'variant')
+  if (options === null || typeof options !== 'object') throw new RangeError('options must be an object ({ stepRpm?, evenHp? })')
   const stepRpm = positive('stepRpm', options.stepRpm ?? 100)
   const lo = Math.max((baseline[0] as PullPoint).rpm, (variant[0] as PullPoint).rpm)
   const hi = Math.min((baseline[baseline.length - 1] as PullPoint).rpm, (variant[variant.length - 1] as PullPoint).rpm)
@@ -291,11 +355,11 @@ export function deltaCurve(baseline: readonly PullPoint[], variant: readonly Pul
     ? 0.01 * Math.abs(peaks(baseline).peakHp)
     : nonNegative('evenHp', options.evenHp)
 
+  // Torque interpolated and power recomputed from it on both curves, so hp and lb·ft deltas agree.
   const points: DeltaPoint[] = grid.map((rpm) => {
-    const baselineHp = hpAt(baseline, rpm)
-    const variantHp = hpAt(variant, rpm)
-    const tqDelta = valueAt(variant, rpm, torqueAt) - valueAt(baseline, rpm, torqueAt)
-    return { rpm, baselineHp, variantHp, hpDelta: variantHp - baselineHp, tqDelta }
+    const base = figuresAt(baseline, rpm)
+    const vary = figuresAt(variant, rpm)
+    return { rpm, baselineHp: base.hp, variantHp: vary.hp, hpDelta: vary.hp - base.hp, tqDelta: vary.lbFt - base.lbFt }
   })
 
   const kindOf = (d: number): DeltaKind => (d > evenHp ? 'gain' : d < -evenHp ? 'loss' : 'even')
@@ -391,6 +455,15 @@ function stretch(summary: DeltaSummary, kind: 'gain' | 'loss', verb: string): st
 
 /** One or two plain sentences saying where the variant gained and lost, and by how much. */
 export function describeDelta(summary: DeltaSummary): string {
+  record('summary', summary, 'the fields of a deltaCurve summary')
+  for (const key of ['fromRpm', 'toRpm', 'evenHp', 'maxGainHp', 'maxLossHp', 'averageDeltaHp'] as const) finite(`summary.${key}`, summary[key])
+  if (!Array.isArray(summary.regions)) throw new RangeError('summary.regions must be an array of delta regions')
+  summary.regions.forEach((r, i) => {
+    record(`summary.regions[${i}]`, r, 'fromRpm, toRpm, kind and averageDeltaHp')
+    finite(`summary.regions[${i}].fromRpm`, r.fromRpm)
+    finite(`summary.regions[${i}].toRpm`, r.toRpm)
+    finite(`summary.regions[${i}].averageDeltaHp`, r.averageDeltaHp)
+  })
   const span = `${formatRpm(summary.fromRpm)}–${formatRpm(summary.toRpm)} rpm`
   const gained = stretch(summary, 'gain', 'gained')
   const lost = stretch(summary, 'loss', 'lost')

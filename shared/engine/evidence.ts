@@ -37,6 +37,10 @@ const worst = (outcomes: EvidenceOutcome[]): EvidenceOutcome =>
 
 /** The worst outcome of a report. */
 export function evidenceOutcome(checks: readonly EvidenceCheck[]): EvidenceOutcome {
+  if (!Array.isArray(checks)) throw new RangeError('checks must be an array of evidence checks')
+  checks.forEach((c, i) => {
+    if (!c || typeof c !== 'object' || !Object.hasOwn(RANK, c.outcome)) throw new RangeError(`checks[${i}].outcome must be pass, warn or fail`)
+  })
   return worst(checks.map(c => c.outcome))
 }
 
@@ -54,6 +58,13 @@ function figures(values: Record<string, number | null | undefined>): Record<stri
 
 const check = (id: EvidenceCheckId, outcome: EvidenceOutcome, message: string, values: Record<string, number | null | undefined> = {}): EvidenceCheck =>
   ({ id, outcome, message, figures: figures(values) })
+
+/** The largest value, by a loop: spreading 125,000+ values into Math.max overflows the call stack. */
+function largestOf(values: readonly number[]): number {
+  let top = -Infinity
+  for (const v of values) if (v > top) top = v
+  return top
+}
 
 /** Numeric sort in a typed array: much quicker than Array#sort with a comparator on 10,000+ values. */
 const sortedCopy = (values: readonly number[]): Float64Array => Float64Array.from(values).sort()
@@ -102,9 +113,9 @@ function rpmSpacing(points: PullPoint[]): EvidenceCheck {
   if (steps.length < 2) return check('rpm-spacing', 'fail', 'Too few points to judge the sampling.', { points: points.length })
   const step = median(steps)
   if (!(step > 0)) return check('rpm-spacing', 'fail', 'The rpm does not advance from point to point.', { medianStepRpm: step })
-  const largest = Math.max(...steps)
+  const largest = largestOf(steps)
   const irregular = steps.filter(s => Math.abs(s - step) > 0.25 * step).length / steps.length
-  const values = { medianStepRpm: step, largestGapRpm: largest, smallestStepRpm: Math.min(...steps), irregularShare: irregular }
+  const values = { medianStepRpm: step, largestGapRpm: largest, smallestStepRpm: -largestOf(steps.map(x => -x)), irregularShare: irregular }
   if (largest > 4 * step || step > 500) {
     return check('rpm-spacing', 'fail', `The sampling has a gap of ${n0(largest)} rpm against a usual step of ${n1(step)} rpm${step > 500 ? ' (steps over 500 rpm are too coarse to check peaks)' : ''}. Ask for the raw file with every sample.`, values)
   }
@@ -122,7 +133,7 @@ function powerTorque(pull: EvidencePull, points: PullPoint[]): EvidenceCheck {
   }
   const both = points.filter(p => p.lbFt !== undefined && Number.isFinite(p.lbFt) && p.rpm > 0)
   if (both.length === 0) return check('power-torque-agreement', 'pass', 'No point carries both torque and power; nothing to compare.', { comparedPoints: 0 })
-  const peakHp = Math.max(...both.map(p => p.hp))
+  const peakHp = largestOf(both.map(p => p.hp))
   const floor = 0.02 * Math.abs(peakHp)
   const errors: number[] = []
   const ratios: number[] = []
@@ -131,7 +142,7 @@ function powerTorque(pull: EvidencePull, points: PullPoint[]): EvidenceCheck {
     errors.push(Math.abs(p.hp - expected) / Math.max(Math.abs(expected), floor, 1e-9))
     if (expected > floor) ratios.push(p.hp / expected)
   }
-  const worstErr = Math.max(...errors)
+  const worstErr = largestOf(errors)
   const p95 = quantile(errors, 0.95)
   const ratio = median(ratios)
   const values = { comparedPoints: both.length, worstErrorPct: worstErr * 100, p95ErrorPct: p95 * 100, medianRatio: ratio }
@@ -265,7 +276,7 @@ function pistonSpeed(context: EvidenceContext, points: PullPoint[]): EvidenceChe
   const stroke = context?.strokeIn
   if (!(typeof stroke === 'number' && stroke > 0 && Number.isFinite(stroke))) return check('piston-speed', 'fail', 'The build has no stroke, so piston speed cannot be checked.')
   if (points.length === 0) return check('piston-speed', 'fail', 'No points to check.')
-  const topRpm = Math.max(...points.map(p => p.rpm))
+  const topRpm = largestOf(points.map(p => p.rpm))
   const ftMin = meanPistonSpeedFtMin(stroke, topRpm)
   const ms = (ftMin * 0.3048) / 60
   const values = { meanPistonSpeedFtMin: ftMin, meanPistonSpeedMs: ms, topRpm, strokeIn: stroke, warnFtMin: PISTON_SPEED_BOUNDS_FT_MIN.warn, failFtMin: PISTON_SPEED_BOUNDS_FT_MIN.fail }

@@ -9,6 +9,8 @@
  * log-ratios of their common values, which a constant ratio leaves at zero.
  */
 import { assertCurve } from './curves'
+import { nonNegative } from './guard'
+import { RPM_CEILING } from './limits'
 import type { PullPoint } from './types'
 
 export const FINGERPRINT_GRID_RPM = 250
@@ -16,6 +18,8 @@ export const FINGERPRINT_WINDOW_RPM = 500
 /** Distance at or under which two fingerprints are taken as the same curve (a 0.3 % shape spread; our own choice). */
 export const FINGERPRINT_TOLERANCE = 0.003
 
+/** Most windows a fingerprint holds: the whole rpm ceiling on the 250 rpm grid. */
+const MAX_WINDOWS = Math.ceil(RPM_CEILING / FINGERPRINT_GRID_RPM) + 1
 const VERSION = 'f1'
 const LEVELS = 4095
 /** Values under 5 % of the curve's largest are left out of distances (their ratios are all noise). */
@@ -50,6 +54,8 @@ export function curveFingerprint(points: readonly PullPoint[]): string {
   const half = FINGERPRINT_WINDOW_RPM / 2
   const startIndex = Math.ceil((first + half) / FINGERPRINT_GRID_RPM)
   const endIndex = Math.floor((last - half) / FINGERPRINT_GRID_RPM)
+  // assertCurve keeps rpm under RPM_CEILING, so this is at most 100 windows; the check keeps it so.
+  if (endIndex - startIndex + 1 > MAX_WINDOWS) throw new RangeError(`points span too wide an rpm range to fingerprint (${first}–${last} rpm)`)
   const area = cumulative(points)
   const lowHint = { i: 0 }
   const highHint = { i: 0 }
@@ -60,7 +66,8 @@ export function curveFingerprint(points: readonly PullPoint[]): string {
     const hi = integralAt(points, area, centre + half, highHint)
     averages.push((hi - lo) / FINGERPRINT_WINDOW_RPM)
   }
-  const top = Math.max(0, ...averages)
+  let top = 0
+  for (const value of averages) if (value > top) top = value
   let payload = ''
   for (const value of averages) {
     const q = top > 0 ? Math.min(LEVELS, Math.max(0, Math.round((value / top) * LEVELS))) : 0
@@ -80,7 +87,7 @@ function decodeFingerprint(fingerprint: string): Decoded | null {
   if (parts.length !== 3 || parts[0] !== VERSION) return null
   const start = Number.parseInt(parts[1] as string, 36)
   const payload = parts[2] as string
-  if (!Number.isFinite(start) || payload.length % 2 !== 0) return null
+  if (!Number.isFinite(start) || payload.length % 2 !== 0 || payload.length > 2 * MAX_WINDOWS) return null
   const values: number[] = []
   for (let i = 0; i < payload.length; i += 2) {
     const hi = ALPHABET.indexOf(payload[i] as string)
@@ -117,5 +124,6 @@ export function fingerprintDistance(a: string, b: string): number {
 
 /** True when two fingerprints are the same curve within the tolerance. */
 export function sameCurve(a: string, b: string, tolerance: number = FINGERPRINT_TOLERANCE): boolean {
+  nonNegative('tolerance', tolerance)
   return fingerprintDistance(a, b) <= tolerance
 }

@@ -1,5 +1,5 @@
 /** Cylinder geometry: displacement, compression, piston speed and rod ratio. */
-import { finite, nonNegative, positive, positiveInteger, within } from './guard'
+import { finite, nonNegative, positive, positiveInteger, record, show, within } from './guard'
 import { CC_PER_CI } from './units'
 
 /** Area of a circle of the given diameter, π d² / 4. */
@@ -43,14 +43,48 @@ export interface CompressionInput {
   deckClearanceIn: number
 }
 
+/**
+ * Which lift the cam card's intake closing is quoted at: 'lift050' at 0.050 in tappet lift (the
+ * usual card figure), 'seat' at the seat or advertised duration (the valve really closed).
+ */
+export type ValveTimingBasis = 'lift050' | 'seat'
+
+export const VALVE_TIMING_BASES: readonly { id: ValveTimingBasis, label: string }[] = [
+  { id: 'lift050', label: 'At 0.050 in lift' },
+  { id: 'seat', label: 'Seat (advertised)' },
+]
+
+/**
+ * Degrees the intake valve closes later at the seat than at 0.050 in lift, for converting a
+ * 0.050 in figure: about 15° on a typical hydraulic or solid flat-tappet or roller lobe (common
+ * practice; the real figure depends on the lobe, so the seat figure from the cam card is better).
+ */
+export const SEAT_CLOSING_OFFSET_DEG = 15
+
 export interface DynamicCompressionInput extends CompressionInput {
   rodLengthIn: number
-  /** Intake valve closing, degrees after BDC (at the duration the cam card gives, 0.050 in here). */
+  /** Intake valve closing, degrees after BDC, on the timing basis below. */
   intakeClosesAbdcDeg: number
+  /**
+   * The basis of intakeClosesAbdcDeg. The usual dynamic-compression targets of the trade count
+   * from the seat closing, so a 0.050 in figure is moved SEAT_CLOSING_OFFSET_DEG later first.
+   * Left out, the figure is taken as the real (seat) closing and used as given.
+   */
+  timingBasis?: ValveTimingBasis
+}
+
+/** Intake closing at the seat, ° ABDC, from a closing on either basis (0.050 in + SEAT_CLOSING_OFFSET_DEG, common practice). */
+export function seatIntakeClosingAbdcDeg(intakeClosesAbdcDeg: number, timingBasis: ValveTimingBasis): number {
+  finite('intakeClosesAbdcDeg', intakeClosesAbdcDeg)
+  if (timingBasis !== 'lift050' && timingBasis !== 'seat') {
+    throw new RangeError(`timingBasis must be 'lift050' or 'seat' (got ${show(timingBasis)})`)
+  }
+  return timingBasis === 'lift050' ? intakeClosesAbdcDeg + SEAT_CLOSING_OFFSET_DEG : intakeClosesAbdcDeg
 }
 
 /** Clearance volume per cylinder in cm³: chamber + piston + gasket + deck volume. */
 export function clearanceVolumeCc(input: CompressionInput): number {
+  record('input', input, 'bore, stroke, chamber, piston, gasket and deck figures')
   const bore = positive('boreIn', input.boreIn)
   positive('strokeIn', input.strokeIn)
   const chamber = positive('chamberCc', input.chamberCc)
@@ -97,10 +131,15 @@ export function effectiveStrokeIn(strokeIn: number, rodLengthIn: number, intakeC
   return pistonTravelIn(strokeIn, rodLengthIn, 180 + intakeClosesAbdcDeg)
 }
 
-/** Dynamic compression ratio: compression counted from intake closing, effective stroke from the crank-slider geometry. */
+/**
+ * Dynamic compression ratio: compression counted from the seat closing of the intake valve, the
+ * effective stroke from the crank-slider geometry. A 0.050 in closing is moved to the seat first
+ * (timingBasis 'lift050').
+ */
 export function dynamicCompressionRatio(input: DynamicCompressionInput): number {
   const clearance = clearanceVolumeCc(input)
-  const stroke = effectiveStrokeIn(input.strokeIn, input.rodLengthIn, input.intakeClosesAbdcDeg)
+  const ivc = seatIntakeClosingAbdcDeg(input.intakeClosesAbdcDeg, input.timingBasis ?? 'seat')
+  const stroke = effectiveStrokeIn(input.strokeIn, input.rodLengthIn, ivc)
   const swept = circleArea(input.boreIn) * stroke * CC_PER_CI
   return (swept + clearance) / clearance
 }

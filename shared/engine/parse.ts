@@ -3,19 +3,25 @@
  * and/or power in either unit system. Never throws: bad input comes back as errors with rows.
  */
 import Papa from 'papaparse'
+import { show, text as textArg } from './guard'
+import { FIGURE_CEILING, PULL_MAX_PREAMBLE_ROWS, PULL_MAX_ROWS, RPM_CEILING } from './limits'
 import { HP_TORQUE_CROSSOVER_RPM } from './power'
 import type { ParseColumns, ParseError, ParseResult, PowerUnit, PullPoint, TorqueUnit } from './types'
 import { NM_PER_LBFT, W_PER_HP, W_PER_PS } from './units'
 
 export const PARSE_LIMITS = {
-  /** Most data rows a pull file may hold. */
-  maxRows: 200_000,
+  /** Most data rows a pull file may hold (PULL_MAX_ROWS: 20,000, several times the longest real pull). */
+  maxRows: PULL_MAX_ROWS,
+  /** Highest rpm a row may give (the module's RPM_CEILING). */
+  maxRpm: RPM_CEILING,
+  /** Largest power (hp) or torque (lb·ft) a row may give once converted (the module's FIGURE_CEILING). */
+  maxFigure: FIGURE_CEILING,
   /** Fewest data rows that make a curve. */
   minRows: 3,
   /** Row errors listed before the rest are counted in one line. */
   maxListedErrors: 50,
   /** Lines above the header that may be skipped (a title, the shop's notes). */
-  maxPreambleRows: 30,
+  maxPreambleRows: PULL_MAX_PREAMBLE_ROWS,
 } as const
 
 type Delimiter = ParseColumns['delimiter']
@@ -41,6 +47,7 @@ function tokensOf(cell: string): string[] {
 
 /** What a header cell names: rpm, torque (with unit) or power (with unit); null for anything else. */
 export function classifyHeader(cell: string): Classified | null {
+  textArg('cell', cell)
   const tokens = tokensOf(cell)
   if (tokens.length === 0) return null
   const has = (word: string): boolean => tokens.includes(word)
@@ -63,10 +70,18 @@ export function classifyHeader(cell: string): Classified | null {
   return null
 }
 
-/** A number from a cell, accepting a decimal comma; null for an empty cell, NaN for text. */
+/** A number from a cell, accepting a decimal comma; null for an empty cell, a RangeError for text that is not a number. */
 export function parseNumberCell(raw: string | undefined): number | null {
+  if (raw !== undefined && typeof raw !== 'string') throw new RangeError(`raw must be the text of a cell (got ${show(raw)})`)
+  const value = cellNumber(raw)
+  if (value !== null && Number.isNaN(value)) throw new RangeError(`raw ${shown(raw)} is not a number`)
+  return value
+}
+
+/** parseNumberCell for the parser's own loop: NaN for text, so a row's problems can be listed without throwing. */
+function cellNumber(raw: string | undefined): number | null {
   if (raw === undefined || raw.length === 0) return null
-  // Trim only when needed: this runs on every cell of files with up to 200,000 rows.
+  // Trim only when needed: this runs on every cell of files with up to 20,000 rows.
   const s = raw.charCodeAt(0) <= 32 || raw.charCodeAt(raw.length - 1) <= 32 ? raw.trim() : raw
   if (s === '') return null
   const quick = simpleDecimal(s)
@@ -185,12 +200,13 @@ function rowProblems(
   tq: number | null, tqText: string | undefined,
   pw: number | null, pwText: string | undefined,
 ): string[] | null {
-  const fine = rpm !== null && rpm > 0 && (tq === null || tq >= 0) && (pw === null || pw >= 0) && (tq !== null || pw !== null)
+  const fine = rpm !== null && rpm > 0 && rpm <= RPM_CEILING && (tq === null || tq >= 0) && (pw === null || pw >= 0) && (tq !== null || pw !== null)
   if (fine) return null // NaN fails every comparison above, so a text cell never lands here
   const out: string[] = []
   if (rpm === null) out.push('The rpm cell is empty.')
   else if (Number.isNaN(rpm)) out.push(`rpm ${shown(rpmText)} is not a number.`)
   else if (rpm <= 0) out.push(`rpm ${rpm} must be above zero.`)
+  else if (rpm > RPM_CEILING) out.push(`rpm ${rpm} is above the ${RPM_CEILING.toLocaleString('en-US')} rpm ceiling no engine pull reaches: check the rpm column (is it in rpm, not a wheel or roller speed?).`)
   if (tq !== null && Number.isNaN(tq)) out.push(`Torque ${shown(tqText)} is not a number.`)
   if (pw !== null && Number.isNaN(pw)) out.push(`Power ${shown(pwText)} is not a number.`)
   if (tq === null && pw === null) out.push('The row has neither torque nor power.')
@@ -247,7 +263,7 @@ function parseText(input: unknown): ParseResult {
   let firstData = header.rowIndex + 1
   let columns = header.columns
   const maybeUnits = rows[firstData]
-  if (maybeUnits && maybeUnits.some(c => c.trim() !== '') && maybeUnits.every(c => parseNumberCell(c) === null || Number.isNaN(parseNumberCell(c) as number))) {
+  if (maybeUnits && maybeUnits.some(c => c.trim() !== '') && maybeUnits.every(c => cellNumber(c) === null || Number.isNaN(cellNumber(c) as number))) {
     const merged = header.cells.map((c, i) => classifyHeader(`${c} ${maybeUnits[i] ?? ''}`))
     const unitHits = maybeUnits.filter(c => classifyHeader(c) !== null).length
     if (unitHits > 0) {
@@ -301,14 +317,14 @@ function parseText(input: unknown): ParseResult {
     if (isBlankRow(cells)) continue
     dataRows++
     if (dataRows > PARSE_LIMITS.maxRows) {
-      return fileError(`The file has more than ${PARSE_LIMITS.maxRows.toLocaleString('en-US')} data rows; trim it to the pull itself.`)
+      return fileError(`The file has more than ${PARSE_LIMITS.maxRows.toLocaleString('en-US')} data rows, more than any dyno pull logs (a few hundred samples a second over tens of seconds); trim it to the pull itself.`)
     }
     const rpmText = cells[rpmCol.index]
     const tqText = tqCol ? cells[tqCol.index] : undefined
     const pwText = hpCol ? cells[hpCol.index] : undefined
-    const rpm = parseNumberCell(rpmText)
-    const tq = parseNumberCell(tqText)
-    const pw = parseNumberCell(pwText)
+    const rpm = cellNumber(rpmText)
+    const tq = cellNumber(tqText)
+    const pw = cellNumber(pwText)
     const problems = rowProblems(rpm, rpmText, tq, tqText, pw, pwText)
     if (problems || rpm === null) {
       for (const message of problems ?? []) addError(rowNo, message)
@@ -328,6 +344,10 @@ function parseText(input: unknown): ParseResult {
     if (lbFt === null && hp !== null) {
       lbFt = (hp * HP_TORQUE_CROSSOVER_RPM) / rpm
       if (tqCol) filledRows++
+    }
+    if ((hp as number) > FIGURE_CEILING || (lbFt as number) > FIGURE_CEILING) {
+      addError(rowNo, `Power or torque above ${FIGURE_CEILING.toLocaleString('en-US')} (hp or lb·ft) is beyond any engine: check the columns and their units.`)
+      continue
     }
     points.push({ rpm, hp: hp as number, lbFt: lbFt as number })
   }
@@ -357,5 +377,6 @@ function parseText(input: unknown): ParseResult {
 
 /** Units of the columns read, for display ("N·m", "kW"). */
 export function columnUnitLabel(unit: TorqueUnit | PowerUnit): string {
+  if (typeof unit !== 'string' || !Object.hasOwn(UNIT_LABEL, unit)) throw new RangeError(`unit must be one of ${Object.keys(UNIT_LABEL).join(', ')} (got ${show(unit)})`)
   return UNIT_LABEL[unit]
 }

@@ -18,7 +18,11 @@ export const NM_PER_LBFT = 0.3048 * N_PER_LBF
 export const W_PER_HP = 550 * 0.3048 * N_PER_LBF
 /** 1 metric horsepower (PS) = 75 kgf·m/s = 735.49875 W exactly. */
 export const W_PER_PS = 735.49875
-/** 1 inHg (32 °F) = 3386.389 Pa (NIST SP 811 B.8, conventional). */
+/**
+ * 1 inHg = 3386.389 Pa: the conventional inch of mercury (NIST SP 811 B.8, "inch of mercury,
+ * conventional"), the one barometers and the correction standards are read in. The 32 °F inch of
+ * mercury is 3386.38 Pa in the same table, 0.0003 % apart.
+ */
 export const PA_PER_INHG = 3386.389
 /** 1 mbar = 100 Pa exactly. */
 export const PA_PER_MBAR = 100

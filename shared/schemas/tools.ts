@@ -1,6 +1,7 @@
 import { z } from 'zod'
 import { CORRECTION_STANDARDS, type CorrectionStandard, type FuelKey } from '../engine/types'
 import { fuelDefaults } from '../engine/fuel'
+import { VALVE_TIMING_BASES, type ValveTimingBasis } from '../engine/geometry'
 import { type Quantity, type UnitSystem, convertBetween, toImperial, unitOf } from '../tools/quantities'
 
 /**
@@ -123,12 +124,12 @@ export const compressionFields = [
   { key: 'gasketBoreIn', label: 'Gasket bore', quantity: 'length', range: { imperial: [1, 8.5], metric: [25, 215] }, digits: { imperial: 3, metric: 2 } },
   { key: 'gasketThicknessIn', label: 'Gasket thickness', quantity: 'length', range: { imperial: [0, 0.25], metric: [0, 6.35] }, digits: { imperial: 3, metric: 3 }, hint: 'Compressed' },
   { key: 'deckClearanceIn', label: 'Deck clearance', quantity: 'length', range: { imperial: [-0.1, 0.2], metric: [-2.5, 5] }, digits: { imperial: 3, metric: 3 }, hint: 'Piston below the deck positive, out of the hole negative' },
-  { key: 'intakeClosesAbdcDeg', label: 'Intake closes', unit: '° ABDC', range: same(0, 120), digits: both(1), hint: 'At 0.050 in lift, from the cam events calculator' },
+  { key: 'intakeClosesAbdcDeg', label: 'Intake closes', unit: '° ABDC', range: same(0, 120), digits: both(1), hint: 'As the cam card gives it, on the basis chosen above' },
 ] as const satisfies readonly ToolField[]
 
 export const camFields = [
-  { key: 'intakeDurationDeg', label: 'Intake duration', unit: '°', range: same(100, 340), digits: both(1), hint: 'Crank degrees at 0.050 in lift' },
-  { key: 'exhaustDurationDeg', label: 'Exhaust duration', unit: '°', range: same(100, 340), digits: both(1), hint: 'Crank degrees at 0.050 in lift' },
+  { key: 'intakeDurationDeg', label: 'Intake duration', unit: '°', range: same(100, 340), digits: both(1), hint: 'Crank degrees, at the lift chosen above' },
+  { key: 'exhaustDurationDeg', label: 'Exhaust duration', unit: '°', range: same(100, 340), digits: both(1), hint: 'Crank degrees, at the lift chosen above' },
   { key: 'lobeSeparationDeg', label: 'Lobe separation', unit: '°', range: same(80, 140), digits: both(1), hint: 'Cam degrees' },
   { key: 'intakeCenterlineDeg', label: 'Intake centreline', unit: '° ATDC', range: same(60, 160), digits: both(1), hint: 'As installed' },
 ] as const satisfies readonly ToolField[]
@@ -172,6 +173,10 @@ export const airflowSchema = (system: UnitSystem) => toolSchema(airflowFields, s
 export const fuelSchema = (system: UnitSystem) => toolSchema(fuelFields, system)
 export const correctionSchema = (system: UnitSystem) => toolSchema(correctionFields, system)
 
+const timingBasisIds = VALVE_TIMING_BASES.map(b => b.id) as [ValveTimingBasis, ...ValveTimingBasis[]]
+/** Which lift the cam card quotes its durations and events at (0.050 in, or seat / advertised). */
+export const timingBasisSchema = z.enum(timingBasisIds, { error: `Timing basis must be one of ${timingBasisIds.join(', ')}` })
+
 /** How the engine breathes, as far as fuel sizing cares: a power adder burns richer. */
 export const POWER_ADDERS = [
   { id: 'none', label: 'None (naturally aspirated)' },
@@ -189,7 +194,7 @@ export const fuelChoiceSchema = z.object({
   adder: z.enum(adderIds, { error: `Power adder must be one of ${adderIds.join(', ')}` }),
 })
 
-/** The common-practice BSFC, lb/(hp·h), for a fuel with or without a power adder. */
+/** The default BSFC, lb/(hp·h), for a fuel with or without a power adder: gasoline's (common practice) scaled by the stoichiometric ratio. */
 export function commonBsfc(fuel: FuelKey, adder: PowerAdder): number {
   const d = fuelDefaults[fuel]
   return adder === 'none' ? d.bsfcNa : d.bsfcBoosted

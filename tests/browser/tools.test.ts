@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import {
   airflowCfm, bmepKpa, bmepPsi, camEvents, cToF, ciToLitres, correctionValidity, displacementCi, dynamicCompressionRatio, fuelDefaults,
   hpFromTorque, hpPerCi, injectorSizeLbHr, kwFromNm, lbHrToCcMin, kpaToInHg, meanPistonSpeedFtMin, mmToIn, rodStrokeRatio,
-  staticCompressionRatio, type CamEvents, type CorrectionStandard,
+  SEAT_CLOSING_OFFSET_DEG, STANDARD_LIMITS, staticCompressionRatio, type CamEvents, type CorrectionStandard,
 } from '../../shared/engine'
 import { baseUrl } from '../support/context'
 import { isLocal, openBrowser } from '../support/browser'
@@ -65,7 +65,16 @@ describe('calculators page in Chromium', () => {
       'compression-deckClearanceIn': '0', 'compression-intakeClosesAbdcDeg': '42',
     })
     await expectFigure('compression-static', staticCompressionRatio({ ...engine, ...heads }), 2)
-    await expectFigure('compression-dynamic', dynamicCompressionRatio({ ...engine, ...heads }), 2)
+    // The page starts on 0.050 in timing: the closing is moved to the seat (+15°, common practice) and the figure says so.
+    await expectFigure('compression-dynamic', dynamicCompressionRatio({ ...engine, ...heads, timingBasis: 'lift050' }), 2)
+    await expectFigure('compression-seat-closing', 42 + SEAT_CLOSING_OFFSET_DEG, 1)
+    expect(await text('compression-card')).toMatch(/Seat timing: the 0\.050 in closing \+ 15° \(common practice\)/)
+    await at('compression-basis-seat').click()
+    await expectFigure('compression-dynamic', dynamicCompressionRatio({ ...engine, ...heads, timingBasis: 'seat' }), 2)
+    await expectFigure('compression-seat-closing', 42, 1)
+    expect(await text('compression-card')).toMatch(/Seat timing, as the cam card gives it/)
+    await at('compression-basis-lift050').click()
+    await expectFigure('compression-dynamic', dynamicCompressionRatio({ ...engine, ...heads, timingBasis: 'lift050' }), 2)
 
     await fill({ 'power-lbFt': '520', 'power-rpm': '5400', 'power-displacementCi': String(ci.toFixed(1)) })
     const hp = hpFromTorque(520, 5400)
@@ -95,7 +104,7 @@ describe('calculators page in Chromium', () => {
       intakeClosesAbdcDeg: await value('compression-intakeClosesAbdcDeg'),
     }
     await expectFigure('compression-static', staticCompressionRatio(metricHeads), 2)
-    await expectFigure('compression-dynamic', dynamicCompressionRatio(metricHeads), 2)
+    await expectFigure('compression-dynamic', dynamicCompressionRatio({ ...metricHeads, timingBasis: 'lift050' }), 2)
 
     // Power and BMEP in metric against the module's own metric functions (N·m, litres).
     expect(await text('power-lbFt-unit')).toBe('N·m')
@@ -119,6 +128,12 @@ describe('calculators page in Chromium', () => {
     ]
     for (const [test, key] of camFigures) await expectFigure(test, events[key], 1)
     expect(await text('cam-card')).toContain('common practice')
+    // At 0.050 in the seat closing is estimated 15° later (common practice); on seat timing it is the closing itself.
+    await expectFigure('cam-intake-seats', events.intakeClosesAbdcDeg + SEAT_CLOSING_OFFSET_DEG, 1)
+    expect(await text('cam-figures')).toContain('At 0.050 in lift')
+    await at('cam-basis-seat').click()
+    await expectFigure('cam-intake-seats', events.intakeClosesAbdcDeg, 1)
+    expect(await text('cam-figures')).toContain('At the seat')
 
     await fill({ 'piston-strokeIn': '4.000', 'piston-rodLengthIn': '6.125', 'piston-rpm': '7800' })
     await expectFigure('piston-speed', meanPistonSpeedFtMin(4, 7800), 0)
@@ -128,11 +143,14 @@ describe('calculators page in Chromium', () => {
     await fill({ 'airflow-displacementCi': '427.6', 'airflow-rpm': '6800', 'airflow-volumetricEfficiency': '95' })
     await expectFigure('airflow-flow', airflowCfm(427.6, 6800, 0.95), 0)
 
-    // E85 with nitrous: the BSFC field starts from the module's common-practice figure for a power adder.
+    // E85 with nitrous: the BSFC field starts from the module's default for a power adder, gasoline's scaled by 14.7 / 9.8.
     await at('fuel-fuel').selectOption('e85')
     await at('fuel-adder').selectOption('nitrous')
     await expect.poll(() => at('fuel-bsfc').inputValue()).toBe(fuelDefaults.e85.bsfcBoosted.toFixed(2))
-    expect(await text('fuel-bsfc-note')).toMatch(/^Common practice, E85 with a power adder/)
+    expect(fuelDefaults.e85.bsfcBoosted.toFixed(2)).toBe('0.90')
+    expect(await text('fuel-bsfc-note')).toMatch(/^Default BSFC, E85 with a power adder: gasoline's 0\.60 lb\/\(hp·h\) \(common practice for power mixtures\) × 14\.7 \/ 9\.8/)
+    await expectFigure('fuel-bsfc-used', fuelDefaults.e85.bsfcBoosted, 2)
+    expect(await text('fuel-figures')).toContain('The default for E85')
     expect(await text('fuel-card')).toContain('Common practice: 80 %')
     await fill({ 'fuel-hp': '750', 'fuel-injectors': '8', 'fuel-maxDutyCycle': '85' })
     const lbHr = injectorSizeLbHr({ hp: 750, bsfc: fuelDefaults.e85.bsfcBoosted, injectors: 8, maxDutyCycle: 0.85 })
@@ -148,13 +166,21 @@ describe('calculators page in Chromium', () => {
     // A measured BSFC typed over the common-practice one is the figure used.
     await fill({ 'fuel-bsfc': '0.72' })
     await expectFigure('fuel-injector-lbhr', injectorSizeLbHr({ hp: 750, bsfc: 0.72, injectors: 8, maxDutyCycle: 0.85 }), 1)
+    await expectFigure('fuel-bsfc-used', 0.72, 2)
+    expect(await text('fuel-figures')).toContain('Your figure, not the default')
+
+    // Methanol naturally aspirated: 0.50 × 14.7 / 6.4 = 1.15 (rounded up), 2.3 × gasoline's.
+    await at('fuel-fuel').selectOption('methanol')
+    await at('fuel-adder').selectOption('none')
+    await expect.poll(() => at('fuel-bsfc').inputValue()).toBe('1.15')
+    await expectFigure('fuel-injector-lbhr', injectorSizeLbHr({ hp: 750, bsfc: fuelDefaults.methanol.bsfcNa, injectors: 8, maxDutyCycle: 0.85 }), 1)
   })
 
   it('weather correction equals the module\'s under two standards and in metric, and says when the weather is outside the standard\'s limits', async () => {
     await openTools()
-    // A hot day (100 °F is 37.8 °C), beyond the temperatures the module allows for SAE J1349.
-    const weather = { baroInHg: 28.6, airTempF: 100, humidityPct: 60 }
-    await fill({ 'correction-baroInHg': '28.60', 'correction-airTempF': '100', 'correction-humidityPct': '60', 'correction-observedHp': '500' })
+    // A hot day (118 °F is 47.8 °C), beyond the 318.2 K the published band allows for SAE J1349.
+    const weather = { baroInHg: 28.6, airTempF: 118, humidityPct: 60 }
+    await fill({ 'correction-baroInHg': '28.60', 'correction-airTempF': '118', 'correction-humidityPct': '60', 'correction-observedHp': '500' })
     const check = (standard: CorrectionStandard, w = weather) => correctionValidity(standard, w)
     await expectFigure('correction-factor', check('SAE_J1349_2004').factor, 4)
     await expectFigure('correction-corrected', 500 * check('SAE_J1349_2004').factor, 1)
@@ -162,6 +188,9 @@ describe('calculators page in Chromium', () => {
     await expect.poll(() => text('correction-validity')).toMatch(/^Outside the limits/)
     expect(check('SAE_J1349_2004').reasons.length).toBeGreaterThan(0)
     for (const reason of check('SAE_J1349_2004').reasons) expect(await text('correction-validity')).toContain(reason)
+    // The band's source is on screen (EU Regulation 134/2014, Annex I, Appendix 2.2), never "from memory".
+    expect(await text('correction-validity')).toContain(STANDARD_LIMITS.SAE_J1349_2004.source)
+    expect(await text('correction-validity')).not.toMatch(/memory/i)
 
     await at('correction-standard').selectOption('DIN_70020')
     await expectFigure('correction-factor', check('DIN_70020').factor, 4)

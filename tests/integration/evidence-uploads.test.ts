@@ -7,9 +7,10 @@ import { deletePull, previewPull, recheckSubmittedPulls, savePull } from '../../
 import { changeStatus, createDraft, updateBuild } from '../../server/services/listing-editor'
 import type { UploadStore } from '../../server/services/listing-files'
 import type { Database } from '../../server/database/types'
-import { convertCurve, displacementCi, parsePull, peaks } from '../../shared/engine'
+import { PULL_MAX_ROWS, RPM_CEILING, convertCurve, displacementCi, parsePull, peaks } from '../../shared/engine'
 import { UPLOAD_LIMITS } from '../../server/utils/uploads'
-import { schema, testDb } from '../support/context'
+import { PERSONAS, signedIn, type CookieJar } from '../support/auth'
+import { api, schema, testDb } from '../support/context'
 import { buildIds, COMPLETE_COMBINATION, fileRowCount, inventedPullCsv, pullMeta, pullsOf, removeBuildsSince, storedKeys, testUploadsDir, testUploadStore, twoShops } from '../support/listings'
 
 let ctx: Awaited<ReturnType<typeof testDb>>
@@ -252,5 +253,62 @@ describe('the evidence report follows the combination', () => {
     // Back in the queue, its report is re-run against the new combination.
     expect(await recheckSubmittedPulls(db, id, readStored)).toBe(1)
     expect((await bmepOf(id)).figures!.displacementCi).toBeCloseTo(displacementCi(4.155, 4, 8), 6)
+  })
+})
+
+describe('a hostile pull file cannot hurt the server (over HTTP, real MariaDB)', () => {
+  let builder: CookieJar
+  beforeAll(async () => {
+    builder = await signedIn(PERSONAS.builder)
+  })
+  const as = (init: RequestInit): RequestInit => ({ ...init, headers: { ...(init.headers ?? {}), cookie: builder.header() } })
+  const form = (text: string) => {
+    const data = new FormData()
+    data.set('meta', JSON.stringify(pullMeta()))
+    data.set('pull', new Blob([text], { type: 'text/csv' }), 'pull.csv')
+    return data
+  }
+  async function draftOverHttp(title: string) {
+    const created = await api('/api/me/builds', as({ method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ title }) }))
+    expect(created.status).toBe(201)
+    const id = created.body.id as number
+    const patched = await api(`/api/me/builds/${id}`, as({ method: 'PATCH', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ ...COMPLETE_COMBINATION }) }))
+    expect(patched.status).toBe(200)
+    return id
+  }
+  /** Sends the file to the preview and the save route: each answers 422 with the message, nothing is stored, and the server still answers. */
+  async function refusedOverHttp(id: number, text: string, message: RegExp) {
+    const rowsBefore = await fileRowCount(ctx.db)
+    const keysBefore = storedKeys()
+    for (const path of [`/api/me/builds/${id}/pulls/preview`, `/api/me/builds/${id}/pulls`]) {
+      const res = await api(path, as({ method: 'POST', body: form(text) }))
+      expect(res.status, path).toBe(422)
+      expect(res.body.message, path).toMatch(message)
+    }
+    expect(await fileRowCount(ctx.db)).toBe(rowsBefore)
+    expect(storedKeys()).toEqual(keysBefore)
+    expect(await pullsOf(ctx.db, id)).toHaveLength(0)
+    const health = await api('/api/health')
+    expect(health.status).toBe(200)
+  }
+
+  it('a 3-row file whose last rpm is 1e11 answers 422 naming the rpm ceiling, stores nothing, and the server still answers', async () => {
+    const id = await draftOverHttp('Hostile rpm')
+    const text = 'RPM,Torque (lb-ft),Power (hp)\n3000,400.1,228.5\n3500,410.2,273.4\n1e11,415.0,316.1\n'
+    await refusedOverHttp(id, text, new RegExp(`row 4: rpm 100000000000 is above the ${RPM_CEILING.toLocaleString('en-US')} rpm ceiling`))
+    // 1e8 overflowed the call stack before; it is the same refusal now.
+    await refusedOverHttp(id, text.replace('1e11', '1e8'), /rpm ceiling/)
+  })
+
+  it(`a file over the ${PULL_MAX_ROWS.toLocaleString('en-US')}-row bound answers 422 naming the bound, stores nothing, and the server still answers`, async () => {
+    const id = await draftOverHttp('Too many rows')
+    const lines = ['RPM,Torque (lb-ft),Power (hp)']
+    for (let i = 0; i <= PULL_MAX_ROWS; i++) {
+      const rpm = 2000 + i * 0.25
+      lines.push(`${rpm.toFixed(2)},400.0,${((400 * rpm) / 5252.113).toFixed(2)}`)
+    }
+    const text = lines.join('\n')
+    expect(Buffer.byteLength(text)).toBeLessThan(UPLOAD_LIMITS.pull)
+    await refusedOverHttp(id, text, /more than 20,000 data rows/)
   })
 })

@@ -6,7 +6,7 @@ import {
 import {
   airflowFields, airflowSchema, camFields, camSchema, commonBsfc, compressionFields, compressionSchema, correctionFields,
   correctionSchema, correctionStandardSchema, displacementFields, displacementSchema, fieldUnit, fuelChoiceSchema, fuelFields,
-  fuelSchema, pistonFields, pistonSchema, powerFields, powerSchema, rangeErrorMessage, rewriteValue, type ToolField,
+  fuelSchema, pistonFields, pistonSchema, powerFields, powerSchema, rangeErrorMessage, rewriteValue, timingBasisSchema, type ToolField,
 } from '../../shared/schemas/tools'
 import { UNIT_SYSTEMS, convertBetween, type UnitSystem } from '../../shared/tools/quantities'
 
@@ -124,5 +124,15 @@ describe('calculator inputs: units and messages', () => {
     expect(fuelChoiceSchema.safeParse({ fuel: 'e85', adder: 'rocket' }).success).toBe(false)
     expect(correctionStandardSchema.safeParse('UNCORRECTED').success).toBe(false)
     expect(correctionStandardSchema.safeParse('DIN_70020').success).toBe(true)
+  })
+})
+
+describe('cam card timing basis', () => {
+  it('accepts 0.050 in lift and seat timing only, the module\'s two bases', () => {
+    expect(timingBasisSchema.safeParse('lift050').success).toBe(true)
+    expect(timingBasisSchema.safeParse('seat').success).toBe(true)
+    const r = timingBasisSchema.safeParse('advertised')
+    expect(r.success).toBe(false)
+    expect(r.error!.issues[0]!.message).toBe('Timing basis must be one of lift050, seat')
   })
 })

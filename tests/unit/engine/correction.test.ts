@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import fc from 'fast-check'
 import {
-  CORRECTION_STANDARDS, SATURATION_FORMULA, convertCurve, correctionFactor, correctionValidity, saturationPressureKpa,
+  CORRECTION_STANDARDS, PUBLISHED_TEMP_BAND_C, SATURATION_FORMULA, STANDARD_LIMITS, convertCurve, correctionFactor, correctionValidity, saturationPressureKpa,
 } from '../../../shared/engine'
 import type { CorrectionStandard, PullPoint, Weather } from '../../../shared/engine'
 import { inventedPull, math, rel } from './helpers'
@@ -74,9 +74,16 @@ describe('correction factors on an invented hot, humid day (29.12 inHg, 88 °F, 
   it('SAE J1349 (1990): 1.18 × (99/Pd) × √((T+273)/298) − 0.18', () => {
     expect(rel(correctionFactor('SAE_J1349_1990', w), 1.18 * (99 / dry) * Math.sqrt((tC + 273) / 298) - 0.18)).toBeLessThan(2e-4)
   })
-  it('SAE J607: (29.92/Pd) × √((T°F + 460)/520), dry inHg', () => {
+  it('SAE J607: (29.92/Pd) × √((T°F + 459.67)/519.67), dry inHg, with the exact Rankine offset (NIST SP 811 B.8: T/°R = t/°F + 459.67)', () => {
     const dryInHg = math.unit(dry, 'kPa').toNumber('inHg')
-    expect(rel(correctionFactor('SAE_J607', w), (29.92 / dryInHg) * Math.sqrt((88 + 460) / 520))).toBeLessThan(2e-4)
+    expect(rel(correctionFactor('SAE_J607', w), (29.92 / dryInHg) * Math.sqrt((88 + 459.67) / 519.67))).toBeLessThan(2e-4)
+  })
+  it('SAE J607 on dry air uses 459.67 and 519.67 exactly, not the rounded 460 and 520 (NIST SP 811 B.8)', () => {
+    const f = correctionFactor('SAE_J607', { baroInHg: 28.5, airTempF: 100, humidityPct: 0 })
+    const exact = (29.92 / 28.5) * Math.sqrt((100 + 459.67) / 519.67)
+    const rounded = (29.92 / 28.5) * Math.sqrt((100 + 460) / 520)
+    expect(rel(f, exact)).toBeLessThan(1e-12)
+    expect(rel(f, rounded)).toBeGreaterThan(1e-5)
   })
   it('DIN 70020: (1013/p) × √((273 + t)/293), p total mbar', () => {
     const mbar = math.unit(29.12, 'inHg').toNumber('mbar')
@@ -117,16 +124,34 @@ describe('how the factors move with the weather (properties)', () => {
   })
 })
 
-describe('correctionValidity (allowed ranges from memory of the standards)', () => {
+describe('correctionValidity (temperature band of EU Regulation 134/2014, Annex I, Appendix 2.2; factor and pressure bands our own)', () => {
   it('reference conditions are valid for every standard', () => {
     for (const s of CORRECTION_STANDARDS) expect(correctionValidity(s.id, weatherAt(99.5, 25, 20)).valid).toBe(true)
   })
-  it('air at 40 °C lies outside the 15–35 °C of SAE J1349 and ISO 1585, and the reason says so', () => {
-    const hot = weatherAt(99, 40, 10)
+  it('air at 46 °C lies outside 283.2 K < T < 318.2 K (EU Regulation 134/2014, Annex I, App. 2.2) for SAE J1349 and ISO 1585, and the reason says so', () => {
+    const hot = weatherAt(99, 46, 10)
     for (const s of ['SAE_J1349_2004', 'ISO_1585'] as const) {
       const v = correctionValidity(s, hot)
       expect(v.valid).toBe(false)
       expect(v.reasons.join(' ')).toMatch(/temperature/)
+    }
+  })
+  it('the temperature band is 283.2 K < T < 318.2 K (EU Regulation 134/2014, Annex I, Appendix 2.2) for ISO 1585 and both SAE J1349 editions; every band names its source and none is "from memory"', () => {
+    expect(PUBLISHED_TEMP_BAND_C.min).toBeCloseTo(283.2 - 273.15, 12)
+    expect(PUBLISHED_TEMP_BAND_C.max).toBeCloseTo(318.2 - 273.15, 12)
+    for (const s of ['SAE_J1349_2004', 'SAE_J1349_1990', 'ISO_1585'] as const) {
+      expect(STANDARD_LIMITS[s].tempMinC).toBeCloseTo(10.05, 9)
+      expect(STANDARD_LIMITS[s].tempMaxC).toBeCloseTo(45.05, 9)
+      expect(STANDARD_LIMITS[s].source).toMatch(/EU Regulation 134\/2014, Annex I, Appendix 2\.2/)
+      // 12 °C and 44 °C lie inside the published band; 9 °C and 46 °C outside it.
+      expect(correctionValidity(s, weatherAt(99, 12, 10)).reasons.some(r => /temperature/.test(r))).toBe(false)
+      expect(correctionValidity(s, weatherAt(99, 44, 10)).reasons.some(r => /temperature/.test(r))).toBe(false)
+      expect(correctionValidity(s, weatherAt(99, 9, 10)).reasons.some(r => /below the 10\.05 °C/.test(r))).toBe(true)
+      expect(correctionValidity(s, weatherAt(99, 46, 10)).reasons.some(r => /above the 45\.05 °C/.test(r))).toBe(true)
+    }
+    for (const limits of Object.values(STANDARD_LIMITS)) {
+      expect(limits.source).not.toMatch(/memory/i)
+      expect(limits.source.length).toBeGreaterThan(20)
     }
   })
   it('a high-altitude barometer (24 inHg) pushes the ISO 1585 factor past 1.07 and the reason names the factor', () => {

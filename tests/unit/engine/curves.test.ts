@@ -24,17 +24,17 @@ const curveArb = fc.tuple(
 })
 
 describe('resample', () => {
-  it('linear interpolation reproduces a straight line exactly, on multiples of the step inside the data (no extrapolation)', () => {
-    const line = [3017, 3333, 4100, 5555, 6992].map(rpm => ({ rpm, hp: 0.08 * rpm + 12 }))
+  it('linear interpolation reproduces a straight torque line exactly, on multiples of the step inside the data (no extrapolation)', () => {
+    const line = [3017, 3333, 4100, 5555, 6992].map(rpm => ({ rpm, lbFt: 0.02 * rpm + 300, hp: ((0.02 * rpm + 300) * rpm) / K_5252 }))
     const out = resample(line, 100)
     expect(out[0]!.rpm).toBe(3100)
     expect(out[out.length - 1]!.rpm).toBe(6900)
     for (const p of out) {
       expect(p.rpm % 100).toBe(0)
-      expect(p.hp).toBeCloseTo(0.08 * p.rpm + 12, 9)
+      expect(p.lbFt).toBeCloseTo(0.02 * p.rpm + 300, 9)
     }
   })
-  it('each resampled value lies between the two data points around it (property)', () => {
+  it('each resampled torque lies between the two data points around it, and hp = lb·ft × rpm / 5252.113 at every point (33,000 ft·lbf/min per hp, 2π rad per rev; property)', () => {
     fc.assert(fc.property(curveArb, fc.integer({ min: 5, max: 250 }), (curve, step) => {
       const out = resample(curve, step)
       return out.every((p) => {
@@ -42,9 +42,21 @@ describe('resample', () => {
         const b = curve[i]!
         const a = curve[Math.max(0, i - 1)]!
         return p.rpm >= curve[0]!.rpm && p.rpm <= curve[curve.length - 1]!.rpm
-          && p.hp >= Math.min(a.hp, b.hp) - 1e-9 && p.hp <= Math.max(a.hp, b.hp) + 1e-9
+          && p.lbFt! >= Math.min(a.lbFt!, b.lbFt!) - 1e-9 && p.lbFt! <= Math.max(a.lbFt!, b.lbFt!) + 1e-9
+          && rel(p.hp, (p.lbFt! * p.rpm) / 5252.113) < 1e-6
       })
     }))
+  })
+  it('keeps hp and torque in step between samples: at a 1,000 rpm step, hp from the resampled torque, not interpolated apart (hp = lb·ft × rpm / 5252.113)', () => {
+    const coarse = inventedPull({ fromRpm: 3000, toRpm: 7000, stepRpm: 1000 })
+    const out = resample(coarse, 250)
+    const mid = out.find(p => p.rpm === 3500)!
+    const tq = (coarse[0]!.lbFt! + coarse[1]!.lbFt!) / 2
+    expect(mid.lbFt).toBeCloseTo(tq, 9)
+    expect(mid.hp).toBeCloseTo((tq * 3500) / 5252.113, 3)
+    // Interpolating hp separately would have given a figure about 1 hp away.
+    const separate = (coarse[0]!.hp + coarse[1]!.hp) / 2
+    expect(Math.abs(mid.hp - separate)).toBeGreaterThan(0.5)
   })
   it('grid points stay inside the range even when the division rounds (property; regression for a step of 499.99999999999943)', () => {
     expect(rpmGrid(0, 4999.999999999994, 499.99999999999943).every(r => r <= 4999.999999999994)).toBe(true)

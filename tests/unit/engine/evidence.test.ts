@@ -97,8 +97,8 @@ describe('checkEvidence', () => {
     expect(byId(checkEvidence(pullWith({}, { standard: 'UNCORRECTED', correctionFactor: 1.04 }), context), 'correction-factor').outcome).toBe('fail')
   })
 
-  it('correction-factor warns when the weather lies outside the standard\'s range (40 °C for SAE J1349)', () => {
-    const hot: Weather = { baroInHg: 29.6, airTempF: 104, humidityPct: 20 }
+  it('correction-factor warns when the weather lies outside the standard\'s range (47 °C for SAE J1349, past the 318.2 K of EU Regulation 134/2014, Annex I, App. 2.2)', () => {
+    const hot: Weather = { baroInHg: 29.6, airTempF: 116.6, humidityPct: 20 }
     const c = byId(checkEvidence(pullWith({ weather: hot }, { correctionFactor: correctionFactor('SAE_J1349_2004', hot) }), context), 'correction-factor')
     expect(c.outcome).toBe('warn')
     expect(c.message).toMatch(/temperature/)

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import fc from 'fast-check'
 import {
-  ciToLitres, displacementCi, dynamicCompressionRatio, litresToCi, meanPistonSpeedFtMin, pistonTravelIn,
+  SEAT_CLOSING_OFFSET_DEG, ciToLitres, displacementCi, dynamicCompressionRatio, seatIntakeClosingAbdcDeg, litresToCi, meanPistonSpeedFtMin, pistonTravelIn,
   rodStrokeRatio, staticCompressionRatio,
 } from '../../../shared/engine'
 import type { CompressionInput } from '../../../shared/engine'
@@ -97,6 +97,34 @@ describe('crank-slider geometry and dynamic compression', () => {
     expect(() => dynamicCompressionRatio({ ...smallBlock, rodLengthIn: 1.5, intakeClosesAbdcDeg: 60 })).toThrow(RangeError)
     expect(() => dynamicCompressionRatio({ ...smallBlock, rodLengthIn: 5.7, intakeClosesAbdcDeg: -5 })).toThrow(RangeError)
     expect(() => dynamicCompressionRatio({ ...smallBlock, rodLengthIn: 5.7, intakeClosesAbdcDeg: 200 })).toThrow(RangeError)
+  })
+})
+
+describe('dynamic compression: the timing basis of the intake closing', () => {
+  // The calculator page's default engine (invented): 4.030 × 3.480 in, 5.700 in rod, 64 cc chamber, 5 cc dish.
+  const page = { boreIn: 4.03, strokeIn: 3.48, rodLengthIn: 5.7, chamberCc: 64, pistonCc: 5, gasketBoreIn: 4.1, gasketThicknessIn: 0.04, deckClearanceIn: 0.005 }
+  const heywood = (ivc: number) => {
+    // Heywood 1988, eq. 2.4: V/Vc = 1 + ½(rc − 1)[R + 1 − cos θ − (R² − sin² θ)^½], θ = 180° + IVC.
+    const rc = staticCompressionRatio(page)
+    const R = page.rodLengthIn / (page.strokeIn / 2)
+    const th = ((180 + ivc) * Math.PI) / 180
+    return 1 + 0.5 * (rc - 1) * (R + 1 - Math.cos(th) - Math.sqrt(R * R - Math.sin(th) ** 2))
+  }
+  it('a 0.050 in closing is moved 15° later to the seat (common practice offset) before the geometry is applied', () => {
+    expect(SEAT_CLOSING_OFFSET_DEG).toBe(15)
+    expect(seatIntakeClosingAbdcDeg(36, 'lift050')).toBe(51)
+    expect(seatIntakeClosingAbdcDeg(51, 'seat')).toBe(51)
+    expect(() => seatIntakeClosingAbdcDeg(36, 'advertised' as never)).toThrow(/timingBasis/)
+  })
+  it('36° ABDC at 0.050 in reads 8.96, the figure at 51° seat (Heywood eq. 2.4); taken as seat timing it would read 9.61', () => {
+    const at050 = dynamicCompressionRatio({ ...page, intakeClosesAbdcDeg: 36, timingBasis: 'lift050' })
+    const atSeat = dynamicCompressionRatio({ ...page, intakeClosesAbdcDeg: 51, timingBasis: 'seat' })
+    expect(rel(at050, heywood(51))).toBeLessThan(1e-12)
+    expect(at050).toBe(atSeat)
+    expect(at050.toFixed(2)).toBe('8.96')
+    expect(dynamicCompressionRatio({ ...page, intakeClosesAbdcDeg: 36, timingBasis: 'seat' }).toFixed(2)).toBe('9.61')
+    // Left out, the closing is taken as the seat closing.
+    expect(dynamicCompressionRatio({ ...page, intakeClosesAbdcDeg: 36 })).toBe(dynamicCompressionRatio({ ...page, intakeClosesAbdcDeg: 36, timingBasis: 'seat' }))
   })
 })
 

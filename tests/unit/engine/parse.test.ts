@@ -138,27 +138,33 @@ describe('parsePull: malformed files return errors and never throw', () => {
     const e = errors(parsePull('RPM,Torque,Power\n0,400,0\n3500,410,-273.2\n4000,415,316.1\n4500,420,360\n'))
     expect(e.map(x => x.row)).toEqual([2, 3])
   })
-  it('100,000 rows of mixed garbage: errors capped and counted, no throw', () => {
+  it('19,000 rows of mixed garbage: errors capped and counted, no throw', () => {
     const random = rng(11)
     const lines = ['RPM,Torque,Power']
-    for (let i = 0; i < 100_000; i++) lines.push(random() < 0.5 ? `${3000 + i * 0.04},x${i},${i}` : `${random()},${random()}`)
+    for (let i = 0; i < 19_000; i++) lines.push(random() < 0.5 ? `${3000 + i * 0.04},x${i},${i}` : `${random()},${random()}`)
     const e = errors(parsePull(lines.join('\n')))
     expect(e.length).toBe(PARSE_LIMITS.maxListedErrors + 1)
     expect(e[e.length - 1]!.message).toMatch(/more problem/)
   }, HEAVY)
-  it('100,000 good rows parse (within the 200,000-row limit)', () => {
+  it('20,000 good rows parse (the row bound itself)', () => {
+    expect(PARSE_LIMITS.maxRows).toBe(20_000)
     const lines = ['RPM,Torque (lb-ft),Power (hp)']
-    for (let i = 0; i < 100_000; i++) {
+    for (let i = 0; i < PARSE_LIMITS.maxRows; i++) {
       const rpm = 2000 + i * 0.05
       const tq = 400 + Math.sin(i / 5000) * 30
       lines.push(`${rpm.toFixed(2)},${tq.toFixed(3)},${((tq * rpm) / K_5252).toFixed(3)}`)
     }
-    expect(ok(parsePull(lines.join('\n'))).points).toHaveLength(100_000)
+    expect(ok(parsePull(lines.join('\n'))).points).toHaveLength(PARSE_LIMITS.maxRows)
   }, HEAVY)
-  it('more than 200,000 rows is refused', () => {
+  it('more than 20,000 rows is refused with a per-file error naming the bound, even when the file holds 150,000', () => {
     const lines = ['RPM,HP']
-    for (let i = 0; i < PARSE_LIMITS.maxRows + 1; i++) lines.push(`${1000 + i},1`)
-    expect(errors(parsePull(lines.join('\n')))[0]!.message).toMatch(/more than 200,000/)
+    for (let i = 0; i < 150_000; i++) lines.push(`${1000 + i * 0.1},1`)
+    const e = errors(parsePull(lines.join('\n')))
+    expect(e).toHaveLength(1)
+    expect(e[0]!.row).toBe(0)
+    expect(e[0]!.message).toMatch(/more than 20,000 data rows/)
+    const justOver = ['RPM,HP', ...Array.from({ length: PARSE_LIMITS.maxRows + 1 }, (_, i) => `${1000 + i * 0.5},1`)]
+    expect(errors(parsePull(justOver.join('\n')))[0]!.message).toMatch(/more than 20,000/)
   }, HEAVY)
   it('unpaired quotes', () => {
     const e = errors(parsePull('RPM,Torque,Power\n3000,"400,228.5\n3500,410,273.2\n4000,415,316.1\n'))
