@@ -58,7 +58,8 @@ export function combinationFigures(f: FigureInputs, peakTorqueLbFt: number | nul
     ? attempt(() => camEvents({ intakeDurationDeg: f.camIntakeDurationDeg!, exhaustDurationDeg: f.camExhaustDurationDeg!, lobeSeparationDeg: f.camLobeSeparationDeg!, intakeCenterlineDeg: f.camIntakeCenterlineDeg! }))
     : null
   const dynamicCompression = compressionInput && cam && known(rodLengthIn)
-    ? attempt(() => dynamicCompressionRatio({ ...compressionInput, rodLengthIn: rodLengthIn!, intakeClosesAbdcDeg: cam.intakeClosesAbdcDeg }))
+    // A listing's cam durations are at 0.050 in lift, so the closing is moved to seat timing (common-practice offset).
+    ? attempt(() => dynamicCompressionRatio({ ...compressionInput, rodLengthIn: rodLengthIn!, intakeClosesAbdcDeg: cam.intakeClosesAbdcDeg, timingBasis: 'lift050' }))
     : null
   const bmep = ci && known(peakTorqueLbFt) ? { psi: attempt(() => bmepPsi(peakTorqueLbFt!, ci)), kpa: attempt(() => bmepKpaFromImperial(peakTorqueLbFt!, ci)) } : null
   return { displacementCi: ci, rodStroke, staticCompression, dynamicCompression, cam, bmepPsi: bmep?.psi ?? null, bmepKpa: bmep?.kpa ?? null }

@@ -128,7 +128,7 @@ function crossChecks(b: z.infer<typeof publishObject>, ctx: z.RefinementCtx) {
   if (cr < 5 || cr > 20) ctx.addIssue({ code: 'custom', path: ['chamberCc'], message: `These figures give ${cr.toFixed(1)}:1 static compression; check the chamber, piston and deck volumes` })
   try {
     const ev = camEvents({ intakeDurationDeg: b.camIntakeDurationDeg, exhaustDurationDeg: b.camExhaustDurationDeg, lobeSeparationDeg: b.camLobeSeparationDeg, intakeCenterlineDeg: b.camIntakeCenterlineDeg })
-    dynamicCompressionRatio({ ...b, intakeClosesAbdcDeg: ev.intakeClosesAbdcDeg })
+    dynamicCompressionRatio({ ...b, intakeClosesAbdcDeg: ev.intakeClosesAbdcDeg, timingBasis: 'lift050' })
   }
   catch {
     ctx.addIssue({ code: 'custom', path: ['camIntakeCenterlineDeg'], message: 'These cam figures put intake closing outside the stroke; check duration and centreline' })

@@ -19,7 +19,7 @@ describe('the editor\'s live figures', () => {
     expect(f.staticCompression).toBe(staticCompressionRatio(full as Required<{ [K in keyof FigureInputs]: number }>))
     const cam = camEvents({ intakeDurationDeg: 236, exhaustDurationDeg: 244, lobeSeparationDeg: 110, intakeCenterlineDeg: 106 })
     expect(f.cam).toEqual(cam)
-    expect(f.dynamicCompression).toBe(dynamicCompressionRatio({ ...(full as Required<{ [K in keyof FigureInputs]: number }>), intakeClosesAbdcDeg: cam.intakeClosesAbdcDeg }))
+    expect(f.dynamicCompression).toBe(dynamicCompressionRatio({ ...(full as Required<{ [K in keyof FigureInputs]: number }>), intakeClosesAbdcDeg: cam.intakeClosesAbdcDeg, timingBasis: 'lift050' }))
     expect(f.bmepPsi).toBe(bmepPsi(455, displacementCi(4.03, 3.75, 8)))
   })
 
@@ -71,5 +71,16 @@ describe('the pull form', () => {
     expect(r.meta.weather).toEqual({ baroInHg: 29.4, airTempF: 72, humidityPct: 40 })
     expect(r.meta.declaredPeakHp).toBe(1012.5)
     expect(r.meta.changeKind).toBe('heads')
+  })
+})
+
+describe('dynamic compression of a listing', () => {
+  it('takes the listing\'s cam closing at 0.050 in and moves it 15° later to seat timing (common practice)', () => {
+    const cam = camEvents({ intakeDurationDeg: full.camIntakeDurationDeg!, exhaustDurationDeg: full.camExhaustDurationDeg!, lobeSeparationDeg: full.camLobeSeparationDeg!, intakeCenterlineDeg: full.camIntakeCenterlineDeg! })
+    const asSeat = dynamicCompressionRatio({ ...(full as Required<{ [K in keyof FigureInputs]: number }>), intakeClosesAbdcDeg: cam.intakeClosesAbdcDeg + 15, timingBasis: 'seat' })
+    expect(combinationFigures(full).dynamicCompression).toBeCloseTo(asSeat, 10)
+    // A later closing traps less charge: the seat-basis figure is below one read straight off the 0.050 in closing.
+    const unshifted = dynamicCompressionRatio({ ...(full as Required<{ [K in keyof FigureInputs]: number }>), intakeClosesAbdcDeg: cam.intakeClosesAbdcDeg, timingBasis: 'seat' })
+    expect(combinationFigures(full).dynamicCompression!).toBeLessThan(unshifted)
   })
 })
