@@ -8,6 +8,7 @@ import { CURRENCY } from '../../shared/money'
 import {
   builderProfiles, milestones, orders, payments, payoutAccounts, stripeEvents, users, type Milestone, type Order,
 } from '../database/schema'
+import { inRetriedTransaction } from '../utils/transaction'
 import {
   type DealActor, type DealContext, type DbTransaction, conflict, forbidden, isDuplicateKey, notFound, partiesOf, paymentServiceError,
   recordDealEvent,
@@ -59,7 +60,8 @@ export function assertParty(actor: DealActor, order: Order): 'racer' | 'builder'
  * so a double click waits and then gets the same session.
  */
 export async function startCheckout(ctx: DealContext, actor: DealActor, milestoneId: number): Promise<{ url: string, sessionId: string, reused: boolean }> {
-  return ctx.db.transaction(async (tx) => {
+  // Safe to run again after a lock conflict: the session is made with the attempt's idempotency key.
+  return inRetriedTransaction(ctx.db, async (tx) => {
     const { order, milestone } = await lockMilestone(tx, milestoneId)
     const side = assertParty(actor, order)
     if (side !== 'racer') throw forbidden('Only the racer pays the milestones of an order.')
@@ -130,7 +132,9 @@ export function verifyWebhook(stripe: Stripe, rawBody: string | Buffer | undefin
 
 /** Processes one verified event, exactly once: its id is written in the same transaction as what it changes. */
 export async function processStripeEvent(ctx: DealContext, event: Stripe.Event): Promise<WebhookOutcome> {
-  return ctx.db.transaction(async (tx) => {
+  // Run again from the start after a lock conflict: the event's row rolls back with everything else,
+  // and a refund made while handling it carries an idempotency key.
+  return inRetriedTransaction(ctx.db, async (tx) => {
     try {
       await tx.insert(stripeEvents).values({ eventId: event.id, type: event.type, outcome: 'processing', processedAt: ctx.now() })
     }
