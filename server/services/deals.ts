@@ -1,7 +1,7 @@
 // Quote requests, quotes with their revisions, acceptance into an order, and the views of both.
 import { and, asc, desc, eq, inArray, isNull } from 'drizzle-orm'
-import { apportion, feeCents, formatCents, lineTotalCents, sumCents } from '../../shared/money'
-import type { QuoteInput, QuoteRequestInput } from '../../shared/schemas/deals'
+import { MoneyError, apportion, feeCents, formatCents, lineTotalCents, sumCents } from '../../shared/money'
+import { QUOTE_LIMIT_MESSAGE, quoteLimitIssue, type QuoteInput, type QuoteRequestInput } from '../../shared/schemas/deals'
 import type {
   DashboardOrderRow, DashboardRequestRow, DashboardView, QuoteRevisionView, QuoteView, RequestView,
 } from '../../shared/types/deals'
@@ -74,9 +74,19 @@ async function visibleRequest(tx: Executor, actor: DealActor, requestId: number,
 
 /** Every figure of a quote revision: the total is the sum of the line items, the milestones add up to it exactly. */
 export function priceQuote(input: QuoteInput, feeBps: number) {
-  const lineTotals = input.lineItems.map(l => lineTotalCents(l.unitPriceCents, l.quantity))
-  const total = sumCents(lineTotals)
-  const milestoneSum = sumCents(input.milestones.map(m => m.amountCents))
+  const over = quoteLimitIssue(input)
+  if (over) throw unprocessable(`${over.message}.`)
+  let priced
+  try {
+    const lineTotals = input.lineItems.map(l => lineTotalCents(l.unitPriceCents, l.quantity))
+    priced = { lineTotals, total: sumCents(lineTotals), milestoneSum: sumCents(input.milestones.map(m => m.amountCents)) }
+  }
+  catch (error) {
+    // Whatever figure the money module still refuses is bad input too: a 422 that names the limit, never a 500.
+    if (error instanceof MoneyError) throw unprocessable(`${QUOTE_LIMIT_MESSAGE} (${error.message}).`)
+    throw error
+  }
+  const { lineTotals, total, milestoneSum } = priced
   if (milestoneSum !== total) {
     throw unprocessable(`The milestones add up to ${formatCents(milestoneSum)} but the line items total ${formatCents(total)}: they must be equal, to the cent.`)
   }
