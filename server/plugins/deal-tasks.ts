@@ -13,6 +13,8 @@ export default defineNitroPlugin((nitroApp) => {
   const c = useRuntimeConfig()
   let draining = false
   let approving = false
+  // The site's host names the outbox mails' Message-IDs (<outbox-<id>.<hash>@host>).
+  const messageIdHost = new URL(dealSiteUrl()).hostname
   const log = (what: string, error: unknown) => console.error(`[deals] ${what}:`, error instanceof Error ? error.message : error)
   const outbox = setInterval(async () => {
     if (draining || !c.databaseUrl) return
@@ -20,7 +22,7 @@ export default defineNitroPlugin((nitroApp) => {
     try {
       // A full batch means more is waiting: keep going (up to ten batches a tick) rather than wait for the next tick.
       for (let round = 0; round < 10; round++) {
-        const { sent, failed } = await drainOutbox(useDb(), sendMail, { batch: OUTBOX_BATCH })
+        const { sent, failed } = await drainOutbox(useDb(), sendMail, { batch: OUTBOX_BATCH, host: messageIdHost })
         if (sent + failed < OUTBOX_BATCH) break
       }
     }
