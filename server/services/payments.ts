@@ -278,7 +278,9 @@ async function onChargeRefunded(ctx: DealContext, tx: DbTransaction, charge: Str
   // Read again under the lock (locking reads see what committed meanwhile, e.g. the app's own refund).
   const rows = await tx.select().from(payments).where(eq(payments.milestoneId, milestone.id)).orderBy(asc(payments.id)).for('update')
   const recorded = rows.filter(r => r.kind === 'refund' && r.stripePaymentIntentId === piId).reduce((a, r) => a + r.amountCents, 0)
-  if (recorded >= charge.amount_refunded) return `already recorded: the refund of payment ${piId}`
+  if (recorded >= charge.amount_refunded) {
+    return milestone.state === 'refunded' ? `already refunded: milestone ${milestone.id}` : `already recorded: the refund of payment ${piId}`
+  }
   const now = ctx.now()
   // This payment's own Checkout row: the one with its payment intent, else the open page it was paid
   // on (its completion event has not come in yet); never another payment's succeeded row.
