@@ -13,6 +13,8 @@ export default defineNitroPlugin((nitroApp) => {
   const c = useRuntimeConfig()
   let draining = false
   let approving = false
+  // The site's host names the outbox mails' Message-IDs (<outbox-<id>.<hash>@host>).
+  const messageIdHost = new URL(dealSiteUrl()).hostname
   // While MariaDB is away the outage is one line now and then, not one per tick.
   const log = (what: string, error: unknown) => noteDatabaseOutage(error, `[deals] ${what}`) || console.error(`[deals] ${what}:`, error instanceof Error ? error.message : error)
   const outbox = setInterval(async () => {
@@ -21,7 +23,7 @@ export default defineNitroPlugin((nitroApp) => {
     try {
       // A full batch means more is waiting: keep going (up to ten batches a tick) rather than wait for the next tick.
       for (let round = 0; round < 10; round++) {
-        const { sent, failed } = await drainOutbox(useDb(), sendMail, { batch: OUTBOX_BATCH })
+        const { sent, failed } = await drainOutbox(useDb(), sendMail, { batch: OUTBOX_BATCH, host: messageIdHost })
         if (sent + failed < OUTBOX_BATCH) break
       }
     }

@@ -74,8 +74,20 @@ export function isDuplicateKey(error: unknown): boolean {
 /** Today's date (UTC) as YYYY-MM-DD. */
 export const isoDay = (d: Date) => d.toISOString().slice(0, 10)
 
-/** Appends to a deal's history (the order page's timeline and the audit trail of money). */
+/**
+ * Locks a quote request's row for the rest of the transaction. Taken before the first row that refers
+ * to the request is written: MariaDB's foreign-key check takes a shared lock on the parent row, and
+ * two transactions that each hold it and then update the parent (its last_message_at, its status)
+ * deadlock. The lock order everywhere is order, milestone, then request; a request's own writes
+ * (messages, quotes) take the request first and touch no order or milestone row after it.
+ */
+export async function lockRequest(tx: Executor, requestId: number): Promise<void> {
+  await tx.select({ id: quoteRequests.id }).from(quoteRequests).where(eq(quoteRequests.id, requestId)).limit(1).for('update')
+}
+
+/** Appends to a deal's history (the order page's timeline and the audit trail of money), under the request's lock. */
 export async function recordDealEvent(tx: Executor, e: { requestId: number, orderId?: number | null, milestoneId?: number | null, actorId?: number | null, action: string, detail?: string }) {
+  await lockRequest(tx, e.requestId)
   await tx.insert(dealEvents).values({
     requestId: e.requestId, orderId: e.orderId ?? null, milestoneId: e.milestoneId ?? null, actorId: e.actorId ?? null, action: e.action, detail: (e.detail ?? '').slice(0, 500),
   })

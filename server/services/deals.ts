@@ -1,7 +1,7 @@
 // Quote requests, quotes with their revisions, acceptance into an order, and the views of both.
 import { and, asc, desc, eq, inArray, isNull } from 'drizzle-orm'
-import { apportion, feeCents, formatCents, lineTotalCents, sumCents } from '../../shared/money'
-import type { QuoteInput, QuoteRequestInput } from '../../shared/schemas/deals'
+import { MoneyError, apportion, feeCents, formatCents, lineTotalCents, sumCents } from '../../shared/money'
+import { QUOTE_LIMIT_MESSAGE, quoteLimitIssue, type QuoteInput, type QuoteRequestInput } from '../../shared/schemas/deals'
 import type {
   DashboardOrderRow, DashboardRequestRow, DashboardView, QuoteRevisionView, QuoteView, RequestView,
 } from '../../shared/types/deals'
@@ -9,18 +9,23 @@ import {
   builderProfiles, builds, files, milestones, orders, quoteLineItems, quoteMilestones, quoteRequests, quoteRevisions, quotes,
   requestAttachments, requestMessages, users, type QuoteRevision,
 } from '../database/schema'
+import { inRetriedTransaction } from '../utils/transaction'
 import {
-  type DealActor, type DealContext, type Executor, conflict, forbidden, isoDay, notFound, partiesOf, recordDealEvent,
+  type DealActor, type DealContext, type Executor, conflict, forbidden, isoDay, lockRequest, notFound, partiesOf, recordDealEvent,
   requestVisibleTo, sideOf, unprocessable,
 } from './deal-context'
 import { claimFiles } from './deal-files'
 import { unreadCounts } from './messages'
 import { enqueueMail } from './outbox'
 
-/** A note from the system in a request's thread, attributed to whoever caused it. */
+/**
+ * A note from the system in a request's thread, attributed to whoever caused it. The request row is
+ * locked and updated before the message row is written (see lockRequest): the parent first.
+ */
 export async function postEvent(tx: Executor, requestId: number, actorId: number | null, body: string, now: Date) {
-  await tx.insert(requestMessages).values({ requestId, senderId: actorId, kind: 'event', body, createdAt: now })
+  await lockRequest(tx, requestId)
   await tx.update(quoteRequests).set({ lastMessageAt: now }).where(eq(quoteRequests.id, requestId))
+  await tx.insert(requestMessages).values({ requestId, senderId: actorId, kind: 'event', body, createdAt: now })
 }
 
 /** A racer's quote request to one shop (optionally from one of its published builds), with its attachments. */
@@ -37,7 +42,7 @@ export async function createRequest(ctx: DealContext, actor: DealActor, input: Q
   }
   const now = ctx.now()
   if (input.deadline !== null && input.deadline <= isoDay(now)) throw unprocessable('The deadline must be after today.')
-  const id = await ctx.db.transaction(async (tx) => {
+  const id = await inRetriedTransaction(ctx.db, async (tx) => {
     const fileIds = await claimFiles(tx, actor.id, input.attachmentIds, ['attachment', 'photo'])
     const [row] = await tx.insert(quoteRequests).values({
       racerId: actor.id, builderId: shop.id, buildId, title: input.title, targetHp: input.targetHp, targetTq: input.targetTq,
@@ -69,9 +74,19 @@ async function visibleRequest(tx: Executor, actor: DealActor, requestId: number,
 
 /** Every figure of a quote revision: the total is the sum of the line items, the milestones add up to it exactly. */
 export function priceQuote(input: QuoteInput, feeBps: number) {
-  const lineTotals = input.lineItems.map(l => lineTotalCents(l.unitPriceCents, l.quantity))
-  const total = sumCents(lineTotals)
-  const milestoneSum = sumCents(input.milestones.map(m => m.amountCents))
+  const over = quoteLimitIssue(input)
+  if (over) throw unprocessable(`${over.message}.`)
+  let priced
+  try {
+    const lineTotals = input.lineItems.map(l => lineTotalCents(l.unitPriceCents, l.quantity))
+    priced = { lineTotals, total: sumCents(lineTotals), milestoneSum: sumCents(input.milestones.map(m => m.amountCents)) }
+  }
+  catch (error) {
+    // Whatever figure the money module still refuses is bad input too: a 422 that names the limit, never a 500.
+    if (error instanceof MoneyError) throw unprocessable(`${QUOTE_LIMIT_MESSAGE} (${error.message}).`)
+    throw error
+  }
+  const { lineTotals, total, milestoneSum } = priced
   if (milestoneSum !== total) {
     throw unprocessable(`The milestones add up to ${formatCents(milestoneSum)} but the line items total ${formatCents(total)}: they must be equal, to the cent.`)
   }
@@ -86,7 +101,8 @@ export async function sendQuote(ctx: DealContext, actor: DealActor, requestId: n
   const early = input.milestones.find(m => m.dueDate < today)
   if (early) throw unprocessable(`The milestone "${early.title}" is due before today.`)
   const { total, fee } = priceQuote(input, ctx.config.platformFeeBps)
-  return ctx.db.transaction(async (tx) => {
+  // The request row is locked first (the parent of the quote and of the thread's note).
+  return inRetriedTransaction(ctx.db, async (tx) => {
     const request = await visibleRequest(tx, actor, requestId, true)
     if (actor.builderId !== request.builderId) throw forbidden('Only the shop the request was sent to can quote it.')
     if (request.status === 'accepted' || request.status === 'withdrawn') throw conflict(`This request is ${request.status}; it cannot be quoted again.`)
@@ -124,7 +140,11 @@ export async function sendQuote(ctx: DealContext, actor: DealActor, requestId: n
   })
 }
 
+/** Locks a quote for its racer's answer: the request row first, then the quote (the order sendQuote takes them in). */
 async function lockQuoteForRacer(tx: Executor, actor: DealActor, quoteId: number) {
+  const [peek] = await tx.select({ requestId: quotes.requestId }).from(quotes).where(eq(quotes.id, quoteId)).limit(1)
+  if (!peek) throw notFound('That quote')
+  await lockRequest(tx, peek.requestId)
   const [row] = await tx.select({ quote: quotes, request: quoteRequests }).from(quotes)
     .innerJoin(quoteRequests, eq(quoteRequests.id, quotes.requestId))
     .where(and(eq(quotes.id, quoteId), requestVisibleTo(actor))).limit(1).for('update')
@@ -136,7 +156,7 @@ async function lockQuoteForRacer(tx: Executor, actor: DealActor, quoteId: number
 /** The racer declines the current revision; the shop may still send another. */
 export async function declineQuote(ctx: DealContext, actor: DealActor, quoteId: number, reason: string): Promise<void> {
   const now = ctx.now()
-  await ctx.db.transaction(async (tx) => {
+  await inRetriedTransaction(ctx.db, async (tx) => {
     const { quote, request } = await lockQuoteForRacer(tx, actor, quoteId)
     if (quote.status !== 'sent') throw conflict(`This quote is ${quote.status}; only a quote waiting for an answer can be declined.`)
     await tx.update(quotes).set({ status: 'declined' }).where(eq(quotes.id, quoteId))
@@ -149,7 +169,7 @@ export async function declineQuote(ctx: DealContext, actor: DealActor, quoteId: 
 /** The racer accepts the current revision: an order is opened with its milestones, the fee shared among them to the cent. */
 export async function acceptQuote(ctx: DealContext, actor: DealActor, quoteId: number, revision: number): Promise<{ orderId: number }> {
   const now = ctx.now()
-  return ctx.db.transaction(async (tx) => {
+  return inRetriedTransaction(ctx.db, async (tx) => {
     const { quote, request } = await lockQuoteForRacer(tx, actor, quoteId)
     if (quote.status !== 'sent') throw conflict(`This quote is ${quote.status}; only a quote waiting for an answer can be accepted.`)
     if (quote.currentRevision !== revision) throw conflict(`The shop has revised this quote: revision ${quote.currentRevision} is current. Review it before you accept.`)

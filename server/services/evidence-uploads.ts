@@ -6,6 +6,7 @@ import type { PullMeta } from '#shared/schemas/build'
 import type { PullPreview } from '#shared/types/editor'
 import { builds, dynoPulls, files, type Build } from '../database/schema'
 import type { Database } from '../database/types'
+import { inRetriedTransaction, retryOnLockConflict } from '../utils/transaction'
 import type { ReadStoredText } from './curves'
 import { afterBuildChanged, ownBuild, refreshHeadline, type ShopRef } from './listing-editor'
 import { deleteFileRows, discard, insertFileRow, vetUpload, withStagedFiles, type IncomingFile, type UploadStore } from './listing-files'
@@ -88,7 +89,8 @@ export async function savePull(db: Database, store: UploadStore, shop: ShopRef, 
   const items: { kind: 'pull' | 'sheet', mime: string, file: IncomingFile }[] = [{ kind: 'pull', mime: 'text/csv', file: upload.pull }]
   if (upload.sheet && sheetMime) items.push({ kind: 'sheet', mime: sheetMime, file: upload.sheet })
 
-  const pullId = await withStagedFiles(db, store, items, async (tx, staged) => {
+  // A lock conflict runs it all again: the first run's staged files are removed when its transaction fails.
+  const pullId = await retryOnLockConflict(() => withStagedFiles(db, store, items, async (tx, staged) => {
     await ownBuild(tx, shop, buildId, true)
     if (meta.comparisonRole === 'baseline') {
       const [baseline] = await tx.select({ label: dynoPulls.label }).from(dynoPulls)
@@ -122,7 +124,7 @@ export async function savePull(db: Database, store: UploadStore, shop: ShopRef, 
     }).$returningId()
     await refreshHeadline(tx, buildId)
     return row!.id
-  })
+  }))
   await afterBuildChanged(buildId)
   return { pullId, checks: evaluation.checks, summary: evaluation.summary }
 }
@@ -132,7 +134,7 @@ export async function savePull(db: Database, store: UploadStore, shop: ShopRef, 
  * pull to show (409: unpublish first).
  */
 export async function deletePull(db: Database, store: UploadStore, shop: ShopRef, buildId: number, pullId: number): Promise<void> {
-  const keys = await db.transaction(async (tx) => {
+  const keys = await inRetriedTransaction(db, async (tx) => {
     const build = await ownBuild(tx, shop, buildId, true)
     const [pull] = await tx.select().from(dynoPulls).where(and(eq(dynoPulls.id, pullId), eq(dynoPulls.buildId, buildId))).for('update')
     if (!pull) throw createError({ status: 404, message: 'That build has no such pull.' })

@@ -5,6 +5,7 @@ import { buildDraftPatch, MAX_PARTS, publishProblems, REQUIRED_FOR_PUBLISH, type
 import type { EditorBuild, EditorFields, PublishIssue } from '#shared/types/editor'
 import { buildParts, buildPhotos, builds, dynoPulls, type Build } from '../database/schema'
 import type { Database } from '../database/types'
+import { inRetriedTransaction } from '../utils/transaction'
 import { deleteFileRows, discard, type Tx, type UploadStore } from './listing-files'
 
 /** The caller's shop, as the builder guard returns it. */
@@ -153,7 +154,7 @@ export async function updateBuild(db: Database, shop: ShopRef, buildId: number, 
   const parsed = buildDraftPatch.safeParse(input)
   if (!parsed.success) throw createError({ status: 400, message: parsed.error.issues.map(i => `${i.path.join('.')}: ${i.message}`).join('; ') })
   const { parts, ...columns } = parsed.data
-  await db.transaction(async (tx) => {
+  await inRetriedTransaction(db, async (tx) => {
     const build = await ownBuild(tx, shop, buildId, true)
     if (build.status === 'published') {
       const merged = { ...build, ...columns } as Build
@@ -206,7 +207,7 @@ const TRANSITIONS: Record<'publish' | 'unpublish' | 'archive' | 'restore', { fro
  */
 export async function changeStatus(db: Database, shop: ShopRef, buildId: number, action: keyof typeof TRANSITIONS): Promise<{ status: Build['status'], slug: string }> {
   const rule = TRANSITIONS[action]
-  const result = await db.transaction(async (tx) => {
+  const result = await inRetriedTransaction(db, async (tx) => {
     const build = await ownBuild(tx, shop, buildId, true)
     if (!rule.from.includes(build.status)) throw createError({ status: 409, message: `A listing that is ${build.status} cannot be asked to ${action}.` })
     if (action !== 'publish') {
@@ -229,7 +230,7 @@ export async function changeStatus(db: Database, shop: ShopRef, buildId: number,
  * transaction, then the stored files once it has committed.
  */
 export async function deleteBuild(db: Database, store: UploadStore, shop: ShopRef, buildId: number): Promise<void> {
-  const keys = await db.transaction(async (tx) => {
+  const keys = await inRetriedTransaction(db, async (tx) => {
     await ownBuild(tx, shop, buildId, true)
     const pulls = await tx.select({ fileId: dynoPulls.fileId, sheetFileId: dynoPulls.sheetFileId }).from(dynoPulls).where(eq(dynoPulls.buildId, buildId))
     const photos = await tx.select({ fileId: buildPhotos.fileId }).from(buildPhotos).where(eq(buildPhotos.buildId, buildId))

@@ -3,7 +3,8 @@
 import { and, asc, count, eq, gt, inArray, sql } from 'drizzle-orm'
 import type { MessageInput } from '../../shared/schemas/deals'
 import { files, messageReads, quoteRequests, requestAttachments, requestMessages, users } from '../database/schema'
-import { type DealActor, type DealContext, type Executor, notFound, partiesOf, requestVisibleTo, sideOf } from './deal-context'
+import { inRetriedTransaction } from '../utils/transaction'
+import { type DealActor, type DealContext, type Executor, lockRequest, notFound, partiesOf, requestVisibleTo, sideOf } from './deal-context'
 import { claimFiles } from './deal-files'
 import { enqueueMail } from './outbox'
 
@@ -34,12 +35,16 @@ export async function postMessage(ctx: DealContext, actor: DealActor, requestId:
   const side = parties ? sideOf(actor, parties) : null
   if (!parties || !side) throw notFound('That request')
   const now = ctx.now()
-  const messageId = await ctx.db.transaction(async (tx) => {
+  // The request row first (locked and updated), then the rows that refer to it: two posts at once
+  // queue on that one lock instead of each holding the foreign key's shared lock and deadlocking.
+  // Run again from the start if it still loses a lock conflict: everything it writes rolls back with it.
+  const messageId = await inRetriedTransaction(ctx.db, async (tx) => {
+    await lockRequest(tx, requestId)
+    await tx.update(quoteRequests).set({ lastMessageAt: now }).where(eq(quoteRequests.id, requestId))
     const fileIds = await claimFiles(tx, actor.id, input.attachmentIds, ['attachment', 'photo'])
     const [row] = await tx.insert(requestMessages).values({ requestId, senderId: actor.id, kind: 'message', body: input.body, createdAt: now }).$returningId()
     const id = row!.id
     if (fileIds.length > 0) await tx.insert(requestAttachments).values(fileIds.map(fileId => ({ requestId, messageId: id, fileId })))
-    await tx.update(quoteRequests).set({ lastMessageAt: now }).where(eq(quoteRequests.id, requestId))
     await markRead(tx, actor.id, requestId, id, now)
     const other = side === 'racer'
       ? { userId: parties.builderUserId, email: parties.builderEmail, name: parties.shopName }

@@ -24,6 +24,7 @@ import { postEvent } from './deals'
 import { writeAudit } from './audit'
 import { enqueueMail } from './outbox'
 import { assertParty, lockMilestone, markReleased, refundHeld, transferRelease } from './payments'
+import { inRetriedTransaction, isLockConflict } from '../utils/transaction'
 
 const link = (ctx: DealContext, orderId: number) => `${ctx.config.siteUrl}/deals/orders/${orderId}`
 
@@ -39,7 +40,7 @@ async function guaranteeOf(tx: DbTransaction, order: Order) {
  * already on a listing), and checks the request's displacement cap and the guarantee.
  */
 export async function recordDeliveryPull(ctx: DealContext, storage: Storage, actor: DealActor, milestoneId: number, fileId: number, fields: DeliveryPullFields) {
-  return ctx.db.transaction(async (tx) => {
+  return inRetriedTransaction(ctx.db, async (tx) => {
     const { order, milestone } = await lockMilestone(tx, milestoneId)
     if (assertParty(actor, order) !== 'builder') throw forbidden('Only the shop sends a delivery pull.')
     if (milestone.state !== 'funded') throw conflict(`A delivery pull goes with a funded milestone before it is submitted; this one is ${milestone.state}.`)
@@ -71,7 +72,7 @@ export async function recordDeliveryPull(ctx: DealContext, storage: Storage, act
 
 /** The shop marks a funded milestone done, with notes and proof; a guaranteed one needs a verified pull that meets the target. */
 export async function submitMilestone(ctx: DealContext, actor: DealActor, milestoneId: number, input: SubmitMilestoneInput): Promise<void> {
-  await ctx.db.transaction(async (tx) => {
+  await inRetriedTransaction(ctx.db, async (tx) => {
     const { order, milestone } = await lockMilestone(tx, milestoneId)
     if (assertParty(actor, order) !== 'builder') throw forbidden('Only the shop submits a milestone.')
     if (order.status !== 'active') throw conflict(`This order is ${order.status}.`)
@@ -115,7 +116,7 @@ async function approveLocked(ctx: DealContext, tx: DbTransaction, order: Order, 
  * key makes a retry after a lost answer pay nothing twice.
  */
 export async function releaseMilestone(ctx: DealContext, milestoneId: number): Promise<void> {
-  await ctx.db.transaction(async (tx) => {
+  await inRetriedTransaction(ctx.db, async (tx) => {
     const { order, milestone } = await lockMilestone(tx, milestoneId)
     if (milestone.state === 'released') throw conflict('This milestone has already been paid out.')
     if (milestone.state !== 'approved') throw conflict(`Only an approved milestone is paid out; this one is ${milestone.state.replace('_', ' ')}.`)
@@ -124,7 +125,8 @@ export async function releaseMilestone(ctx: DealContext, milestoneId: number): P
       transfer = await transferRelease(ctx, tx, order, milestone)
     }
     catch (e) {
-      if (isError(e)) throw e
+      // A lock conflict is the database's, not the payment service's: it goes up as it is, to be run again.
+      if (isError(e) || isLockConflict(e)) throw e
       throw paymentServiceError('pay out the milestone', e)
     }
     await markReleased(ctx, tx, order, milestone, transfer)
@@ -144,7 +146,7 @@ async function tryRelease(ctx: DealContext, milestoneId: number): Promise<string
 
 /** The racer approves submitted work; the payout follows at once (or from the periodic task if the payment service is away). */
 export async function approveMilestone(ctx: DealContext, actor: DealActor, milestoneId: number): Promise<{ released: boolean, problem: string | null }> {
-  await ctx.db.transaction(async (tx) => {
+  await inRetriedTransaction(ctx.db, async (tx) => {
     const { order, milestone } = await lockMilestone(tx, milestoneId)
     if (assertParty(actor, order) !== 'racer') throw forbidden('Only the racer approves a milestone.')
     if (milestone.state !== 'submitted') throw conflict(`Only submitted work can be approved; this milestone is ${milestone.state.replace('_', ' ')}.`)
@@ -156,7 +158,7 @@ export async function approveMilestone(ctx: DealContext, actor: DealActor, miles
 
 /** The racer disputes a funded or submitted milestone: the money stays held until an admin settles it. */
 export async function disputeMilestone(ctx: DealContext, actor: DealActor, milestoneId: number, reason: string): Promise<void> {
-  await ctx.db.transaction(async (tx) => {
+  await inRetriedTransaction(ctx.db, async (tx) => {
     const { order, milestone } = await lockMilestone(tx, milestoneId)
     if (assertParty(actor, order) !== 'racer') throw forbidden('Only the racer opens a dispute.')
     if (milestone.state !== 'funded' && milestone.state !== 'submitted') throw conflict(`Only a funded or submitted milestone can be disputed; this one is ${milestone.state.replace('_', ' ')}.`)
@@ -178,7 +180,7 @@ export async function settleDispute(ctx: DealContext, actor: DealActor, mileston
   if (actor.role !== 'admin') throw forbidden('Only an admin settles a dispute.')
   const text = note.trim()
   if (!text) throw unprocessable('A dispute is settled with a note to both parties.')
-  await ctx.db.transaction(async (tx) => {
+  await inRetriedTransaction(ctx.db, async (tx) => {
     const { order, milestone } = await lockMilestone(tx, milestoneId)
     if (milestone.state !== 'disputed') throw conflict(`Only a disputed milestone is settled; this one is ${milestone.state.replace('_', ' ')}.`)
     const now = ctx.now()
@@ -215,7 +217,7 @@ export async function settleDispute(ctx: DealContext, actor: DealActor, mileston
  * ones refunded; released money stays with the shop. Refused while a payout is in progress.
  */
 export async function cancelOrder(ctx: DealContext, actor: DealActor, orderId: number, reason: string): Promise<{ refundedCents: number }> {
-  return ctx.db.transaction(async (tx) => {
+  return inRetriedTransaction(ctx.db, async (tx) => {
     const [order] = await tx.select().from(orders).where(eq(orders.id, orderId)).limit(1).for('update')
     if (!order) throw notFound('That order')
     const side = assertParty(actor, order)
@@ -230,7 +232,7 @@ export async function cancelOrder(ctx: DealContext, actor: DealActor, orderId: n
         const open = await tx.select().from(payments).where(and(eq(payments.milestoneId, m.id), eq(payments.kind, 'checkout'), eq(payments.status, 'open')))
         for (const p of open) {
           // If the racer completes the page meanwhile, the completion event finds the milestone cancelled and refunds it.
-          const expired = await ctx.stripe.checkout.sessions.expire(p.stripeCheckoutSessionId!).then(() => true, () => false)
+          const expired = await ctx.stripe.checkout.sessions.expire(p.stripeCheckoutSessionId!, {}, { idempotencyKey: `${p.stripeCheckoutSessionId}-expire` }).then(() => true, () => false)
           if (expired) await tx.update(payments).set({ status: 'expired' }).where(eq(payments.id, p.id))
         }
         await tx.update(milestones).set({ state: 'cancelled' }).where(eq(milestones.id, m.id))
@@ -254,7 +256,7 @@ export async function autoApproveDue(ctx: DealContext): Promise<{ approved: numb
   const due = await ctx.db.select({ id: milestones.id }).from(milestones).where(and(eq(milestones.state, 'submitted'), lte(milestones.submittedAt, cutoff)))
   let approved = 0
   for (const { id } of due) {
-    const done = await ctx.db.transaction(async (tx) => {
+    const done = await inRetriedTransaction(ctx.db, async (tx) => {
       const { order, milestone } = await lockMilestone(tx, id)
       if (milestone.state !== 'submitted' || !milestone.submittedAt || milestone.submittedAt > cutoff) return false
       await approveLocked(ctx, tx, order, milestone, null, true)

@@ -5,6 +5,7 @@ import type { AdminListingRow } from '../../shared/types/admin'
 import type { Page } from '../../shared/types/listings'
 import { auditLog, builderProfiles, builds, dynoPulls, users } from '../database/schema'
 import type { Database } from '../database/types'
+import { inRetriedTransaction } from '../utils/transaction'
 import { writeAudit } from './audit'
 
 const likePattern = (text: string) => `%${text.replace(/[\\%_]/g, c => `\\${c}`)}%`
@@ -65,7 +66,7 @@ export async function listListings(db: Database, query: AdminListingsQuery): Pro
  * publish again. One audit row carries the reason, in the same transaction. Returns what the e-mail needs.
  */
 export async function unpublishListing(db: Database, input: { actorId: number, buildId: number, reason: string }) {
-  return db.transaction(async (tx) => {
+  return inRetriedTransaction(db, async (tx) => {
     const [build] = await tx.select().from(builds).where(eq(builds.id, input.buildId)).for('update')
     if (!build) throw createError({ status: 404, message: 'No listing has that id.' })
     if (build.status !== 'published') throw createError({ status: 409, message: `That listing is ${build.status}, not published; only a published listing can be taken down.` })

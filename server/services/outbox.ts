@@ -1,8 +1,10 @@
 // The e-mail outbox: mail is written in the same transaction as the change it reports, then sent
 // by the drainer and retried with a growing wait, so none is lost while SMTP is down.
-import { and, asc, eq, inArray, isNull, lte, lt } from 'drizzle-orm'
+import { createHash } from 'node:crypto'
+import { and, asc, eq, inArray, isNull, lte, lt, sql } from 'drizzle-orm'
 import { mailOutbox, type OutboxMail } from '../database/schema'
 import type { Database } from '../database/types'
+import { retryOnLockConflict } from '../utils/transaction'
 import type { Executor } from './deal-context'
 import { renderDealMail, type DealMail, type RenderedMail } from './mail-templates'
 
@@ -11,6 +13,9 @@ export const MAX_ATTEMPTS = 12
 
 /** How long a claimed mail is left alone by other drainers while it is being sent. */
 const LEASE_MS = 2 * 60_000
+
+/** The right-hand side of a Message-ID when the caller gives no host (a reserved name, RFC 2606). */
+const DEFAULT_MESSAGE_ID_HOST = 'torquewright.invalid'
 
 /** Wait before the next attempt: 15 s doubled per failure, at most an hour. */
 export function retryDelayMs(attempts: number): number {
@@ -22,6 +27,18 @@ export interface OutgoingMail {
   subject: string
   text: string
   html: string
+  /** The Message-ID header (RFC 5322 §3.6.4): the same for every send of one outbox row. */
+  messageId: string
+}
+
+/**
+ * The stable Message-ID of an outbox row: `<outbox-<id>.<hash>@<host>>`, the hash taken over the row's
+ * fixed fields, so a mail sent again after a crash carries the same Message-ID as the first send and
+ * the receiving side can tell it is the same message.
+ */
+export function outboxMessageId(mail: Pick<OutboxMail, 'id' | 'dedupeKey' | 'toAddress' | 'createdAt'>, host: string): string {
+  const hash = createHash('sha256').update(`${mail.id}\n${mail.dedupeKey ?? ''}\n${mail.toAddress}\n${mail.createdAt.toISOString()}`).digest('hex').slice(0, 16)
+  return `<outbox-${mail.id}.${hash}@${host}>`
 }
 
 /** Queues one deal e-mail; a repeated dedupe key (the same event reported twice) queues nothing. */
@@ -42,33 +59,40 @@ export interface DrainResult {
   failed: number
 }
 
+/** What a send that never reported back leaves on its row until the next attempt's outcome replaces it. */
+export const CLAIMED_NOTE = 'claimed for sending; no outcome was recorded (the sender stopped before it could say)'
+
 /**
- * Sends what is due: claims a batch by pushing its next attempt past a lease (so two drainers never
- * send the same mail), sends each outside any transaction, then records the outcome.
+ * Sends what is due. Each mail is marked before it is sent and again after: the claim counts the
+ * attempt and pushes the next one past a lease (so two drainers never send the same mail), then the
+ * mail goes out outside any transaction with its row's stable Message-ID, then sentAt (or the error
+ * and the wait before the next attempt) is recorded. A crash between the send and the record sends it
+ * again after the lease: delivery is at least once, and a repeat carries the same Message-ID.
  */
-export async function drainOutbox(db: Database, send: (mail: OutgoingMail) => Promise<void>, opts: { now?: Date, batch?: number } = {}): Promise<DrainResult> {
+export async function drainOutbox(db: Database, send: (mail: OutgoingMail) => Promise<void>, opts: { now?: Date, batch?: number, host?: string } = {}): Promise<DrainResult> {
   const now = opts.now ?? new Date()
   const batch = opts.batch ?? 20
-  const claimed: OutboxMail[] = await db.transaction(async (tx) => {
+  const host = opts.host ?? DEFAULT_MESSAGE_ID_HOST
+  const claimed: OutboxMail[] = await retryOnLockConflict(() => db.transaction(async (tx) => {
     const due = await tx.select().from(mailOutbox)
       .where(and(isNull(mailOutbox.sentAt), lte(mailOutbox.nextAttemptAt, now), lt(mailOutbox.attempts, MAX_ATTEMPTS)))
       .orderBy(asc(mailOutbox.id)).limit(batch).for('update', { skipLocked: true })
     if (due.length > 0) {
-      await tx.update(mailOutbox).set({ nextAttemptAt: new Date(now.getTime() + LEASE_MS) }).where(inArray(mailOutbox.id, due.map(m => m.id)))
+      await tx.update(mailOutbox).set({ attempts: sql`${mailOutbox.attempts} + 1`, nextAttemptAt: new Date(now.getTime() + LEASE_MS), lastError: CLAIMED_NOTE })
+        .where(inArray(mailOutbox.id, due.map(m => m.id)))
     }
     return due
-  })
+  }))
   const result: DrainResult = { sent: 0, failed: 0 }
   for (const mail of claimed) {
+    const attempts = mail.attempts + 1
     try {
-      await send({ to: mail.toAddress, subject: mail.subject, text: mail.text, html: mail.html })
-      await db.update(mailOutbox).set({ sentAt: new Date(), attempts: mail.attempts + 1, lastError: null }).where(eq(mailOutbox.id, mail.id))
+      await send({ to: mail.toAddress, subject: mail.subject, text: mail.text, html: mail.html, messageId: outboxMessageId(mail, host) })
+      await db.update(mailOutbox).set({ sentAt: new Date(), lastError: null }).where(eq(mailOutbox.id, mail.id))
       result.sent++
     }
     catch (error) {
-      const attempts = mail.attempts + 1
       await db.update(mailOutbox).set({
-        attempts,
         nextAttemptAt: new Date(now.getTime() + retryDelayMs(attempts)),
         lastError: (error instanceof Error ? error.message : String(error)).slice(0, 1000),
       }).where(eq(mailOutbox.id, mail.id))

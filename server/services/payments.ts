@@ -1,13 +1,14 @@
 // Money through Stripe's SDK: a Checkout Session per milestone payment (one per attempt, by
 // idempotency key), refunds, transfers to the shop's connected account, and the webhook events that
 // confirm them. A milestone is marked funded only here, from a verified `checkout.session.completed`.
-import { and, desc, eq, inArray } from 'drizzle-orm'
+import { and, asc, desc, eq } from 'drizzle-orm'
 import { createError } from 'h3'
 import Stripe from 'stripe'
 import { CURRENCY } from '../../shared/money'
 import {
-  builderProfiles, milestones, orders, payments, payoutAccounts, stripeEvents, users, type Milestone, type Order,
+  builderProfiles, milestones, orders, payments, payoutAccounts, stripeEvents, users, type Milestone, type Order, type Payment,
 } from '../database/schema'
+import { inRetriedTransaction } from '../utils/transaction'
 import {
   type DealActor, type DealContext, type DbTransaction, conflict, forbidden, isDuplicateKey, notFound, partiesOf, paymentServiceError,
   recordDealEvent,
@@ -54,12 +55,24 @@ export function assertParty(actor: DealActor, order: Order): 'racer' | 'builder'
 }
 
 /**
+ * The payment that funds a milestone: its succeeded Checkout payment with no refund against its
+ * payment intent, the earliest if (wrongly) more than one. A second payment that came in late and was
+ * refunded is never the one a release pays out from or a refund gives back. Read under the milestone's lock.
+ */
+export async function fundingPayment(tx: DbTransaction, milestoneId: number): Promise<Payment | null> {
+  const rows = await tx.select().from(payments).where(eq(payments.milestoneId, milestoneId)).orderBy(asc(payments.id)).for('update')
+  const refunded = new Set(rows.filter(r => r.kind === 'refund').map(r => r.stripePaymentIntentId))
+  return rows.find(r => r.kind === 'checkout' && r.status === 'succeeded' && !refunded.has(r.stripePaymentIntentId)) ?? null
+}
+
+/**
  * Sends the racer to pay one milestone: the open Checkout Session of the current attempt if there is
  * one, else a new one made with the attempt's idempotency key. The milestone row is locked meanwhile,
  * so a double click waits and then gets the same session.
  */
 export async function startCheckout(ctx: DealContext, actor: DealActor, milestoneId: number): Promise<{ url: string, sessionId: string, reused: boolean }> {
-  return ctx.db.transaction(async (tx) => {
+  // Safe to run again after a lock conflict: the session is made with the attempt's idempotency key.
+  return inRetriedTransaction(ctx.db, async (tx) => {
     const { order, milestone } = await lockMilestone(tx, milestoneId)
     const side = assertParty(actor, order)
     if (side !== 'racer') throw forbidden('Only the racer pays the milestones of an order.')
@@ -130,7 +143,9 @@ export function verifyWebhook(stripe: Stripe, rawBody: string | Buffer | undefin
 
 /** Processes one verified event, exactly once: its id is written in the same transaction as what it changes. */
 export async function processStripeEvent(ctx: DealContext, event: Stripe.Event): Promise<WebhookOutcome> {
-  return ctx.db.transaction(async (tx) => {
+  // Run again from the start after a lock conflict: the event's row rolls back with everything else,
+  // and a refund made while handling it carries an idempotency key.
+  return inRetriedTransaction(ctx.db, async (tx) => {
     try {
       await tx.insert(stripeEvents).values({ eventId: event.id, type: event.type, outcome: 'processing', processedAt: ctx.now() })
     }
@@ -202,7 +217,7 @@ async function onCheckoutCompleted(ctx: DealContext, tx: DbTransaction, session:
   const why = milestone.state === 'cancelled' ? 'the order was cancelled before the payment completed' : `the milestone was already ${milestone.state}`
   if (!piId) return `rejected: session ${session.id} has no payment to refund`
   const refund = await ctx.stripe.refunds.create({ payment_intent: piId, reason: 'requested_by_customer', metadata: { milestone_id: String(milestone.id) } }, { idempotencyKey: `late-refund-${session.id}` })
-  await tx.insert(payments).values({ milestoneId: milestone.id, kind: 'refund', status: 'succeeded', amountCents: refund.amount, stripePaymentIntentId: piId, stripeRefundId: refund.id, createdAt: now })
+  await tx.insert(payments).values({ milestoneId: milestone.id, kind: 'refund', status: 'succeeded', amountCents: refund.amount, stripePaymentIntentId: piId, stripeChargeId: idOf(pi?.latest_charge), stripeRefundId: refund.id, createdAt: now })
   await writeAudit(tx, { actorId: null, action: 'payment.refund', entityType: 'milestone', entityId: milestone.id, after: { refund: refund.id, amountCents: refund.amount }, note: why })
   await recordDealEvent(tx, { requestId: order.requestId, orderId: order.id, milestoneId: milestone.id, action: 'payment_refunded', detail: `${refund.id}: ${why}` })
   const parties = await partiesOf(tx, order.requestId)
@@ -242,6 +257,12 @@ async function onPaymentFailed(tx: DbTransaction, pi: Stripe.PaymentIntent): Pro
   return `recorded a declined attempt on milestone ${milestoneId}`
 }
 
+/**
+ * A refund seen at the payment service. It touches only the rows of the payment it refunds: that
+ * payment's Checkout row (recorded if the completion event has not come in yet) and one refund row
+ * for its payment intent. The milestone follows the payment that funded it: it turns refunded only
+ * when no other payment still holds its deposit (a late second payment refunded changes nothing).
+ */
 async function onChargeRefunded(ctx: DealContext, tx: DbTransaction, charge: Stripe.Charge): Promise<string> {
   const piId = idOf(charge.payment_intent)
   if (!piId) return `ignored: charge ${charge.id} has no payment intent`
@@ -254,18 +275,31 @@ async function onChargeRefunded(ctx: DealContext, tx: DbTransaction, charge: Str
   if (!milestoneId) return `ignored: charge ${charge.id} is not a milestone payment`
   if (!charge.refunded) return `ignored: charge ${charge.id} is only partly refunded`
   const { order, milestone } = await lockMilestone(tx, milestoneId)
-  if (milestone.state === 'refunded') return `already refunded: milestone ${milestone.id}`
-  if (!['awaiting_payment', 'funded', 'submitted', 'disputed'].includes(milestone.state)) return `ignored: milestone ${milestone.id} is ${milestone.state}`
+  // Read again under the lock (locking reads see what committed meanwhile, e.g. the app's own refund).
+  const rows = await tx.select().from(payments).where(eq(payments.milestoneId, milestone.id)).orderBy(asc(payments.id)).for('update')
+  const recorded = rows.filter(r => r.kind === 'refund' && r.stripePaymentIntentId === piId).reduce((a, r) => a + r.amountCents, 0)
+  if (recorded >= charge.amount_refunded) {
+    return milestone.state === 'refunded' ? `already refunded: milestone ${milestone.id}` : `already recorded: the refund of payment ${piId}`
+  }
   const now = ctx.now()
-  // Refunded outside the app (or before the completion event came in): record the payment and the refund.
-  const [checkout] = await tx.select().from(payments).where(and(eq(payments.milestoneId, milestone.id), eq(payments.kind, 'checkout'), inArray(payments.status, ['open', 'succeeded'])))
-    .orderBy(desc(payments.attempt)).limit(1).for('update')
+  // This payment's own Checkout row: the one with its payment intent, else the open page it was paid
+  // on (its completion event has not come in yet); never another payment's succeeded row.
+  const checkout = rows.find(r => r.kind === 'checkout' && (r.stripePaymentIntentId === piId || r.stripeChargeId === charge.id))
+    ?? rows.filter(r => r.kind === 'checkout' && r.status === 'open' && (r.stripePaymentIntentId === null || r.stripePaymentIntentId === piId)).sort((a, b) => b.attempt - a.attempt)[0]
   // A checkout already recorded as succeeded is left as it is: its updated_at stays the moment it was captured (the dashboard counts by it).
   if (checkout && (checkout.status !== 'succeeded' || checkout.stripeChargeId !== charge.id || checkout.stripePaymentIntentId !== piId)) {
     await tx.update(payments).set({ status: 'succeeded', stripePaymentIntentId: piId, stripeChargeId: charge.id }).where(eq(payments.id, checkout.id))
   }
   else if (!checkout) await tx.insert(payments).values({ milestoneId: milestone.id, kind: 'checkout', status: 'succeeded', amountCents: charge.amount, stripePaymentIntentId: piId, stripeChargeId: charge.id, createdAt: now })
-  await tx.insert(payments).values({ milestoneId: milestone.id, kind: 'refund', status: 'succeeded', amountCents: charge.amount_refunded, stripePaymentIntentId: piId, stripeChargeId: charge.id, createdAt: now })
+  await tx.insert(payments).values({ milestoneId: milestone.id, kind: 'refund', status: 'succeeded', amountCents: charge.amount_refunded - recorded, stripePaymentIntentId: piId, stripeChargeId: charge.id, createdAt: now })
+  const holding = await fundingPayment(tx, milestone.id)
+  if (holding) {
+    await recordDealEvent(tx, { requestId: order.requestId, orderId: order.id, milestoneId: milestone.id, action: 'payment_refunded', detail: `charge ${charge.id} refunded at the payment service; the deposit stays held by payment ${holding.stripePaymentIntentId}` })
+    return `recorded the refund of payment ${piId}; milestone ${milestone.id} stays ${milestone.state}, funded by ${holding.stripePaymentIntentId}`
+  }
+  if (!['awaiting_payment', 'funded', 'submitted', 'disputed'].includes(milestone.state)) {
+    return `recorded the refund of payment ${piId}; milestone ${milestone.id} stays ${milestone.state}`
+  }
   await tx.update(milestones).set({ state: 'refunded', refundedAt: now, fundedAt: milestone.fundedAt ?? now }).where(eq(milestones.id, milestone.id))
   await recordDealEvent(tx, { requestId: order.requestId, orderId: order.id, milestoneId: milestone.id, action: 'milestone_refunded', detail: `charge ${charge.id} refunded at the payment service` })
   return `milestone ${milestone.id} refunded (refund made at the payment service)`
@@ -298,8 +332,7 @@ export async function ensurePayoutAccount(ctx: DealContext, tx: DbTransaction, b
 
 /** Transfers an approved milestone's amount less its fee to the shop, from the charge that funded it. */
 export async function transferRelease(ctx: DealContext, tx: DbTransaction, order: Order, milestone: Milestone): Promise<Stripe.Transfer> {
-  const [funding] = await tx.select().from(payments)
-    .where(and(eq(payments.milestoneId, milestone.id), eq(payments.kind, 'checkout'), eq(payments.status, 'succeeded'))).limit(1)
+  const funding = await fundingPayment(tx, milestone.id)
   if (!funding?.stripeChargeId) throw conflict('This milestone has no recorded payment to release from.')
   const destination = await ensurePayoutAccount(ctx, tx, order.builderId)
   return ctx.stripe.transfers.create({
@@ -345,8 +378,7 @@ export async function refundHeld(
   ctx: DealContext, tx: DbTransaction, order: Order, milestone: Milestone, reason: string, actorId: number | null,
   opts: { audit?: boolean, notify?: boolean } = {},
 ): Promise<Stripe.Refund> {
-  const [funding] = await tx.select().from(payments)
-    .where(and(eq(payments.milestoneId, milestone.id), eq(payments.kind, 'checkout'), eq(payments.status, 'succeeded'))).limit(1)
+  const funding = await fundingPayment(tx, milestone.id)
   if (!funding?.stripePaymentIntentId) throw conflict('This milestone has no recorded payment to refund.')
   let refund: Stripe.Refund
   try {

@@ -9,6 +9,7 @@ import type { SavedSearchList, SavedSearchView } from '#shared/types/saved-searc
 import type { SearchIndex } from '../../search/index'
 import { builderProfiles, builds, savedSearchAnnouncements, savedSearches, users, type SavedSearch } from '../database/schema'
 import type { Database } from '../database/types'
+import { inRetriedTransaction } from '../utils/transaction'
 import { renderSavedSearchMail } from './mail-templates'
 import { enqueueRendered } from './outbox'
 
@@ -61,7 +62,7 @@ export async function listSavedSearches(db: Database, index: SearchIndex, userId
  */
 export async function createSavedSearch(db: Database, index: SearchIndex, userId: number, input: SavedSearchCreate): Promise<SavedSearchView> {
   const query = canonicalFilters(input.query)
-  const id = await db.transaction(async (tx) => {
+  const id = await inRetriedTransaction(db, async (tx) => {
     await tx.select({ id: users.id }).from(users).where(eq(users.id, userId)).for('update')
     const mine = await tx.select({ name: savedSearches.name, query: savedSearches.query }).from(savedSearches).where(eq(savedSearches.userId, userId))
     if (mine.length >= MAX_SAVED_SEARCHES) {
@@ -138,7 +139,9 @@ export async function announceBuild(db: Database, index: SearchIndex, buildId: n
 
   const buildLink = `${siteUrl}/builds/${row.slug}`
   const manageLink = `${siteUrl}${MANAGE_PATH}`
-  return retryOnDeadlock(() => db.transaction(async (tx) => {
+  // Safe to run again after a lock conflict (the outbox drainer locks the same table's rows): every row
+  // it writes is unique per search and build, and all of them roll back together.
+  return inRetriedTransaction(db, async (tx) => {
     const result = { announced: 0, mailed: 0 }
     const now = new Date()
     for (const { search, email, name } of matched) {
@@ -156,28 +159,5 @@ export async function announceBuild(db: Database, index: SearchIndex, buildId: n
       result.mailed++
     }
     return result
-  }))
-}
-
-/** MariaDB's answer when it chose this transaction as a deadlock's victim (ER_LOCK_DEADLOCK). */
-const DEADLOCK = 1213
-
-function isDeadlock(err: unknown): boolean {
-  const e = err as { errno?: number, cause?: { errno?: number } }
-  return e.errno === DEADLOCK || e.cause?.errno === DEADLOCK
-}
-
-/**
- * Runs the announcement again when MariaDB rolled it back to break a deadlock (the outbox drainer
- * locks the same table's rows); it is safe to repeat, as every row it writes is unique per search and build.
- */
-async function retryOnDeadlock<T>(work: () => Promise<T>, attempts = 3): Promise<T> {
-  for (let i = 1; ; i++) {
-    try {
-      return await work()
-    }
-    catch (err) {
-      if (i >= attempts || !isDeadlock(err)) throw err
-    }
-  }
+  }, { attempts: 3 })
 }

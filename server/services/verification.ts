@@ -10,6 +10,7 @@ import { LISTING_STANDARD } from '../../shared/pulls/summary'
 import type { DuplicateLink, EvidenceQueueItem, EvidenceReview, PeakFigures } from '../../shared/types/admin'
 import { builderProfiles, builds, dynoPulls, files, users, type Build, type DynoPull } from '../database/schema'
 import type { Database } from '../database/types'
+import { inRetriedTransaction } from '../utils/transaction'
 import { writeAudit } from './audit'
 
 type Tx = Parameters<Parameters<Database['transaction']>[0]>[0]
@@ -241,12 +242,20 @@ export async function pullFile(db: Database, pullId: number, which: 'pull' | 'sh
   return { storageKey: row.file.storageKey, name: row.file.originalName, mime: row.file.mime }
 }
 
-/** Locks a pull for a decision; 404 when missing, 409 when it is no longer awaiting one. */
+/**
+ * Locks a pull for a decision with its build: the build row first, then the pull, the order the
+ * listing editor takes them in (a build change sends its verified pulls back under the build's lock),
+ * so a decision and an edit never wait on each other in a circle. 404 when missing, 409 when the pull
+ * is no longer awaiting a decision.
+ */
 async function lockSubmitted(tx: Tx, pullId: number) {
+  const [peek] = await tx.select({ buildId: dynoPulls.buildId }).from(dynoPulls).where(eq(dynoPulls.id, pullId))
+  if (!peek) throw createError({ status: 404, message: 'No pull has that id.' })
+  const [build] = await tx.select().from(builds).where(eq(builds.id, peek.buildId)).for('update')
   const [pull] = await tx.select().from(dynoPulls).where(eq(dynoPulls.id, pullId)).for('update')
   if (!pull) throw createError({ status: 404, message: 'No pull has that id.' })
   if (pull.status !== 'submitted') throw createError({ status: 409, message: `That pull was already ${pull.status}; only a pull awaiting a check can be decided.` })
-  return pull
+  return { pull, build: build! }
 }
 
 const figuresOf = (b: Pick<Build, 'peakHp' | 'peakHpRpm' | 'peakTq' | 'peakTqRpm'>): PeakFigures =>
@@ -257,9 +266,8 @@ const figuresOf = (b: Pick<Build, 'peakHp' | 'peakHpRpm' | 'peakTq' | 'peakTqRpm
  * standard) from this pull, and one audit row records the change, all in one transaction. Returns the build id.
  */
 export async function approvePull(db: Database, input: { actorId: number, pullId: number, note?: string | null }): Promise<number> {
-  return db.transaction(async (tx) => {
-    const pull = await lockSubmitted(tx, input.pullId)
-    const [build] = await tx.select().from(builds).where(eq(builds.id, pull.buildId)).for('update')
+  return inRetriedTransaction(db, async (tx) => {
+    const { pull, build } = await lockSubmitted(tx, input.pullId)
     const now = new Date()
     await tx.update(dynoPulls).set({ status: 'verified', reviewNote: input.note ?? null, reviewedAt: now }).where(and(eq(dynoPulls.id, pull.id), eq(dynoPulls.status, 'submitted')))
     const figures = { peakHp: pull.summary.peakHp, peakHpRpm: pull.summary.peakHpRpm, peakTq: pull.summary.peakTq, peakTqRpm: pull.summary.peakTqRpm }
@@ -296,9 +304,8 @@ async function headlineAfterRejection(tx: Tx, build: Build): Promise<PeakFigures
  * off it; one audit row, one transaction. Returns what the e-mail to the shop needs.
  */
 export async function rejectPull(db: Database, input: { actorId: number, pullId: number, reason: string }) {
-  return db.transaction(async (tx) => {
-    const pull = await lockSubmitted(tx, input.pullId)
-    const [build] = await tx.select().from(builds).where(eq(builds.id, pull.buildId)).for('update')
+  return inRetriedTransaction(db, async (tx) => {
+    const { pull, build } = await lockSubmitted(tx, input.pullId)
     const now = new Date()
     await tx.update(dynoPulls).set({ status: 'rejected', reviewNote: input.reason, reviewedAt: now }).where(eq(dynoPulls.id, pull.id))
     const headline = await headlineAfterRejection(tx, build!)

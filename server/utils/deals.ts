@@ -13,6 +13,11 @@ export function useStripe(): Stripe {
   return stripe
 }
 
+/** The app's public address for links in deal e-mails and Checkout's return addresses, without a trailing slash. */
+export function dealSiteUrl(): string {
+  return (useRuntimeConfig().public.siteUrl || `http://127.0.0.1:${process.env.PORT ?? 3000}`).replace(/\/$/, '')
+}
+
 /** What the deal services are given in a request: the database, the Stripe client (made on first use), settings and the clock. */
 export function useDealContext(): DealContext {
   const c = useRuntimeConfig()
@@ -24,7 +29,7 @@ export function useDealContext(): DealContext {
     config: {
       platformFeeBps: Number(c.platformFeeBps),
       autoApproveDays: Number(c.autoApproveDays),
-      siteUrl: (c.public.siteUrl || `http://127.0.0.1:${process.env.PORT ?? 3000}`).replace(/\/$/, ''),
+      siteUrl: dealSiteUrl(),
     },
     now: () => new Date(),
   }

@@ -5,6 +5,8 @@ export interface OutgoingMail {
   subject: string
   text: string
   html?: string
+  /** A Message-ID to send under (the outbox gives each row a stable one); nodemailer makes one when absent. */
+  messageId?: string
 }
 
 let transport: Transporter | undefined
@@ -29,8 +31,8 @@ function useTransport(): Transporter {
 }
 
 /** Sends one message from the configured sender; rejects when the SMTP server refuses it. */
-export async function sendMail({ to, subject, text, html }: OutgoingMail): Promise<void> {
-  await useTransport().sendMail({ from: useRuntimeConfig().mailFrom, to, subject, text, html })
+export async function sendMail({ to, subject, text, html, messageId }: OutgoingMail): Promise<void> {
+  await useTransport().sendMail({ from: useRuntimeConfig().mailFrom, to, subject, text, html, ...(messageId ? { messageId } : {}) })
 }
 
 /**

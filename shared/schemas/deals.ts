@@ -1,7 +1,7 @@
 import { z } from 'zod'
 import { CORRECTION_STANDARDS } from '../engine/types'
 import { DEAL_ASPIRATIONS, DEAL_FUELS, DEAL_LIMITS, DEAL_USES, TRANSMISSIONS } from '../deals/constants'
-import { MAX_CENTS } from '../money'
+import { MAX_CENTS, formatCents } from '../money'
 import { idSchema, slugSchema } from './common'
 
 /** Request bodies of the deal routes; the pages validate their forms with the same schemas. */
@@ -74,14 +74,41 @@ export const guaranteeSchema = z.object({
   standard: standardSchema,
 })
 
-export const quoteSchema = z.object({
+/** The words every refusal of a quote above the money limit uses, on the page and from the server. */
+export const QUOTE_LIMIT_MESSAGE = `A quote's total is at most ${formatCents(MAX_CENTS)}, the limit of any one amount on Torquewright`
+
+/**
+ * Where a well-formed quote goes over the money limit: a line total (price × quantity), the sum of the
+ * line items or the sum of the milestones above MAX_CENTS. Null when every figure is inside it.
+ */
+export function quoteLimitIssue(input: { lineItems: { unitPriceCents: number, quantity: number }[], milestones: { amountCents: number }[] }): { path: (string | number)[], message: string } | null {
+  let total = 0
+  for (const [i, l] of input.lineItems.entries()) {
+    const line = l.unitPriceCents * l.quantity
+    if (line > MAX_CENTS) return { path: ['lineItems', i, 'quantity'], message: `${QUOTE_LIMIT_MESSAGE}; this line comes to ${formatCents(line)}` }
+    total += line
+  }
+  if (total > MAX_CENTS) return { path: ['lineItems'], message: `${QUOTE_LIMIT_MESSAGE}; the line items come to ${formatCents(total)}` }
+  const planned = input.milestones.reduce((a, m) => a + m.amountCents, 0)
+  if (planned > MAX_CENTS) return { path: ['milestones'], message: `${QUOTE_LIMIT_MESSAGE}; the milestones come to ${formatCents(planned)}` }
+  return null
+}
+
+/** A quote's fields one by one. The route reads these; the money limit over the whole is the service's 422. */
+export const quoteFieldsSchema = z.object({
   lineItems: z.array(lineItemSchema).min(1, 'A quote has at least one line item').max(DEAL_LIMITS.lineItems, `At most ${DEAL_LIMITS.lineItems} line items`),
   milestones: z.array(quoteMilestoneSchema).min(1, 'A quote has at least one milestone').max(DEAL_LIMITS.milestones, `At most ${DEAL_LIMITS.milestones} milestones`),
   validUntil: isoDay,
   notes: text(DEAL_LIMITS.notesChars, 'The notes').default(''),
   guarantee: guaranteeSchema.nullable().default(null),
 })
-export type QuoteInput = z.infer<typeof quoteSchema>
+
+/** A whole quote as the editor checks it before sending: its fields, and its total inside the money limit. */
+export const quoteSchema = quoteFieldsSchema.superRefine((v, ctx) => {
+  const issue = quoteLimitIssue(v)
+  if (issue) ctx.addIssue({ code: 'custom', path: issue.path, message: issue.message })
+})
+export type QuoteInput = z.infer<typeof quoteFieldsSchema>
 
 export const acceptQuoteSchema = z.object({
   revision: z.number({ error: 'Say which revision you accept' }).int().min(1),

@@ -79,6 +79,22 @@ describe('quotes', () => {
     expect(await rows(schema.quoteRevisions)).toBe(before)
   })
 
+  it.each([
+    ['one line above $10,000,000.00 (price × quantity)', (q: ReturnType<typeof quoteInput>) => ({ ...q, lineItems: [{ ...q.lineItems[0]!, unitPriceCents: 600_000_000, quantity: 2 }] }), '$12,000,000.00'],
+    ['lines that together pass $10,000,000.00', (q: ReturnType<typeof quoteInput>) => ({ ...q, lineItems: [{ ...q.lineItems[0]!, unitPriceCents: 999_999_999 }, { ...q.lineItems[1]!, unitPriceCents: 999_999_999 }] }), '$19,999,999.98'],
+    ['milestones that together pass $10,000,000.00', (q: ReturnType<typeof quoteInput>) => ({ ...q, milestones: q.milestones.map(m => ({ ...m, amountCents: 999_999_999 })) }), '$29,999,999.97'],
+  ])('refuses a quote with %s: 422 naming the limit, and writes nothing', async (_what, change, figure) => {
+    const id = await newRequest()
+    const before = { revisions: await rows(schema.quoteRevisions), quotes: (await db.select({ n: count() }).from(schema.quotes))[0]!.n }
+    const res = await post(`/api/requests/${id}/quote`, change(quoteInput()), jar.builder)
+    expect(res.status).toBe(422)
+    expect(res.body.message).toContain('at most $10,000,000.00')
+    expect(res.body.message).toContain(figure)
+    expect(await rows(schema.quoteRevisions)).toBe(before.revisions)
+    expect((await db.select({ n: count() }).from(schema.quotes))[0]!.n).toBe(before.quotes)
+    expect((await db.select().from(schema.quotes).where(eq(schema.quotes.requestId, id)))).toHaveLength(0)
+  })
+
   it('keeps every revision, and refuses to accept a revision that is no longer current (409)', async () => {
     const id = await newRequest()
     const first = await post(`/api/requests/${id}/quote`, quoteInput(), jar.builder)

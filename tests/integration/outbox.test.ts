@@ -6,7 +6,7 @@ import { and, count, eq, inArray, isNull, lt } from 'drizzle-orm'
 import { createTransport } from 'nodemailer'
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
 import type { Database } from '../../server/database/types'
-import { MAX_ATTEMPTS, drainOutbox, enqueueMail, retryDelayMs, type OutgoingMail } from '../../server/services/outbox'
+import { CLAIMED_NOTE, MAX_ATTEMPTS, drainOutbox, enqueueMail, outboxMessageId, retryDelayMs, type OutgoingMail } from '../../server/services/outbox'
 import { mailFor } from '../support/context'
 import { dealTestContext, schema } from '../support/deals'
 import { eventually } from '../support/payments'
@@ -108,5 +108,58 @@ describe('mail outbox', () => {
     expect(row!.sentAt).toBeNull()
     expect(row!.lastError).toBe('421 service not available')
     await db.delete(schema.mailOutbox).where(inArray(schema.mailOutbox.id, [row!.id]))
+  })
+
+  it('counts the attempt when it claims a mail, before sending; records sentAt after', async () => {
+    const to = await queue(1)
+    const seen: { attempts: number, sentAt: Date | null, lastError: string | null }[] = []
+    const result = await drainOutbox(db, async (mail) => {
+      if (mail.to === to) {
+        const [row] = await rowsFor(mail.to)
+        seen.push({ attempts: row!.attempts, sentAt: row!.sentAt, lastError: row!.lastError })
+      }
+      await smtp(inject('mailSmtpPort'))(mail)
+    }, { now: FAR })
+    expect(result.sent).toBeGreaterThanOrEqual(1)
+    // While it was being sent, the row already said so: a crash here leaves a counted attempt and this note.
+    expect(seen).toEqual([{ attempts: 1, sentAt: null, lastError: CLAIMED_NOTE }])
+    const [row] = await rowsFor(to)
+    expect(row!.attempts).toBe(1)
+    expect(row!.sentAt).not.toBeNull()
+    expect(row!.lastError).toBeNull()
+  })
+
+  it('sends each mail with a stable Message-ID, and a re-send of the same row carries the same one', async () => {
+    const to = await queue(1)
+    const host = 'mail.torquewright.test'
+    await drainOutbox(db, smtp(inject('mailSmtpPort')), { now: FAR, host })
+    const [row] = await rowsFor(to)
+    const expected = outboxMessageId(row!, host)
+    // RFC 5322 section 3.6.4: msg-id = "<" id-left "@" id-right ">"
+    expect(expected).toMatch(new RegExp(`^<outbox-${row!.id}\\.[0-9a-f]{16}@mail\\.torquewright\\.test>$`))
+    const first = await mailFor(to)
+    expect(first.map(m => m.messageId)).toEqual([expected])
+    // The sent mark lost (a crash between the send and the record): the row is due again and goes out again.
+    await db.update(schema.mailOutbox).set({ sentAt: null, nextAttemptAt: FAR }).where(eq(schema.mailOutbox.id, row!.id))
+    await drainOutbox(db, smtp(inject('mailSmtpPort')), { now: FAR, host })
+    const both = await mailFor(to)
+    expect(both).toHaveLength(2)
+    expect(both.map(m => m.messageId)).toEqual([expected, expected])
+    const [again] = await rowsFor(to)
+    expect(again!.attempts).toBe(2)
+    expect(again!.sentAt).not.toBeNull()
+  })
+
+  it('goes out from the app\'s own drainer with its row\'s Message-ID (server/utils/mail.ts hands it to nodemailer)', async () => {
+    const to = `outbox-app-${randomUUID().slice(0, 8)}@racer.test`
+    await enqueueMail(db, to, { kind: 'new_message', recipientName: 'Test', senderName: 'Shop', title: 'From the app', excerpt: 'Sent by the app', link: 'http://127.0.0.1/x' }, `test:${to}`)
+    const [caught] = await eventually(`the app's mail to ${to}`, async () => {
+      const mails = await mailFor(to)
+      return mails.length > 0 ? mails : undefined
+    }, 30_000)
+    const [row] = await rowsFor(to)
+    // The test app's site address is http://127.0.0.1:<port> (scripts/lib/app.ts), so its host names the Message-ID.
+    expect(caught!.messageId).toBe(outboxMessageId(row!, '127.0.0.1'))
+    expect(row!.attempts).toBe(1)
   })
 })

@@ -5,7 +5,7 @@ import { count, eq } from 'drizzle-orm'
 import Stripe from 'stripe'
 import { afterAll, afterEach, beforeAll, describe, expect, inject, it } from 'vitest'
 import type { DealContext } from '../../server/services/deal-context'
-import { cancelOrder } from '../../server/services/milestones'
+import { approveMilestone, cancelOrder, submitMilestone } from '../../server/services/milestones'
 import { startCheckout } from '../../server/services/payments'
 import { api } from '../support/context'
 import { dealTestContext, fundMilestone, makeOrder, milestoneRow, schema } from '../support/deals'
@@ -188,5 +188,51 @@ describe('out of order', () => {
     const res = await post(payload, sign(payload))
     expect(res.body.outcome).toContain('ignored')
     expect((await milestoneRow(ctx.db, m.id)).state).toBe('funded')
+  })
+})
+
+describe('a late second payment', () => {
+  it('refunds the second payment without touching the first: the first row keeps its payment, the refund points at the second, the milestone stays funded and pays out from the first', async () => {
+    const { racer, builder, milestones, orderId } = await makeOrder(ctx)
+    const m = milestones[0]!
+    const { sessionId: firstSession } = await fundMilestone(ctx, racer, m.id)
+    const [first] = await ctx.db.select().from(schema.payments).where(eq(schema.payments.stripeCheckoutSessionId, firstSession))
+    // A second page for the same milestone (as one left open in another tab would be), paid after the first.
+    const second = await ctx.stripe.checkout.sessions.create({
+      mode: 'payment',
+      line_items: [{ quantity: 1, price_data: { currency: 'usd', unit_amount: m.amountCents, product_data: { name: m.title } } }],
+      success_url: `${ctx.config.siteUrl}/deals/orders/${orderId}/paid`,
+      metadata: { milestone_id: String(m.id), order_id: String(orderId), attempt: '0' },
+      payment_intent_data: { metadata: { milestone_id: String(m.id), order_id: String(orderId) } },
+    })
+    expect((await payOnFakePage(second.url!, CARDS.succeeds)).status).toBe(303)
+    const secondIntent = (await ctx.stripe.checkout.sessions.retrieve(second.id)).payment_intent as string
+    const secondCharge = (await ctx.stripe.paymentIntents.retrieve(secondIntent)).latest_charge as string
+    // The app refunds it on the completion event; then the refund's own event comes in.
+    const refunded = await eventually('the second charge\'s refund event', async () => {
+      const events = await fake('/_fake/events') as { id: string, type: string, objectId: string }[]
+      return events.find(e => e.type === 'charge.refunded' && e.objectId === secondCharge)
+    })
+    const processed = await eventually('the refund event processed', async () => (await ctx.db.select().from(schema.stripeEvents).where(eq(schema.stripeEvents.eventId, refunded.id)))[0])
+    expect(processed.outcome).not.toContain(`milestone ${m.id} refunded`)
+
+    const rows = await ctx.db.select().from(schema.payments).where(eq(schema.payments.milestoneId, m.id))
+    const firstNow = rows.find(r => r.id === first!.id)!
+    expect(firstNow).toMatchObject({ kind: 'checkout', status: 'succeeded', stripePaymentIntentId: first!.stripePaymentIntentId, stripeChargeId: first!.stripeChargeId })
+    const refunds = rows.filter(r => r.kind === 'refund')
+    expect(refunds).toHaveLength(1)
+    expect(refunds[0]).toMatchObject({ stripePaymentIntentId: secondIntent, amountCents: m.amountCents })
+    expect(rows.find(r => r.stripeCheckoutSessionId === second.id)).toMatchObject({ kind: 'checkout', status: 'succeeded', stripePaymentIntentId: secondIntent })
+    expect((await milestoneRow(ctx.db, m.id)).state).toBe('funded')
+    // At the payment service the first deposit is still captured and unrefunded, the second refunded in full.
+    const chargeOf = async (pi: string) => (await ctx.stripe.paymentIntents.retrieve(pi, { expand: ['latest_charge'] })).latest_charge as Stripe.Charge
+    expect(await chargeOf(first!.stripePaymentIntentId!)).toMatchObject({ id: first!.stripeChargeId, refunded: false, amount_refunded: 0 })
+    expect(await chargeOf(secondIntent)).toMatchObject({ id: secondCharge, refunded: true, amount_refunded: m.amountCents })
+
+    // The milestone carries on: the payout is made from the first charge, the one that funds it.
+    await submitMilestone(ctx, builder, m.id, { notes: 'Parts ordered.', proofFileIds: [], deliveryPullId: null })
+    expect(await approveMilestone(ctx, racer, m.id)).toEqual({ released: true, problem: null })
+    const transfer = (await ctx.db.select().from(schema.payments).where(eq(schema.payments.milestoneId, m.id))).find(r => r.kind === 'transfer')!
+    expect((await ctx.stripe.transfers.retrieve(transfer.stripeTransferId!)).source_transaction).toBe(first!.stripeChargeId)
   })
 })

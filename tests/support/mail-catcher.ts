@@ -10,6 +10,8 @@ export interface CaughtMail {
   text: string
   html: string
   date: string
+  /** The Message-ID header as sent, angle brackets included ('' when there was none). */
+  messageId: string
 }
 
 /** A real SMTP server on 127.0.0.1 that keeps what it receives, with a small HTTP API for the tests to read it. */
@@ -23,7 +25,7 @@ export async function startMailCatcher(): Promise<{ smtpPort: number, apiUrl: st
     onData(stream, _session, callback) {
       simpleParser(stream).then((mail) => {
         const addresses = (Array.isArray(mail.to) ? mail.to : mail.to ? [mail.to] : []).flatMap(a => a.value.map(v => (v.address ?? '').toLowerCase()))
-        inbox.push({ to: addresses, from: mail.from?.text ?? '', subject: mail.subject ?? '', text: mail.text ?? '', html: typeof mail.html === 'string' ? mail.html : '', date: new Date().toISOString() })
+        inbox.push({ to: addresses, from: mail.from?.text ?? '', subject: mail.subject ?? '', text: mail.text ?? '', html: typeof mail.html === 'string' ? mail.html : '', date: new Date().toISOString(), messageId: mail.messageId ?? '' })
         callback()
       }, callback)
     },

@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest'
 import { aspirations, fuels, milestoneStates, transmissions, uses } from '../../server/database/schema'
 import { DEAL_ASPIRATIONS, DEAL_FUELS, DEAL_USES, MILESTONE_STATES, TRANSMISSIONS } from '../../shared/deals/constants'
-import { messageSchema, quoteRequestSchema, quoteSchema } from '../../shared/schemas/deals'
+import { MAX_CENTS } from '../../shared/money'
+import { QUOTE_LIMIT_MESSAGE, messageSchema, quoteFieldsSchema, quoteRequestSchema, quoteSchema } from '../../shared/schemas/deals'
 
 const request = {
   builder: 'harrow-creek-engine-works', title: 'Bracket engine', targetHp: 640, targetStandard: 'SAE_J1349_2004',
@@ -55,5 +56,23 @@ describe('the deal forms\' schemas', () => {
     expect(issues(quoteSchema.safeParse({ ...quote, lineItems: [] }))).toContain('lineItems: A quote has at least one line item')
     expect(issues(quoteSchema.safeParse({ ...quote, milestones: [{ ...quote.milestones[0], amountCents: 99 }] }))).toContain('milestones.0.amountCents: A milestone is at least $1.00')
     expect(issues(quoteSchema.safeParse({ ...quote, guarantee: { hp: 700, tolerancePct: 12, standard: 'DIN_70020' } }))).toContain('guarantee.tolerancePct: The tolerance is at most 10 %')
+  })
+
+  it('refuses a quote over the money limit up front, with the words the server uses', () => {
+    const quote = {
+      lineItems: [{ category: 'Machine work', description: 'Bore and hone', quantity: 1, unitPriceCents: 50_000 }],
+      milestones: [{ title: 'All', deliverable: 'Everything', amountCents: 50_000, dueDate: '2030-01-01' }],
+      validUntil: '2030-01-01',
+    }
+    expect(QUOTE_LIMIT_MESSAGE).toContain('at most $10,000,000.00')
+    const line = quote.lineItems[0]!
+    const oneLine = issues(quoteSchema.safeParse({ ...quote, lineItems: [{ ...line, unitPriceCents: MAX_CENTS, quantity: 2 }] }))
+    expect(oneLine).toEqual([`lineItems.0.quantity: ${QUOTE_LIMIT_MESSAGE}; this line comes to $20,000,000.00`])
+    const twoLines = issues(quoteSchema.safeParse({ ...quote, lineItems: [{ ...line, unitPriceCents: MAX_CENTS }, { ...line, unitPriceCents: 1 }] }))
+    expect(twoLines).toEqual([`lineItems: ${QUOTE_LIMIT_MESSAGE}; the line items come to $10,000,000.01`])
+    // Exactly at the limit is allowed (the limit is inclusive, as assertCents has it).
+    expect(quoteSchema.safeParse({ ...quote, lineItems: [{ ...line, unitPriceCents: MAX_CENTS }], milestones: [{ ...quote.milestones[0]!, amountCents: MAX_CENTS }] }).success).toBe(true)
+    // The route reads the fields alone; the limit is the service's 422.
+    expect(quoteFieldsSchema.safeParse({ ...quote, lineItems: [{ ...line, unitPriceCents: MAX_CENTS, quantity: 2 }] }).success).toBe(true)
   })
 })
