@@ -1,5 +1,5 @@
-/** Sign-in and sign-up: a signed-in user goes to their role's home instead. */
-export default defineNuxtRouteMiddleware(() => {
+/** Sign-in and sign-up: a signed-in user goes where the link meant (`next`, a path on this site) or to their role's home. */
+export default defineNuxtRouteMiddleware((to) => {
   const user = useSessionUser()
-  if (user.value) return navigateTo(ROLE_HOME[user.value.role])
+  if (user.value) return navigateTo(safeNextPath(to.query.next) ?? ROLE_HOME[user.value.role])
 })

@@ -5,6 +5,7 @@ import { drizzle, type MySql2Database } from 'drizzle-orm/mysql2'
 import mysql from 'mysql2/promise'
 import { createStorage } from 'unstorage'
 import fsDriver from 'unstorage/drivers/fs'
+import { headlinePull } from '../../shared/pulls/headline'
 import { evaluatePull } from '../../shared/pulls/evaluate'
 import type { EvidenceCheck } from '../../shared/engine/types'
 import type { PullSummaryFigures } from '../../shared/pulls/summary'
@@ -83,7 +84,9 @@ export async function seedDemo(opts: { url: string, uploadsDir: string, payments
         await storage.setItem(storageKey, text)
         pullRows.push({ pull, sha256, storageKey, summary: evaluation.summary, fingerprint: evaluation.fingerprint, checks: evaluation.checks, size: Buffer.byteLength(text) })
       }
-      const headline = pullRows[0]!
+      // The one headline rule, as the app applies it after every pull change (shared/pulls/headline.ts).
+      const chosen = headlinePull(pullRows.map((r, i) => ({ id: i + 1, status: r.pull.status, summary: r.summary, checks: r.checks, row: r })))
+      const headline = chosen?.pull.row ?? null
       const verified = b.pulls.every(p => p.status === 'verified')
       const publishedAt = new Date(Date.now() - b.publishedDaysAgo * 86_400_000)
       const submittedAt = b.pulls.some(p => p.status === 'submitted')
@@ -96,10 +99,10 @@ export async function seedDemo(opts: { url: string, uploadsDir: string, payments
           builderId: shop.profileId,
           status: 'published',
           publishedAt,
-          peakHp: headline.summary.peakHp,
-          peakHpRpm: headline.summary.peakHpRpm,
-          peakTq: headline.summary.peakTq,
-          peakTqRpm: headline.summary.peakTqRpm,
+          peakHp: headline?.summary.peakHp ?? null,
+          peakHpRpm: headline?.summary.peakHpRpm ?? null,
+          peakTq: headline?.summary.peakTq ?? null,
+          peakTqRpm: headline?.summary.peakTqRpm ?? null,
           verifiedAt: verified ? publishedAt : null,
         }).$returningId()
         const buildId = row!.id

@@ -2,6 +2,7 @@ import { createError } from 'h3'
 import { and, asc, eq, inArray } from 'drizzle-orm'
 import { convertCurve, deltaCurve, describeDelta, parsePull, peaks, torqueAt, type CorrectionStandard, type PullPoint } from '#shared/engine'
 import { displayCurve } from '#shared/listings/display-curve'
+import { headlinePull } from '#shared/pulls/headline'
 import type { BuildCurves, CurveComparison, CurvePull } from '#shared/types/listings'
 import { toCsv } from '#shared/csv'
 import { builds, dynoPulls, files, type DynoPull } from '../database/schema'
@@ -91,7 +92,9 @@ export async function curvesForBuild(db: Database, read: ReadStoredText, buildId
       })
     }
   }
-  return { slug, standard: target, pulls, comparisons }
+  // The pull that speaks for the build, by the one headline rule (the same one cards and search use).
+  const headline = headlinePull(rows.map(r => r.pull).filter(p => raw.has(p.id)))
+  return { slug, standard: target, headlineId: headline?.pull.id ?? null, headlineBasis: headline?.basis ?? null, pulls, comparisons }
 }
 
 /** The id of a published build by its slug, or null. */

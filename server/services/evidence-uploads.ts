@@ -8,7 +8,8 @@ import { builds, dynoPulls, files, type Build } from '../database/schema'
 import type { Database } from '../database/types'
 import { inRetriedTransaction, retryOnLockConflict } from '../utils/transaction'
 import type { ReadStoredText } from './curves'
-import { afterBuildChanged, ownBuild, refreshHeadline, type ShopRef } from './listing-editor'
+import { refreshHeadline } from './headline'
+import { afterBuildChanged, ownBuild, type ShopRef } from './listing-editor'
 import { deleteFileRows, discard, insertFileRow, vetUpload, withStagedFiles, type IncomingFile, type UploadStore } from './listing-files'
 
 export interface PullUpload {

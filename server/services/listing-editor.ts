@@ -6,6 +6,7 @@ import type { EditorBuild, EditorFields, PublishIssue } from '#shared/types/edit
 import { buildParts, buildPhotos, builds, dynoPulls, type Build } from '../database/schema'
 import type { Database } from '../database/types'
 import { inRetriedTransaction } from '../utils/transaction'
+import { refreshHeadline } from './headline'
 import { deleteFileRows, discard, type Tx, type UploadStore } from './listing-files'
 
 /** The caller's shop, as the builder guard returns it. */
@@ -79,25 +80,6 @@ function fieldsOf(build: Build): EditorFields {
 async function livePullCount(db: Database | Tx, buildId: number): Promise<number> {
   const [row] = await db.select({ n: count() }).from(dynoPulls).where(and(eq(dynoPulls.buildId, buildId), inArray(dynoPulls.status, ['submitted', 'verified'])))
   return row?.n ?? 0
-}
-
-/**
- * The build's headline figures and checked mark from its pulls: the first verified pull, else the
- * first submitted one (the order the build page lists them); none when no pull is left to show.
- */
-export async function refreshHeadline(tx: Tx, buildId: number): Promise<void> {
-  const rows = await tx.select({ status: dynoPulls.status, summary: dynoPulls.summary }).from(dynoPulls)
-    .where(and(eq(dynoPulls.buildId, buildId), inArray(dynoPulls.status, ['submitted', 'verified']))).orderBy(asc(dynoPulls.id))
-  const verified = rows.filter(r => r.status === 'verified')
-  const headline = (verified[0] ?? rows[0])?.summary
-  const [build] = await tx.select({ verifiedAt: builds.verifiedAt }).from(builds).where(eq(builds.id, buildId))
-  await tx.update(builds).set({
-    peakHp: headline?.peakHp ?? null,
-    peakHpRpm: headline?.peakHpRpm ?? null,
-    peakTq: headline?.peakTq ?? null,
-    peakTqRpm: headline?.peakTqRpm ?? null,
-    verifiedAt: verified.length ? (build?.verifiedAt ?? new Date()) : null,
-  }).where(eq(builds.id, buildId))
 }
 
 /** A new draft with only its title. Returns its id. */

@@ -1,3 +1,4 @@
+import { headlinePull } from '#shared/pulls/headline'
 import { and, asc, eq, inArray, sql } from 'drizzle-orm'
 import { convertCurve, isCorrectionStandard } from '#shared/engine/correction'
 import { peaks, resample } from '#shared/engine/curves'
@@ -52,12 +53,6 @@ async function publishedStamps(db: Database, ids?: number[]): Promise<Map<number
 }
 
 type PullWithFile = DynoPull & { storageKey: string }
-
-/** The pull a listing's headline figures come from: the strongest verified one, else the strongest submitted one. */
-function headlinePull(pulls: PullWithFile[]): PullWithFile | undefined {
-  const strongest = (list: PullWithFile[]) => list.reduce<PullWithFile | undefined>((best, p) => (!best || p.summary.peakHp > best.summary.peakHp ? p : best), undefined)
-  return strongest(pulls.filter(p => p.status === 'verified')) ?? strongest(pulls.filter(p => p.status === 'submitted'))
-}
 
 /** Peaks and the grid curve under SAE J1349 (2004), recomputed from the raw pull file; the stored summary when the file is unreadable. */
 async function figuresOf(read: ReadStoredText, pull: PullWithFile | undefined) {
@@ -150,7 +145,8 @@ export async function loadSearchDocuments(db: Database, ids?: number[], read: Re
   }
   const docs: SearchDocument[] = []
   for (const { build, shop } of rows) {
-    const figures = await figuresOf(read, headlinePull(pullsOf.get(build.id) ?? []))
+    // The one headline rule (shared/pulls/headline.ts): a pull failing its own checks never sets a filterable figure.
+    const figures = await figuresOf(read, headlinePull(pullsOf.get(build.id) ?? [])?.pull)
     docs.push(documentOf(build, shop, partsOf.get(build.id) ?? [], figures, stamps.get(build.id) ?? ''))
   }
   return docs

@@ -12,6 +12,7 @@ import { builderProfiles, builds, dynoPulls, files, users, type Build, type Dyno
 import type { Database } from '../database/types'
 import { inRetriedTransaction } from '../utils/transaction'
 import { writeAudit } from './audit'
+import { refreshHeadline } from './headline'
 
 type Tx = Parameters<Parameters<Database['transaction']>[0]>[0]
 /** Reads a stored file's text by its storage key (Nitro storage on the server, the uploads folder in tests). */
@@ -270,9 +271,9 @@ export async function approvePull(db: Database, input: { actorId: number, pullId
     const { pull, build } = await lockSubmitted(tx, input.pullId)
     const now = new Date()
     await tx.update(dynoPulls).set({ status: 'verified', reviewNote: input.note ?? null, reviewedAt: now }).where(and(eq(dynoPulls.id, pull.id), eq(dynoPulls.status, 'submitted')))
-    const figures = { peakHp: pull.summary.peakHp, peakHpRpm: pull.summary.peakHpRpm, peakTq: pull.summary.peakTq, peakTqRpm: pull.summary.peakTqRpm }
-    const verifiedAt = build!.verifiedAt ?? now
-    await tx.update(builds).set({ ...figures, verifiedAt }).where(eq(builds.id, pull.buildId))
+    // The headline follows the one rule: the strongest verified pull, which need not be this one.
+    const { pullId: _headlineId, basis: _basis, verifiedAt: stamped, ...figures } = await refreshHeadline(tx, pull.buildId, now)
+    const verifiedAt = stamped ?? now
     await writeAudit(tx, {
       actorId: input.actorId,
       action: 'pull.verify',
@@ -288,18 +289,6 @@ export async function approvePull(db: Database, input: { actorId: number, pullId
 }
 
 /**
- * The build's headline figures once a pull is rejected: a build with a verified pull keeps what the
- * verification gave it; otherwise the first pull still awaiting a check speaks for it, or nothing does.
- */
-async function headlineAfterRejection(tx: Tx, build: Build): Promise<PeakFigures | null> {
-  if (build.verifiedAt) return null
-  const [next] = await tx.select({ summary: dynoPulls.summary }).from(dynoPulls)
-    .where(and(eq(dynoPulls.buildId, build.id), eq(dynoPulls.status, 'submitted'))).orderBy(asc(dynoPulls.id)).limit(1)
-  const s = next?.summary
-  return { peakHp: s?.peakHp ?? null, peakHpRpm: s?.peakHpRpm ?? null, peakTq: s?.peakTq ?? null, peakTqRpm: s?.peakTqRpm ?? null }
-}
-
-/**
  * Rejects a pull with a reason the shop will read, and moves the build's unverified headline figures
  * off it; one audit row, one transaction. Returns what the e-mail to the shop needs.
  */
@@ -308,9 +297,9 @@ export async function rejectPull(db: Database, input: { actorId: number, pullId:
     const { pull, build } = await lockSubmitted(tx, input.pullId)
     const now = new Date()
     await tx.update(dynoPulls).set({ status: 'rejected', reviewNote: input.reason, reviewedAt: now }).where(eq(dynoPulls.id, pull.id))
-    const headline = await headlineAfterRejection(tx, build!)
-    const changed = headline && JSON.stringify(headline) !== JSON.stringify(figuresOf(build!))
-    if (changed) await tx.update(builds).set(headline).where(eq(builds.id, build!.id))
+    // The rejected pull leaves the headline; the one rule picks who speaks for the build now.
+    const { pullId: _headlineId, basis: _basis, verifiedAt: _verifiedAt, ...headline } = await refreshHeadline(tx, build!.id, now)
+    const changed = JSON.stringify(headline) !== JSON.stringify(figuresOf(build!))
     await writeAudit(tx, {
       actorId: input.actorId,
       action: 'pull.reject',

@@ -59,7 +59,15 @@ export const passwordSignInSchema = z.object({
 })
 export type PasswordSignInInput = z.infer<typeof passwordSignInSchema>
 
-export const linkRequestSchema = z.object({ email: emailSchema })
+/** A path on this site to return to after sign-in: starts with one `/`, no scheme, host or backslash. */
+export function isSafeNextPath(value: unknown): value is string {
+  return typeof value === 'string' && value.length <= 500 && value.startsWith('/') && !value.startsWith('//')
+    && !value.includes('\\') && ![...value].some(c => c.charCodeAt(0) < 32 || c.charCodeAt(0) === 127)
+}
+
+export const nextPathSchema = z.string({ error: 'next is a path on this site' }).refine(isSafeNextPath, 'next is a path on this site, such as /deals')
+
+export const linkRequestSchema = z.object({ email: emailSchema, next: nextPathSchema.optional() })
 
 export const linkTokenSchema = z.object({
   token: z.string({ error: 'The link is incomplete' }).regex(/^[A-Za-z0-9_-]{43}$/, 'The link is incomplete: open it again from the e-mail'),

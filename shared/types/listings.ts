@@ -137,6 +137,9 @@ export interface CurveComparison {
 export interface BuildCurves {
   slug: string
   standard: string
+  /** The pull whose figures headline the build (shared/pulls/headline.ts), or null when none may. */
+  headlineId: number | null
+  headlineBasis: 'verified' | 'awaiting' | null
   pulls: CurvePull[]
   comparisons: CurveComparison[]
 }

@@ -6,6 +6,7 @@ import { resolve } from 'node:path'
 import { loadConfig } from '../../scripts/lib/config'
 import { baseUrl, schema, testDb } from '../support/context'
 import { makeBuildAwaitingCheck } from '../support/fixtures'
+import { headlinePull } from '../../shared/pulls/headline'
 import { isLocal, openBrowser } from '../support/browser'
 
 let browser: Awaited<ReturnType<typeof openBrowser>>
@@ -19,19 +20,25 @@ afterAll(async () => {
 describe('build page in Chromium', () => {
   it('shows the chart and switches standard with figures equal to the module\'s', async () => {
     const { db, close } = await testDb()
-    const [row] = await db.select({ slug: schema.builds.slug, pull: schema.dynoPulls, key: schema.files.storageKey }).from(schema.builds)
+    const [first] = await db.select({ buildId: schema.builds.id }).from(schema.builds)
       .innerJoin(schema.dynoPulls, eq(schema.dynoPulls.buildId, schema.builds.id))
-      .innerJoin(schema.files, eq(schema.files.id, schema.dynoPulls.fileId))
       .where(and(eq(schema.builds.status, 'published'), isNotNull(schema.dynoPulls.baroInHg)))
       .orderBy(schema.dynoPulls.id).limit(1)
+    // The page headlines the pull the one rule picks (shared/pulls/headline.ts), not simply the first.
+    const rows = await db.select({ slug: schema.builds.slug, pull: schema.dynoPulls, key: schema.files.storageKey }).from(schema.builds)
+      .innerJoin(schema.dynoPulls, eq(schema.dynoPulls.buildId, schema.builds.id))
+      .innerJoin(schema.files, eq(schema.files.id, schema.dynoPulls.fileId))
+      .where(eq(schema.builds.id, first!.buildId))
     await close()
-    const parsed = parsePull(readFileSync(resolve(loadConfig().dataDir, 'test-uploads', row!.key), 'utf8'))
+    const chosen = headlinePull(rows.map(r => ({ ...r.pull, row: r })))
+    const row = chosen!.pull.row
+    const parsed = parsePull(readFileSync(resolve(loadConfig().dataDir, 'test-uploads', row.key), 'utf8'))
     if (!parsed.ok) throw new Error('stored pull does not parse')
-    const weather = { baroInHg: row!.pull.baroInHg!, airTempF: row!.pull.airTempF!, humidityPct: row!.pull.humidityPct! }
-    const expectedPeak = (standard: CorrectionStandard) => peaks(convertCurve(parsed.points, { standard: row!.pull.declaredStandard as CorrectionStandard, weather }, { standard, weather }).points).peakHp
+    const weather = { baroInHg: row.pull.baroInHg!, airTempF: row.pull.airTempF!, humidityPct: row.pull.humidityPct! }
+    const expectedPeak = (standard: CorrectionStandard) => peaks(convertCurve(parsed.points, { standard: row.pull.declaredStandard as CorrectionStandard, weather }, { standard, weather }).points).peakHp
 
     const { page, requests } = browser
-    await page.goto(`${baseUrl()}/builds/${row!.slug}`, { waitUntil: 'networkidle' })
+    await page.goto(`${baseUrl()}/builds/${row.slug}`, { waitUntil: 'networkidle' })
     // The chart mounts on the client after hydration; wait for it rather than race it.
     await page.locator('canvas').first().waitFor()
     expect(await page.locator('canvas').count()).toBeGreaterThan(0)

@@ -161,6 +161,19 @@ describe('e-mailed sign-in links', () => {
     expect(statuses).toEqual([202, 202, 202, 429])
   })
 
+  it('carries the page to return to inside the e-mailed link, and refuses a page on another site', async () => {
+    const account = await makeAccount({ role: 'racer' })
+    const res = await api('/api/account/sign-in-link', json('POST', { email: account.email, next: '/deals/orders/7' }, null, freshAddress()))
+    expect(res.status).toBe(202)
+    const mail = await waitForMail(account.email)
+    expect(mail.text).toMatch(/\/sign-in\/link\?token=[A-Za-z0-9_-]+&next=%2Fdeals%2Forders%2F7/)
+    for (const next of ['https://elsewhere.test/', '//elsewhere.test/deals']) {
+      const bad = await api('/api/account/sign-in-link', json('POST', { email: account.email, next }, null, freshAddress()))
+      expect(bad.status).toBe(400)
+      expect(bad.body.message).toContain('path on this site')
+    }
+  })
+
   it('refuses bad input with a 400 that names the e-mail', async () => {
     const res = await api('/api/account/sign-in-link', json('POST', { email: 'nope' }, null, freshAddress()))
     expect(res.status).toBe(400)

@@ -3,9 +3,12 @@ import { emails } from '../../auth/messages'
 import { bucketKey, POLICIES, takeTokens } from '../../auth/rate-limit'
 import { findUserByEmail, issueLink } from '../../services/accounts'
 
-/** Asks for a passwordless sign-in link. Public. The answer is the same whether or not the address has an account. */
+/**
+ * Asks for a passwordless sign-in link, optionally carrying the page to return to (`next`). Public.
+ * The answer is the same whether or not the address has an account.
+ */
 export default defineEventHandler(async (event) => {
-  const { email } = await readValidatedBody(event, validator(linkRequestSchema))
+  const { email, next } = await readValidatedBody(event, validator(linkRequestSchema))
   const db = useDb()
   const limit = await takeTokens(db, [
     { key: bucketKey.linkAccount(email), policy: POLICIES.linkAccount },
@@ -17,7 +20,9 @@ export default defineEventHandler(async (event) => {
   const user = await findUserByEmail(db, email)
   if (user && !user.suspendedAt) {
     const token = await issueLink(db, { userId: user.id, purpose: 'sign_in' })
-    sendMailLater(event, { to: user.email, ...emails.signInLink(user.name, `${siteOrigin(event)}/sign-in/link?token=${token}`) })
+    // The page the person was on comes back with the link (a path on this site only, checked by the schema).
+    const back = next ? `&next=${encodeURIComponent(next)}` : ''
+    sendMailLater(event, { to: user.email, ...emails.signInLink(user.name, `${siteOrigin(event)}/sign-in/link?token=${token}${back}`) })
   }
   setResponseStatus(event, 202)
   return { message: `If ${email} has an account, a sign-in link is on its way. It works once, for 20 minutes.` }
