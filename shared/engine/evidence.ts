@@ -147,14 +147,73 @@ function powerTorque(pull: EvidencePull, points: PullPoint[]): EvidenceCheck {
   const ratio = median(ratios)
   const values = { comparedPoints: both.length, worstErrorPct: worstErr * 100, p95ErrorPct: p95 * 100, medianRatio: ratio }
   if (worstErr <= 0.01) return check('power-torque-agreement', 'pass', `Power agrees with torque × rpm / 5252 within ${pct(worstErr)} on all ${both.length} points.`, values)
-  let hint = ''
-  if (ratio > 0.72 && ratio < 0.76) hint = ' The power is about 0.74 of torque × rpm / 5252: one column looks metric (kW or N·m) under an imperial label.'
-  else if (ratio > 1.31 && ratio < 1.38) hint = ' The power is about 1.34 of torque × rpm / 5252: one column looks imperial under a metric label.'
-  else if (ratio > 1.008 && ratio < 1.02) hint = ' The power is about 1.4 % high throughout: it may be metric horsepower (PS) labelled hp.'
+  const where = disagreementRanges(both, errors)
+  const hint = unitHint(ratios, ratio)
   if (p95 <= 0.01 || worstErr <= 0.02) {
-    return check('power-torque-agreement', 'warn', `Power and torque × rpm / 5252 differ by up to ${pct(worstErr)} (95 % of points within ${pct(p95)}).${hint}`, values)
+    return check('power-torque-agreement', 'warn', `Power and torque × rpm / 5252 differ by up to ${pct(worstErr)} (95 % of points within ${pct(p95)}).${where}${hint}`, values)
   }
-  return check('power-torque-agreement', 'fail', `Power does not follow torque × rpm / 5252: up to ${pct(worstErr)} apart, 95 % of points within ${pct(p95)}.${hint || ' One of the columns was edited or mislabelled.'}`, values)
+  return check('power-torque-agreement', 'fail', `Power does not follow torque × rpm / 5252: up to ${pct(worstErr)} apart, 95 % of points within ${pct(p95)}.${where}${hint || ' One of the columns was edited or mislabelled.'}`, values)
+}
+
+/** Points off by more than this share of the expected power count as disagreeing. */
+const AGREE_WITHIN = 0.01
+
+/**
+ * Where power and torque disagree, in rpm ranges (at most three named), with the direction and the
+ * worst point of each: "from 4,600 to 7,000 rpm the power is high, up to 9.0 % at 7,000 rpm".
+ */
+function disagreementRanges(points: readonly PullPoint[], errors: readonly number[]): string {
+  const ranges: { from: number, to: number, worst: number, worstRpm: number, high: number, low: number }[] = []
+  let open: (typeof ranges)[number] | null = null
+  for (let i = 0; i < points.length; i++) {
+    const p = points[i] as PullPoint
+    const err = errors[i] as number
+    if (err > AGREE_WITHIN) {
+      if (!open) {
+        open = { from: p.rpm, to: p.rpm, worst: 0, worstRpm: p.rpm, high: 0, low: 0 }
+        ranges.push(open)
+      }
+      open.to = p.rpm
+      if (err > open.worst) {
+        open.worst = err
+        open.worstRpm = p.rpm
+      }
+      if (p.hp > ((p.lbFt as number) * p.rpm) / HP_TORQUE_CROSSOVER_RPM) open.high++
+      else open.low++
+    }
+    else {
+      open = null
+    }
+  }
+  if (ranges.length === 0) return ''
+  const first = points[0] as PullPoint
+  const last = points[points.length - 1] as PullPoint
+  if (ranges.length === 1 && ranges[0]!.from === first.rpm && ranges[0]!.to === last.rpm) return ' They disagree across the whole pull.'
+  const shown = [...ranges].sort((a, b) => b.worst - a.worst).slice(0, 3).sort((a, b) => a.from - b.from)
+  const parts = shown.map((r) => {
+    const side = r.high >= r.low ? 'high' : 'low'
+    const span = r.from === r.to ? `at ${n0(r.from)} rpm` : `from ${n0(r.from)} to ${n0(r.to)} rpm`
+    return `${span} the power is ${side}, up to ${pct(r.worst)} at ${n0(r.worstRpm)} rpm`
+  })
+  const more = ranges.length > shown.length ? ` (and ${ranges.length - shown.length} smaller stretch${ranges.length - shown.length === 1 ? '' : 'es'})` : ''
+  return ` Where: ${parts.join('; ')}${more}; elsewhere they agree within ${pct(AGREE_WITHIN)}.`
+}
+
+/** Ratios this close together (10th to 90th percentile) count as one constant factor, such as a unit. */
+const CONSTANT_SPREAD = 0.004
+
+/**
+ * A unit explanation, offered only when power is off torque × rpm / 5252 by one constant factor all
+ * through the pull: kW or N·m under an imperial label (×0.7457), the reverse (×1.341), or metric
+ * horsepower (PS) labelled hp (×1.0139, that is 745.7 W / 735.5 W; NIST SP 811). A disagreement that
+ * grows with rpm is an edited column, not a unit, and gets no such hint.
+ */
+function unitHint(ratios: readonly number[], ratio: number): string {
+  if (ratios.length < 3 || quantile(ratios, 0.9) - quantile(ratios, 0.1) > CONSTANT_SPREAD) return ''
+  if (ratio > 0.72 && ratio < 0.76) return ' The power is a steady 0.74 of torque × rpm / 5252: one column looks metric (kW or N·m) under an imperial label.'
+  if (ratio > 1.31 && ratio < 1.38) return ' The power is a steady 1.34 of torque × rpm / 5252: one column looks imperial under a metric label.'
+  if (ratio > 1.008 && ratio < 1.02) return ' The power is a steady 1.4 % high all through the pull: it may be metric horsepower (PS) labelled hp.'
+  return ''
 }
 
 type Grade = { outcome: EvidenceOutcome, note: string }

@@ -173,3 +173,30 @@ describe('checkEvidence', () => {
     }
   })
 })
+
+describe('where power and torque disagree', () => {
+  const agreement = (pts: PullPoint[]) => byId(checkEvidence(pullWith({ points: pts }), context), 'power-torque-agreement')
+
+  it('names the rpm range of an inflation that grows with rpm, and offers no unit explanation for it', () => {
+    // Right to 4,500 rpm, then the power column raised steadily to +9 % at 7,000 rpm (an edited column).
+    const edited = points.map(p => ({ ...p, hp: p.hp * (p.rpm <= 4500 ? 1 : 1 + 0.09 * (p.rpm - 4500) / 2500) }))
+    const c = agreement(edited)
+    expect(c.outcome).toBe('fail')
+    // Past 1 % from 4,500 + 2,500 × 1/9 ≈ 4,778 rpm, so from the first 25 rpm sample above it.
+    expect(c.message).toMatch(/from 4,800 to 7,000 rpm the power is high, up to 9\.0 % at 7,000 rpm/)
+    expect(c.message).toContain('elsewhere they agree within 1.0 %')
+    expect(c.message).not.toMatch(/PS|metric/)
+  })
+
+  it('offers metric horsepower only for a constant 1.4 % (745.7 W / 735.5 W, NIST SP 811)', () => {
+    const psAsHp = points.map(p => ({ ...p, hp: math.unit(p.hp, 'hp').toNumber('W') / 735.49875 }))
+    const c = agreement(psAsHp)
+    expect(c.message).toMatch(/metric horsepower \(PS\) labelled hp/)
+    expect(c.message).toContain('across the whole pull')
+  })
+
+  it('says a low stretch is low', () => {
+    const dipped = points.map(p => ({ ...p, hp: p.hp * (p.rpm >= 5000 && p.rpm <= 5500 ? 0.95 : 1) }))
+    expect(agreement(dipped).message).toMatch(/from 5,000 to 5,500 rpm the power is low, up to 5\.0 %/)
+  })
+})
