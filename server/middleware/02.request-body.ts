@@ -4,23 +4,10 @@ import type { H3Event } from 'h3'
 const BODY_LIMIT_BYTES = 1024 * 1024
 const BODY_METHODS = new Set(['POST', 'PUT', 'PATCH', 'DELETE'])
 
-/**
- * Routes that read their own body, each with its own limit: the uploads (shared/uploads.ts, checked
- * by `readUploadForm` / `readLimitedBody` after the caller is known) and the signed webhooks
- * (`readLimitedBody`, 1 MB, over the raw bytes). A new upload route is added here.
- */
-const OWN_BODY_ROUTES: RegExp[] = [
-  /^\/api\/me\/builds\/[^/]+\/photos$/,
-  /^\/api\/me\/builds\/[^/]+\/pulls$/,
-  /^\/api\/me\/builds\/[^/]+\/pulls\/preview$/,
-  /^\/api\/attachments$/,
-  /^\/api\/webhooks\//,
-]
-
 /** The media type a route's body must have, without parameters; null where the route checks it itself. */
 function expectedType(path: string): string | null {
   if (path.startsWith('/api/webhooks/')) return 'application/json'
-  if (OWN_BODY_ROUTES.some(r => r.test(path))) return null
+  if (readsOwnBody(path)) return null
   // Auth.js reads its sign-in and sign-out posts as HTML forms do.
   if (path.startsWith('/api/auth/')) return 'application/x-www-form-urlencoded'
   if (path.startsWith('/api/')) return 'application/json'
@@ -54,7 +41,7 @@ export default defineEventHandler(async (event) => {
   if (!(declared > 0) && !chunked) return
 
   const expected = expectedType(path)
-  if (OWN_BODY_ROUTES.some(r => r.test(path))) {
+  if (readsOwnBody(path)) {
     if (expected && mediaType(event) !== expected) refuseType(expected)
     return
   }

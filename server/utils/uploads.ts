@@ -17,6 +17,25 @@ const ALLOWED: Record<UploadKind, string[]> = {
 
 const mb = (bytes: number) => `${(bytes / 1024 / 1024).toFixed(0)} MB`
 
+/**
+ * Routes that read their own request body, each with its own limit: the uploads (UPLOAD_LIMITS, checked
+ * by `readUploadForm` / `readLimitedBody` once the caller is known) and the signed webhooks (raw bytes,
+ * 1 MB). The body guard (server/middleware/02.request-body.ts) leaves their bodies to them; every other
+ * body is held to 1 MB of JSON. A new upload route is added here (a test walks server/api for them).
+ */
+const OWN_BODY_ROUTES: RegExp[] = [
+  /^\/api\/me\/builds\/[^/]+\/photos$/,
+  /^\/api\/me\/builds\/[^/]+\/pulls$/,
+  /^\/api\/me\/builds\/[^/]+\/pulls\/preview$/,
+  /^\/api\/attachments$/,
+  /^\/api\/webhooks\//,
+]
+
+/** True for a path (without query) whose route reads and limits its own body. */
+export function readsOwnBody(path: string): boolean {
+  return OWN_BODY_ROUTES.some(r => r.test(path))
+}
+
 /** Past the limit, how much more of a refused body is read and thrown away before the connection is closed. */
 const DISCARD_BYTES = 16 * 1024 * 1024
 

@@ -1,12 +1,16 @@
 // The guards every request passes before a handler runs: cross-site writes refused (CSRF), bodies of
 // the wrong type refused, bodies over 1 MB refused before parsing, and the security headers on every
 // kind of answer. Each check looks at the database to prove a refused request changed nothing.
+import { readFileSync } from 'node:fs'
 import { request as httpRequest } from 'node:http'
+import { resolve } from 'node:path'
 import { count, eq } from 'drizzle-orm'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { type CookieJar, DEMO_PASSWORD, as, freshAddress, json, signedIn } from '../support/auth'
 import { api, baseUrl } from '../support/context'
 import { PEOPLE, dealTestContext, makeOrder, requestInput, schema } from '../support/deals'
+import { apiRoutes } from '../support/access'
+import { readsOwnBody } from '../../server/utils/uploads'
 import type { DealContext } from '../../server/services/deals'
 import type { Database } from '../../server/database/types'
 
@@ -169,6 +173,16 @@ function chunkedPost(path: string, totalBytes: number, headers: Record<string, s
 }
 
 describe('body size (1 MB outside the uploads)', () => {
+  it('leaves exactly the routes that read their own body (uploads, webhooks) to their own limits', () => {
+    const source = (file: string) => readFileSync(resolve(import.meta.dirname, '../../server/api', file), 'utf8')
+    const routes = apiRoutes().map(r => ({ ...r, sample: r.pattern.replace(/:[^/]+/g, '1') }))
+    const ownReaders = routes.filter(r => /readUploadForm|readLimitedBody/.test(source(r.file)))
+    expect(ownReaders.length).toBeGreaterThanOrEqual(5)
+    expect(ownReaders.filter(r => !readsOwnBody(r.sample)).map(r => r.file)).toEqual([])
+    const jsonReaders = routes.filter(r => /readValidatedBody|readBody\(/.test(source(r.file)))
+    expect(jsonReaders.filter(r => readsOwnBody(r.sample)).map(r => r.file)).toEqual([])
+  })
+
   it('refuses a 2 MB JSON body by its Content-Length with 413 and posts nothing', async () => {
     const id = await newRequest()
     const before = await messageCount(id)
