@@ -8,7 +8,7 @@ import { DEMO_PASSWORD, PERSONAS } from '../support/auth'
 import { openBrowser } from '../support/browser'
 import { baseUrl, schema } from '../support/context'
 import { dealTestContext, makeOrder } from '../support/deals'
-import type { DealContext } from '../../server/services/deals'
+import type { DealContext } from '../../server/services/deal-context'
 import type { Database } from '../../server/database/types'
 
 let browser: Awaited<ReturnType<typeof openBrowser>>

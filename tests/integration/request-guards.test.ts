@@ -11,7 +11,7 @@ import { api, baseUrl } from '../support/context'
 import { PEOPLE, dealTestContext, makeOrder, requestInput, schema } from '../support/deals'
 import { apiRoutes } from '../support/access'
 import { readsOwnBody } from '../../server/utils/uploads'
-import type { DealContext } from '../../server/services/deals'
+import type { DealContext } from '../../server/services/deal-context'
 import type { Database } from '../../server/database/types'
 
 let ctx: DealContext
