@@ -11,8 +11,8 @@ function isOwnOrigin(event: H3Event, origin: string): boolean {
   catch {
     return false // includes "null", sent from sandboxed frames and opaque redirects
   }
-  const site = useRuntimeConfig(event).public.siteUrl
-  if (site && new URL(site).origin === url.origin) return true
+  const site = URL.canParse(useRuntimeConfig(event).public.siteUrl) ? new URL(useRuntimeConfig(event).public.siteUrl) : null
+  if (site && site.origin === url.origin) return true
   // Without a proxy the Host header is the site's own; a page served from another host cannot name it as its origin.
   const host = getRequestHeader(event, 'host')
   return Boolean(host) && url.host === host
