@@ -6,7 +6,7 @@ import { dirname, join } from 'node:path'
 const nuxtErrorHandler = join(dirname(createRequire(createRequire(import.meta.url).resolve('nuxt/package.json')).resolve('@nuxt/nitro-server')), 'runtime/handlers/error')
 
 export default defineNuxtConfig({
-  modules: ['@pinia/nuxt', '@nuxtjs/tailwindcss', '@sidebase/nuxt-auth', '@nuxt/eslint'],
+  modules: ['@pinia/nuxt', '@nuxtjs/tailwindcss', '@sidebase/nuxt-auth', '@nuxt/eslint', 'nuxt-security'],
   devtools: { enabled: false },
   app: {
     head: {
@@ -44,6 +44,10 @@ export default defineNuxtConfig({
   dir: { shared: 'shared' },
   srcDir: '.',
   serverDir: 'server',
+  // API answers are data, never documents: nothing may load, run or frame them (nuxt-security sends the page CSP).
+  routeRules: {
+    '/api/**': { headers: { 'content-security-policy': 'default-src \'none\'; frame-ancestors \'none\'' } },
+  },
   compatibilityDate: '2026-11-01',
   nitro: {
     storage: {},
@@ -71,5 +75,48 @@ export default defineNuxtConfig({
     sessionRefresh: { enablePeriodically: false, enableOnWindowFocus: false },
   },
   eslint: { config: { stylistic: true } },
+  // Security headers on every answer, with a nonce CSP on the server-rendered pages (README, Security).
+  // Our own middleware (server/middleware/) checks the origin of writes and bounds and types the
+  // bodies, so nuxt-security's request guards are off; so are its in-memory rate limiter (sign-in has
+  // its own limits), its XSS filter (inputs are validated with zod, output escaped by Vue) and
+  // Cross-Origin-Embedder-Policy (nothing here needs cross-origin isolation).
+  security: {
+    nonce: true,
+    sri: true,
+    hidePoweredBy: true,
+    removeLoggers: false,
+    requestSizeLimiter: false,
+    rateLimiter: false,
+    xssValidator: false,
+    corsHandler: false,
+    allowedMethodsRestricter: false,
+    headers: {
+      contentSecurityPolicy: {
+        'default-src': ['\'self\''],
+        'base-uri': ['\'none\''],
+        'connect-src': ['\'self\''],
+        // Vite inlines the smallest @fontsource subsets as data: URLs.
+        'font-src': ['\'self\'', 'data:'],
+        'form-action': ['\'self\''],
+        'frame-ancestors': ['\'none\''],
+        'img-src': ['\'self\'', 'data:'],
+        'object-src': ['\'none\''],
+        // The nonce covers Nuxt's own inline state script and entry; 'strict-dynamic' lets them load their chunks.
+        'script-src': ['\'self\'', '\'strict-dynamic\'', '\'nonce-{{nonce}}\''],
+        'script-src-attr': ['\'none\''],
+        // Vue's style bindings and the chart canvas need inline styles; no inline script is allowed.
+        'style-src': ['\'self\'', '\'unsafe-inline\''],
+        'upgrade-insecure-requests': false,
+      },
+      crossOriginEmbedderPolicy: false,
+      crossOriginOpenerPolicy: 'same-origin',
+      crossOriginResourcePolicy: 'same-origin',
+      // 'same-origin' keeps the Origin header on our own writes (with 'no-referrer' browsers send Origin: null).
+      referrerPolicy: 'same-origin',
+      xFrameOptions: 'DENY',
+      xContentTypeOptions: 'nosniff',
+      permissionsPolicy: { 'camera': [], 'display-capture': [], 'fullscreen': [], 'geolocation': [], 'microphone': [], 'payment': [] },
+    },
+  },
   tailwindcss: { viewer: false, cssPath: false },
 })

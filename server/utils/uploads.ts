@@ -1,4 +1,5 @@
 import { createHash, randomUUID } from 'node:crypto'
+import type { IncomingMessage } from 'node:http'
 import { createError, getRequestHeader, type H3Event } from 'h3'
 import { fileTypeFromBuffer } from 'file-type'
 import { UPLOAD_LIMITS, type UploadKind } from '../../shared/uploads'
@@ -17,6 +18,58 @@ const ALLOWED: Record<UploadKind, string[]> = {
 const mb = (bytes: number) => `${(bytes / 1024 / 1024).toFixed(0)} MB`
 
 /**
+ * Routes that read their own request body, each with its own limit: the uploads (UPLOAD_LIMITS, checked
+ * by `readUploadForm` / `readLimitedBody` once the caller is known) and the signed webhooks (raw bytes,
+ * 1 MB). The body guard (server/middleware/02.request-body.ts) leaves their bodies to them; every other
+ * body is held to 1 MB of JSON. A new upload route is added here (a test walks server/api for them).
+ */
+const OWN_BODY_ROUTES: RegExp[] = [
+  /^\/api\/me\/builds\/[^/]+\/photos$/,
+  /^\/api\/me\/builds\/[^/]+\/pulls$/,
+  /^\/api\/me\/builds\/[^/]+\/pulls\/preview$/,
+  /^\/api\/attachments$/,
+  /^\/api\/webhooks\//,
+]
+
+/** True for a path (without query) whose route reads and limits its own body. */
+export function readsOwnBody(path: string): boolean {
+  return OWN_BODY_ROUTES.some(r => r.test(path))
+}
+
+/** Past the limit, how much more of a refused body is read and thrown away before the connection is closed. */
+const DISCARD_BYTES = 16 * 1024 * 1024
+
+/**
+ * Reads a request body as it arrives, keeping at most `limit` bytes: past that it resolves null at
+ * once, and the rest of the body is read and thrown away (never kept) so the answer reaches the client
+ * on an orderly connection; one that keeps sending past DISCARD_BYTES more is cut off. Stopping the
+ * stream instead (breaking out of `for await`) destroys the socket under the answer.
+ */
+export function readBodyUpTo(req: IncomingMessage, limit: number): Promise<Buffer | null> {
+  return new Promise((resolve, reject) => {
+    const chunks: Buffer[] = []
+    let total = 0
+    const onData = (chunk: Buffer) => {
+      total += chunk.length
+      if (total <= limit) {
+        chunks.push(chunk)
+        return
+      }
+      req.off('data', onData).off('end', onEnd).off('error', reject)
+      let discarded = 0
+      req.on('data', (rest: Buffer) => {
+        discarded += rest.length
+        if (discarded > DISCARD_BYTES) req.socket?.destroy()
+      })
+      req.on('error', () => {})
+      resolve(null)
+    }
+    const onEnd = () => resolve(Buffer.concat(chunks))
+    req.on('data', onData).once('end', onEnd).once('error', reject)
+  })
+}
+
+/**
  * Reads a request body with a hard byte limit: 413 from Content-Length before reading, and 413 as
  * soon as a chunked body passes the limit (h3 has no limit of its own).
  */
@@ -25,18 +78,9 @@ export async function readLimitedBody(event: H3Event, limit: number): Promise<Bu
   if (Number.isFinite(declared) && declared > limit) {
     throw createError({ status: 413, message: `The upload is ${mb(declared)}; the most this accepts is ${mb(limit)}.` })
   }
-  const chunks: Buffer[] = []
-  let total = 0
-  for await (const chunk of event.node.req) {
-    const buf = Buffer.isBuffer(chunk) ? chunk : Buffer.from(chunk as Uint8Array)
-    total += buf.length
-    if (total > limit) {
-      event.node.req.destroy()
-      throw createError({ status: 413, message: `The upload is over ${mb(limit)}, the most this accepts.` })
-    }
-    chunks.push(buf)
-  }
-  return Buffer.concat(chunks)
+  const body = await readBodyUpTo(event.node.req, limit)
+  if (!body) throw createError({ status: 413, message: `The upload is over ${mb(limit)}, the most this accepts.` })
+  return body
 }
 
 /** True when the bytes are UTF-8 text with no NUL bytes: what a pull file must be. */
