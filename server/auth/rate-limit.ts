@@ -1,6 +1,7 @@
-import { eq, inArray, lt, sql } from 'drizzle-orm'
+import { asc, eq, inArray, lt } from 'drizzle-orm'
 import type { MySql2Database } from 'drizzle-orm/mysql2'
 import * as schema from '../database/schema'
+import { retryOnLockConflict } from '../utils/transaction'
 
 /**
  * Token buckets: a bucket holds up to `capacity` attempts and regains one every `refillMs`.
@@ -64,43 +65,61 @@ export interface BucketRequest {
 type Db = MySql2Database<typeof schema>
 const { rateLimitBuckets } = schema
 
+/** A sign-in burst can queue many attempts on one bucket: a few more runs than the default before a conflict is passed on. */
+const RETRY = { attempts: 4 }
+
+/**
+ * Makes sure every bucket has its row, each new one full, before any transaction locks them. Each
+ * row is its own statement, outside a transaction, in key order: a row lock on an existing key is
+ * all the locking transactions below ever take, never a lock on the gap a new key goes into (two
+ * inserts of new keys into each other's locked gaps is how the buckets used to deadlock).
+ */
+async function ensureBuckets(db: Db, sorted: BucketRequest[], now: number): Promise<void> {
+  const present = new Set((await db.select({ key: rateLimitBuckets.key }).from(rateLimitBuckets).where(inArray(rateLimitBuckets.key, sorted.map(r => r.key)))).map(r => r.key))
+  for (const r of sorted) {
+    if (present.has(r.key)) continue
+    await retryOnLockConflict(() => db.insert(rateLimitBuckets).ignore().values({ key: r.key, tokens: r.policy.capacity, updatedAt: new Date(now) }))
+  }
+}
+
+/** The requests in one order (by key) for every caller, so two transactions lock shared buckets in the same order. */
+const byKey = (requests: BucketRequest[]) => [...new Map(requests.map(r => [r.key, r])).values()].sort((a, b) => (a.key < b.key ? -1 : a.key > b.key ? 1 : 0))
+
 /**
  * Takes one token from every bucket, all or nothing, in one transaction with the rows locked
- * (keys in a fixed order, so two requests cannot deadlock). A refusal changes no bucket and names
- * the buckets that were empty.
+ * (keys in a fixed order, so two requests cannot deadlock; run again after a lock conflict, which is
+ * safe: everything it does rolls back). A refusal changes no bucket and names the buckets that were empty.
  */
 export async function takeTokens(db: Db, requests: BucketRequest[], now = Date.now()): Promise<{ allowed: boolean, retryAfterMs: number, refused: string[] }> {
-  const sorted = [...requests].sort((a, b) => a.key.localeCompare(b.key))
+  const sorted = byKey(requests)
   const keys = sorted.map(r => r.key)
-  return db.transaction(async (tx) => {
-    await tx.insert(rateLimitBuckets)
-      .values(sorted.map(r => ({ key: r.key, tokens: r.policy.capacity, updatedAt: new Date(now) })))
-      .onDuplicateKeyUpdate({ set: { key: sql`bucket_key` } })
-    const rows = await tx.select().from(rateLimitBuckets).where(inArray(rateLimitBuckets.key, keys)).for('update')
-    const byKey = new Map(rows.map(r => [r.key, { tokens: r.tokens, updatedAt: r.updatedAt.getTime() }]))
-    const results = sorted.map(r => ({ r, result: take(byKey.get(r.key), r.policy, now) }))
+  await ensureBuckets(db, sorted, now)
+  return retryOnLockConflict(() => db.transaction(async (tx) => {
+    const rows = await tx.select().from(rateLimitBuckets).where(inArray(rateLimitBuckets.key, keys)).orderBy(asc(rateLimitBuckets.key)).for('update')
+    const states = new Map(rows.map(r => [r.key, { tokens: r.tokens, updatedAt: r.updatedAt.getTime() }]))
+    const results = sorted.map(r => ({ r, result: take(states.get(r.key), r.policy, now) }))
     const refused = results.filter(x => !x.result.allowed)
     if (refused.length) return { allowed: false, retryAfterMs: Math.max(...refused.map(x => x.result.retryAfterMs)), refused: refused.map(x => x.r.key) }
     for (const { r, result } of results) {
       await tx.update(rateLimitBuckets).set({ tokens: result.next.tokens, updatedAt: new Date(now) }).where(eq(rateLimitBuckets.key, r.key))
     }
     return { allowed: true, retryAfterMs: 0, refused: [] }
-  })
+  }), RETRY)
 }
 
-/** Gives back the token taken for an attempt that succeeded. */
+/** Gives back the token taken for an attempt that succeeded (a bucket pruned meanwhile is full already). */
 export async function giveBackTokens(db: Db, requests: BucketRequest[], now = Date.now()): Promise<void> {
-  const sorted = [...requests].sort((a, b) => a.key.localeCompare(b.key))
-  await db.transaction(async (tx) => {
-    const rows = await tx.select().from(rateLimitBuckets).where(inArray(rateLimitBuckets.key, sorted.map(r => r.key))).for('update')
-    const byKey = new Map(rows.map(r => [r.key, { tokens: r.tokens, updatedAt: r.updatedAt.getTime() }]))
+  const sorted = byKey(requests)
+  await retryOnLockConflict(() => db.transaction(async (tx) => {
+    const rows = await tx.select().from(rateLimitBuckets).where(inArray(rateLimitBuckets.key, sorted.map(r => r.key))).orderBy(asc(rateLimitBuckets.key)).for('update')
+    const states = new Map(rows.map(r => [r.key, { tokens: r.tokens, updatedAt: r.updatedAt.getTime() }]))
     for (const r of sorted) {
-      const state = byKey.get(r.key)
+      const state = states.get(r.key)
       if (!state) continue
       const next = giveBack(state, r.policy, now)
       await tx.update(rateLimitBuckets).set({ tokens: next.tokens, updatedAt: new Date(now) }).where(eq(rateLimitBuckets.key, r.key))
     }
-  })
+  }), RETRY)
 }
 
 /** Drops buckets untouched for a day: by then every policy above has refilled them completely. */

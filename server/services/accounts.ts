@@ -1,5 +1,5 @@
 import { createHash, randomBytes } from 'node:crypto'
-import { and, asc, count, eq, gt, isNull, like, lt, ne, or, sql, type SQL } from 'drizzle-orm'
+import { and, asc, count, eq, gt, inArray, isNull, like, lt, ne, or, sql, type SQL } from 'drizzle-orm'
 import { createError } from 'h3'
 import type { Role, SignUpInput, UnitSystem } from '../../shared/schemas/auth'
 import { firstFreeSlug, slugify } from '../../shared/text/slug'
@@ -7,7 +7,10 @@ import type { AccountProfile, AdminUserRow } from '../../shared/types/auth'
 import type { Page } from '../../shared/types/listings'
 import { authTokens, builderProfiles, users, type User } from '../database/schema'
 import type { Database } from '../database/types'
+import { inRetriedTransaction } from '../utils/transaction'
 import { writeAudit } from './audit'
+
+type Tx = Parameters<Parameters<Database['transaction']>[0]>[0]
 
 // Relative imports only: scripts/admin-create.ts runs this file outside Nitro.
 
@@ -54,7 +57,8 @@ async function freeShopSlug(db: Pick<Database, 'select'>, shopName: string): Pro
 export async function createAccount(db: Database, input: SignUpInput, passwordHash: string): Promise<{ created: true, userId: number } | { created: false }> {
   for (let attempt = 0; attempt < 3; attempt++) {
     try {
-      return await db.transaction(async (tx) => {
+      // Safe to repeat: both rows roll back together. Concurrent sign-ups can meet on the unique indexes' gap locks.
+      return await inRetriedTransaction(db, async (tx) => {
         const [row] = await tx.insert(users).values({ email: input.email, name: input.name, passwordHash, role: input.role }).$returningId()
         const userId = row!.id
         if (input.role === 'builder') {
@@ -74,10 +78,40 @@ export async function createAccount(db: Database, input: SignUpInput, passwordHa
   throw createError({ status: 409, message: 'Another shop with that name signed up at the same moment: try again.' })
 }
 
-/** Stores a new single-use link token (hashed) and returns the token itself for the e-mail. Earlier unused links of the same kind stop working. */
+/**
+ * Locks a user row for the rest of the transaction. Taken before any auth_tokens row of the user is
+ * read for update or written: the users row comes first in the lock order (user, then token), and a
+ * token insert's foreign-key check would otherwise hold a shared lock on it that a later update of the
+ * user cannot turn into its own.
+ */
+async function lockUser(tx: Tx, userId: number): Promise<User | undefined> {
+  const [row] = await tx.select().from(users).where(eq(users.id, userId)).limit(1).for('update')
+  return row
+}
+
+/**
+ * Locks several user rows at once, lowest id first (one order for every transaction that takes more
+ * than one), and returns them by id. An audit row's actor is among them: its foreign-key check would
+ * otherwise take a shared lock on the actor's row after the target's, the reverse of another admin's
+ * change to the first admin.
+ */
+async function lockUsers(tx: Tx, ids: number[]): Promise<Map<number, User>> {
+  const sorted = [...new Set(ids)].sort((a, b) => a - b)
+  const rows = await tx.select().from(users).where(inArray(users.id, sorted)).orderBy(asc(users.id)).for('update')
+  return new Map(rows.map(r => [r.id, r]))
+}
+
+/**
+ * Stores a new single-use link token (hashed) and returns the token itself for the e-mail. Earlier
+ * unused links of the same kind stop working. Two links asked for at once for the same user take
+ * turns on the user row (without it, each would lock a range of the user's tokens and then insert
+ * into the other's range).
+ */
 export async function issueLink(db: Database, opts: { userId: number, purpose: LinkPurpose, newEmail?: string, ttlMs?: number }, now = new Date()): Promise<string> {
   const token = randomBytes(32).toString('base64url')
-  await db.transaction(async (tx) => {
+  // Safe to repeat: the token is drawn once, and every write rolls back with the transaction.
+  await inRetriedTransaction(db, async (tx) => {
+    if (!(await lockUser(tx, opts.userId))) throw createError({ status: 404, message: 'No account has that id.' })
     await tx.update(authTokens).set({ usedAt: now })
       .where(and(eq(authTokens.userId, opts.userId), eq(authTokens.purpose, opts.purpose), isNull(authTokens.usedAt)))
     await tx.insert(authTokens).values({
@@ -100,15 +134,19 @@ export type LinkOutcome
  * inbox, so it also confirms the e-mail address; an e-mail-change link moves the account to the new address.
  */
 export async function consumeLink(db: Database, token: string, now = new Date()): Promise<LinkOutcome> {
+  const tokenHash = hashToken(token)
   try {
-    return await db.transaction(async (tx): Promise<LinkOutcome> => {
+    // Safe to repeat: nothing outside the database happens inside.
+    return await inRetriedTransaction(db, async (tx): Promise<LinkOutcome> => {
+      // Which user the token belongs to, read without a lock: the user row is locked before the token (user, then token).
+      const [peek] = await tx.select({ userId: authTokens.userId }).from(authTokens).where(eq(authTokens.tokenHash, tokenHash)).limit(1)
+      if (!peek) return { ok: false, reason: 'invalid' }
+      const user = await lockUser(tx, peek.userId)
       const [link] = await tx.select().from(authTokens)
-        .where(and(eq(authTokens.tokenHash, hashToken(token)), isNull(authTokens.usedAt), gt(authTokens.expiresAt, now)))
-        .for('update')
-      if (!link) return { ok: false, reason: 'invalid' }
+        .where(and(eq(authTokens.tokenHash, tokenHash), isNull(authTokens.usedAt), gt(authTokens.expiresAt, now)))
+        .limit(1).for('update')
+      if (!link || !user || link.userId !== user.id) return { ok: false, reason: 'invalid' }
       await tx.update(authTokens).set({ usedAt: now }).where(eq(authTokens.id, link.id))
-      const [user] = await tx.select().from(users).where(eq(users.id, link.userId)).for('update')
-      if (!user) return { ok: false, reason: 'invalid' }
       if (user.suspendedAt) return { ok: false, reason: 'suspended' }
       const patch: Partial<User> = {}
       if (!user.emailVerifiedAt) patch.emailVerifiedAt = now
@@ -165,7 +203,7 @@ async function sessionVersionOf(db: Pick<Database, 'select'>, userId: number): P
 
 /** Sets a new password and ends every session of the account; returns the new session version (for the caller's fresh cookie). */
 export async function setPasswordHash(db: Database, userId: number, passwordHash: string): Promise<number> {
-  return db.transaction(async (tx) => {
+  return inRetriedTransaction(db, async (tx) => {
     await tx.update(users).set({ passwordHash, sessionVersion: nextSessionVersion }).where(eq(users.id, userId))
     return sessionVersionOf(tx, userId)
   })
@@ -173,7 +211,7 @@ export async function setPasswordHash(db: Database, userId: number, passwordHash
 
 /** Ends every session of the account (sign out everywhere, or all but the caller's once it is renewed); returns the new session version. */
 export async function revokeSessions(db: Database, userId: number): Promise<number> {
-  return db.transaction(async (tx) => {
+  return inRetriedTransaction(db, async (tx) => {
     await tx.update(users).set({ sessionVersion: nextSessionVersion }).where(eq(users.id, userId))
     return sessionVersionOf(tx, userId)
   })
@@ -223,8 +261,8 @@ export async function getAdminUserRow(db: Database, id: number): Promise<AdminUs
 /** Suspends or restores an account, with an audit row, ending its sessions either way. An admin cannot suspend their own account. */
 export async function setSuspended(db: Database, actorId: number, userId: number, suspended: boolean): Promise<void> {
   if (actorId === userId && suspended) throw createError({ status: 409, message: 'You cannot suspend your own account; ask another admin.' })
-  await db.transaction(async (tx) => {
-    const [user] = await tx.select().from(users).where(eq(users.id, userId)).for('update')
+  await inRetriedTransaction(db, async (tx) => {
+    const user = (await lockUsers(tx, [actorId, userId])).get(userId)
     if (!user) throw createError({ status: 404, message: 'No account has that id.' })
     if ((user.suspendedAt !== null) === suspended) return
     const suspendedAt = suspended ? new Date() : null
@@ -247,8 +285,8 @@ export async function setSuspended(db: Database, actorId: number, userId: number
  * shop, and a user has one role, so a builder account is refused.
  */
 export async function makeAdmin(db: Database, actorId: number | null, userId: number): Promise<'changed' | 'already'> {
-  return db.transaction(async (tx) => {
-    const [user] = await tx.select().from(users).where(eq(users.id, userId)).for('update')
+  return inRetriedTransaction(db, async (tx) => {
+    const user = (await lockUsers(tx, actorId === null ? [userId] : [actorId, userId])).get(userId)
     if (!user) throw createError({ status: 404, message: 'No account has that id.' })
     if (user.role === 'admin') return 'already' as const
     if (user.role === 'builder') throw createError({ status: 409, message: 'This account runs a shop; an admin needs an account of their own.' })
@@ -260,7 +298,7 @@ export async function makeAdmin(db: Database, actorId: number | null, userId: nu
 
 /** Creates an admin account with no password (the first sign-in is by an e-mailed link), with an audit row. */
 export async function createAdmin(db: Database, email: string, name: string): Promise<number> {
-  return db.transaction(async (tx) => {
+  return inRetriedTransaction(db, async (tx) => {
     const [row] = await tx.insert(users).values({ email: email.toLowerCase(), name, role: 'admin', passwordHash: null }).$returningId()
     await writeAudit(tx, { actorId: null, action: 'account.create_admin', entityType: 'user', entityId: row!.id, after: { email, role: 'admin' }, note: 'npm run admin:create' })
     return row!.id

@@ -2,6 +2,7 @@ import { createError } from 'h3'
 import { inArray } from 'drizzle-orm'
 import { files, type StoredFile } from '../database/schema'
 import type { Database } from '../database/types'
+import { inRetriedTransaction } from '../utils/transaction'
 import { sha256, sniffUpload, storageKeyFor, UPLOAD_LIMITS, type UploadKind } from '../utils/uploads'
 
 /** The part of Nitro's storage layer the listing editor uses (a plain unstorage instance in tests). */
@@ -89,12 +90,16 @@ export async function deleteFileRows(tx: Tx, ids: number[]): Promise<string[]> {
   return rows.map(r => r.storageKey)
 }
 
-/** Stages files, runs `write` in one transaction, and removes what was stored if the transaction fails. */
+/**
+ * Stages files, runs `write` in one transaction, and removes what was stored if the transaction fails.
+ * The files are written once; the transaction alone is run again after a lock conflict (each run
+ * inserts its rows afresh, so `write` must be safe to repeat, as every write here is).
+ */
 export async function withStagedFiles<T>(db: Database, store: UploadStore, items: { kind: UploadKind, mime: string, file: IncomingFile }[], write: (tx: Tx, staged: StagedFile[]) => Promise<T>): Promise<T> {
   const staged: StagedFile[] = []
   try {
     for (const item of items) staged.push(await stage(store, item.kind, item.mime, item.file))
-    return await db.transaction(tx => write(tx, staged))
+    return await inRetriedTransaction(db, tx => write(tx, staged))
   }
   catch (error) {
     await discard(store, staged.map(s => s.storageKey))

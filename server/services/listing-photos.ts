@@ -2,6 +2,7 @@ import { createError } from 'h3'
 import { and, asc, count, eq, max } from 'drizzle-orm'
 import { buildPhotos, builds, files } from '../database/schema'
 import type { Database } from '../database/types'
+import { inRetriedTransaction } from '../utils/transaction'
 import { afterBuildChanged, ownBuild, type ShopRef } from './listing-editor'
 import { deleteFileRows, discard, insertFileRow, vetUpload, withStagedFiles, type IncomingFile, type UploadStore } from './listing-files'
 
@@ -26,7 +27,7 @@ export async function addPhoto(db: Database, store: UploadStore, shop: ShopRef, 
 
 /** Removes a photo and its stored file. */
 export async function removePhoto(db: Database, store: UploadStore, shop: ShopRef, buildId: number, photoId: number): Promise<void> {
-  const keys = await db.transaction(async (tx) => {
+  const keys = await inRetriedTransaction(db, async (tx) => {
     await ownBuild(tx, shop, buildId, true)
     const [photo] = await tx.select().from(buildPhotos).where(and(eq(buildPhotos.id, photoId), eq(buildPhotos.buildId, buildId)))
     if (!photo) throw createError({ status: 404, message: 'That build has no such photo.' })
