@@ -6,7 +6,7 @@ import type { PullMeta } from '#shared/schemas/build'
 import type { PullPreview } from '#shared/types/editor'
 import { builds, dynoPulls, files, type Build } from '../database/schema'
 import type { Database } from '../database/types'
-import { inRetriedTransaction, retryOnLockConflict } from '../utils/transaction'
+import { inRetriedTransaction } from '../utils/transaction'
 import type { ReadStoredText } from './curves'
 import { refreshHeadline } from './headline'
 import { afterBuildChanged, ownBuild, type ShopRef } from './listing-editor'
@@ -90,8 +90,8 @@ export async function savePull(db: Database, store: UploadStore, shop: ShopRef, 
   const items: { kind: 'pull' | 'sheet', mime: string, file: IncomingFile }[] = [{ kind: 'pull', mime: 'text/csv', file: upload.pull }]
   if (upload.sheet && sheetMime) items.push({ kind: 'sheet', mime: sheetMime, file: upload.sheet })
 
-  // A lock conflict runs it all again: the first run's staged files are removed when its transaction fails.
-  const pullId = await retryOnLockConflict(() => withStagedFiles(db, store, items, async (tx, staged) => {
+  // withStagedFiles stores the files once and runs the transaction again after a lock conflict.
+  const pullId = await withStagedFiles(db, store, items, async (tx, staged) => {
     await ownBuild(tx, shop, buildId, true)
     if (meta.comparisonRole === 'baseline') {
       const [baseline] = await tx.select({ label: dynoPulls.label }).from(dynoPulls)
@@ -125,7 +125,7 @@ export async function savePull(db: Database, store: UploadStore, shop: ShopRef, 
     }).$returningId()
     await refreshHeadline(tx, buildId)
     return row!.id
-  }))
+  })
   await afterBuildChanged(buildId)
   return { pullId, checks: evaluation.checks, summary: evaluation.summary }
 }
