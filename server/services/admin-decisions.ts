@@ -27,9 +27,9 @@ async function tell(ctx: AdminContext, mail: OutgoingMail): Promise<boolean> {
   }
 }
 
-/** Verifies a pull, then brings the search index in step. */
+/** Verifies a pull (its e-mail to the shop goes through the outbox with the decision), then brings the search index in step. */
 export async function approveEvidence(ctx: AdminContext, actorId: number, pullId: number, note?: string): Promise<DecisionResult> {
-  const buildId = await approvePull(ctx.db, { actorId, pullId, note: note || null })
+  const buildId = await approvePull(ctx.db, { actorId, pullId, note: note || null, siteUrl: ctx.siteUrl })
   await reindexBuildAfterAdminChange(ctx.db, buildId)
   const [build] = await ctx.db.select({ slug: builds.slug }).from(builds).where(eq(builds.id, buildId))
   return { pullId, status: 'verified', buildSlug: build?.slug ?? '', mailed: null }

@@ -12,6 +12,15 @@ export const adminEmails = {
     ],
     { label: 'Open your shop dashboard', url: m.dashboardUrl },
   ),
+  pullVerified: (m: { name: string, pullLabel: string, buildTitle: string, buildUrl: string }): MailBody => compose(
+    `Dyno pull verified: ${m.pullLabel}`,
+    `Hello ${m.name},`,
+    [
+      `We checked the pull "${m.pullLabel}" on your listing "${m.buildTitle}" against its raw file, weather and correction standard, and verified it.`,
+      'The listing carries the checked mark, and its figures now count in search and in your shop\'s record. Racers who saved a search this build matches are told about it.',
+    ],
+    { label: 'Open the listing', url: m.buildUrl },
+  ),
   listingUnpublished: (m: { name: string, buildTitle: string, reason: string, dashboardUrl: string }): MailBody => compose(
     `Your listing was taken down: ${m.buildTitle}`,
     `Hello ${m.name},`,

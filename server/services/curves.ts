@@ -34,14 +34,14 @@ async function rawPoints(read: ReadStoredText, storageKey: string): Promise<Pull
  * CSV download asks for every point of the file (`'full'`). Peaks and comparisons always use every point.
  */
 export async function curvesForBuild(db: Database, read: ReadStoredText, buildId: number, slug: string, target: CorrectionStandard, resolution: 'display' | 'full' = 'display'): Promise<BuildCurves> {
-  const rows = await db.select({ pull: dynoPulls, storageKey: files.storageKey }).from(dynoPulls)
+  const rows = await db.select({ pull: dynoPulls, storageKey: files.storageKey, sha256: files.sha256 }).from(dynoPulls)
     .innerJoin(files, eq(files.id, dynoPulls.fileId))
     .where(and(eq(dynoPulls.buildId, buildId), inArray(dynoPulls.status, ['submitted', 'verified'])))
     .orderBy(asc(dynoPulls.id))
 
   const pulls: CurvePull[] = []
   const raw = new Map<number, PullPoint[]>()
-  for (const { pull, storageKey } of rows) {
+  for (const { pull, storageKey, sha256 } of rows) {
     let points: PullPoint[]
     try {
       points = await rawPoints(read, storageKey)
@@ -58,6 +58,7 @@ export async function curvesForBuild(db: Database, read: ReadStoredText, buildId
     pulls.push({
       id: pull.id,
       label: pull.label,
+      sha256,
       status: pull.status,
       dynoKind: pull.dynoKind,
       declaredStandard: pull.declaredStandard,

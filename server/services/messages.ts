@@ -1,6 +1,7 @@
 // Request threads: messages both ways with attachments, how far each party has read, unread
 // counts, and an e-mail to the other party when they are not on the thread's page.
 import { and, asc, count, eq, gt, inArray, sql } from 'drizzle-orm'
+import { isError } from 'h3'
 import type { MessageInput } from '../../shared/schemas/deals'
 import { files, messageReads, quoteRequests, requestAttachments, requestMessages, users } from '../database/schema'
 import { inRetriedTransaction } from '../utils/transaction'
@@ -31,7 +32,11 @@ export interface ThreadMessage {
 
 /** Posts a message on a thread the actor is a party to, and tells the other party by e-mail if they are away. */
 export async function postMessage(ctx: DealContext, actor: DealActor, requestId: number, input: MessageInput): Promise<ThreadMessage> {
-  const parties = await partiesOf(ctx.db, requestId).catch(() => null)
+  // Only "no such request" reads as not found; a database that is away must surface as itself (503), not as a 404.
+  const parties = await partiesOf(ctx.db, requestId).catch((error: unknown) => {
+    if (isError(error) && error.statusCode === 404) return null
+    throw error
+  })
   const side = parties ? sideOf(actor, parties) : null
   if (!parties || !side) throw notFound('That request')
   const now = ctx.now()

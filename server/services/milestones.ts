@@ -5,6 +5,7 @@
 import { and, asc, desc, eq, inArray, isNotNull, lte } from 'drizzle-orm'
 import { isError } from 'h3'
 import type { Storage } from 'unstorage'
+import { blockingMilestone, MILESTONE_STATE_LABELS } from '../../shared/deals/constants'
 import { evaluateDelivery } from '../../shared/deals/delivery'
 import { formatCents } from '../../shared/money'
 import { parsePull } from '../../shared/engine/parse'
@@ -77,6 +78,10 @@ export async function submitMilestone(ctx: DealContext, actor: DealActor, milest
     if (assertParty(actor, order) !== 'builder') throw forbidden('Only the shop submits a milestone.')
     if (order.status !== 'active') throw conflict(`This order is ${order.status}.`)
     if (milestone.state !== 'funded') throw conflict(milestone.state === 'awaiting_payment' ? 'This milestone is not paid yet: work is submitted against a held deposit.' : `This milestone is ${milestone.state}; only a funded milestone can be submitted.`)
+    // Milestones are done in order (the order row is locked, so the earlier ones cannot move meanwhile).
+    const siblings = await tx.select({ position: milestones.position, state: milestones.state, title: milestones.title }).from(milestones).where(eq(milestones.orderId, order.id))
+    const blocking = blockingMilestone(siblings, milestone.position)
+    if (blocking) throw conflict(`Milestones are done in order: "${blocking.title}" comes first and is not settled yet (${MILESTONE_STATE_LABELS[blocking.state].toLowerCase()}). Submit this one once the racer has approved it.`)
     if (milestone.guaranteed) {
       if (input.deliveryPullId === null) throw unprocessable('This milestone carries the power guarantee: send the delivery pull first, then submit with it.')
       const [pull] = await tx.select().from(deliveryPulls).where(and(eq(deliveryPulls.id, input.deliveryPullId), eq(deliveryPulls.milestoneId, milestoneId))).limit(1)

@@ -11,7 +11,9 @@ import type { DuplicateLink, EvidenceQueueItem, EvidenceReview, PeakFigures } fr
 import { builderProfiles, builds, dynoPulls, files, users, type Build, type DynoPull } from '../database/schema'
 import type { Database } from '../database/types'
 import { inRetriedTransaction } from '../utils/transaction'
+import { adminEmails } from './admin-mail'
 import { writeAudit } from './audit'
+import { enqueueRendered } from './outbox'
 import { refreshHeadline } from './headline'
 
 type Tx = Parameters<Parameters<Database['transaction']>[0]>[0]
@@ -266,7 +268,7 @@ const figuresOf = (b: Pick<Build, 'peakHp' | 'peakHpRpm' | 'peakTq' | 'peakTqRpm
  * Verifies a pull: the build gets its checked mark and its headline figures (under the listing
  * standard) from this pull, and one audit row records the change, all in one transaction. Returns the build id.
  */
-export async function approvePull(db: Database, input: { actorId: number, pullId: number, note?: string | null }): Promise<number> {
+export async function approvePull(db: Database, input: { actorId: number, pullId: number, note?: string | null, siteUrl?: string }): Promise<number> {
   return inRetriedTransaction(db, async (tx) => {
     const { pull, build } = await lockSubmitted(tx, input.pullId)
     const now = new Date()
@@ -284,6 +286,14 @@ export async function approvePull(db: Database, input: { actorId: number, pullId
       note: input.note ?? null,
       at: now,
     })
+    // The shop hears of it through the outbox, in this same transaction: once, and never for a decision rolled back.
+    const [owner] = await tx.select({ email: users.email, name: users.name })
+      .from(builderProfiles).innerJoin(users, eq(users.id, builderProfiles.userId))
+      .where(eq(builderProfiles.id, build!.builderId))
+    if (owner) {
+      const mail = adminEmails.pullVerified({ name: owner.name, pullLabel: pull.label, buildTitle: build!.title, buildUrl: `${input.siteUrl ?? ''}/builds/${build!.slug}` })
+      await enqueueRendered(tx, owner.email, mail, `pull-verified:${pull.id}`)
+    }
     return pull.buildId
   })
 }

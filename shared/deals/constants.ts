@@ -45,3 +45,16 @@ export const DEAL_LIMITS = {
   minMilestoneCents: 100,
   maxGuaranteeTolerancePct: 10,
 } as const
+
+/**
+ * Milestones are done in order: a milestone is submitted only once every earlier one is settled —
+ * approved, released, refunded or cancelled — so the last one (which approves itself after the set
+ * days) can never be handed in while earlier work is untouched or in dispute.
+ */
+export const SETTLED_MILESTONE_STATES = ['approved', 'released', 'refunded', 'cancelled'] as const
+
+/** The first earlier milestone that still stands in the way of submitting the one at `position`, if any. */
+export function blockingMilestone<T extends { position: number, state: string }>(all: readonly T[], position: number): T | null {
+  return [...all].sort((a, b) => a.position - b.position)
+    .find(m => m.position < position && !(SETTLED_MILESTONE_STATES as readonly string[]).includes(m.state)) ?? null
+}

@@ -106,6 +106,8 @@ export interface Page<T> {
 export interface CurvePull {
   id: number
   label: string
+  /** SHA-256 of the raw file as the shop uploaded it (downloadable at …/pulls/:id/raw). */
+  sha256: string
   status: 'submitted' | 'verified' | 'rejected'
   dynoKind: 'engine' | 'chassis'
   declaredStandard: string

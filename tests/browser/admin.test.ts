@@ -1,10 +1,10 @@
-import { count, eq } from 'drizzle-orm'
+import { and, count, eq, isNotNull } from 'drizzle-orm'
 import type { Page } from 'playwright-core'
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest'
 import { DEMO_PASSWORD, makeAccount, PERSONAS, waitForMail } from '../support/auth'
 import { isLocal, openBrowser } from '../support/browser'
 import { baseUrl, schema, testDb } from '../support/context'
-import { makeBuildAwaitingCheck, shopOf } from '../support/fixtures'
+import { makeBuildAwaitingCheck, makeSubmittedPull, shopOf } from '../support/fixtures'
 
 let browser: Awaited<ReturnType<typeof openBrowser>>
 let page: Page
@@ -94,5 +94,23 @@ describe('the admin desk in Chromium', () => {
     const mail = await waitForMail(owner.email, m => m.subject.includes(pullLabel))
     expect(mail.text).toContain('Hello Petra Linwood')
     expect(mail.text).toContain(reason)
+  })
+  it('the review of a rejected pull on a verified build says the pull was rejected, not that it carries the checked mark', async () => {
+    const { db, close } = await testDb()
+    const [seeded] = await db.select({ slug: schema.builds.slug }).from(schema.builds)
+      .where(and(eq(schema.builds.status, 'published'), isNotNull(schema.builds.verifiedAt))).limit(1)
+    const { pullId } = await makeSubmittedPull(db, seeded!.slug)
+    await close()
+
+    await signInAsAdmin()
+    await page.goto(`${baseUrl()}/admin/evidence/${pullId}`, { waitUntil: 'networkidle' })
+    expect(await page.locator('[data-test="pull-decision"]').innerText()).toContain('awaiting verification')
+    await page.fill('#field-reason', 'The weather on the sheet does not match the file; send the sheet from that day.')
+    await page.click('[data-test="reject-form"] button[type="submit"]')
+    await page.locator('[data-test="decision-done"]').waitFor()
+    await page.reload({ waitUntil: 'networkidle' })
+    expect(await page.locator('[data-test="pull-decision"]').innerText()).toContain('rejected')
+    expect(await page.locator('header [data-test="verified-mark"]').count()).toBe(0)
+    expect(await page.locator('[data-test="build-verified-elsewhere"]').isVisible()).toBe(true)
   })
 })

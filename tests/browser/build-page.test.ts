@@ -61,6 +61,25 @@ describe('build page in Chromium', () => {
     expect(requests.filter(url => !isLocal(url))).toEqual([])
   })
 
+  it('prints a sheet that carries its address, the print date and each pull\'s checksum, with the raw file a click away', async () => {
+    const list = await (await fetch(`${baseUrl()}/api/builds?perPage=1`)).json() as { items: { slug: string }[] }
+    const slug = list.items[0]!.slug
+    const curves = await (await fetch(`${baseUrl()}/api/builds/${slug}/curves`)).json() as { pulls: { id: number, sha256: string }[] }
+    const { page } = browser
+    await page.goto(`${baseUrl()}/builds/${slug}`, { waitUntil: 'networkidle' })
+    expect(await page.locator('[data-test="pull-checksum"]').first().innerText()).toContain(curves.pulls[0]!.sha256)
+    expect(await page.locator('[data-test="pull-raw"]').first().getAttribute('href')).toBe(`/api/builds/${slug}/pulls/${curves.pulls[0]!.id}/raw`)
+    await page.emulateMedia({ media: 'print' })
+    await page.evaluate(() => window.dispatchEvent(new Event('beforeprint')))
+    const footer = page.locator('[data-test="print-footer"]')
+    expect(await footer.isVisible()).toBe(true)
+    const text = await footer.innerText()
+    expect(text).toContain(`/builds/${slug}`)
+    expect(text).toMatch(/Printed \w+ \d{1,2}, \d{4}/)
+    await page.emulateMedia({ media: 'screen' })
+    expect(await footer.isVisible()).toBe(false)
+  })
+
   it('says the weather is unknown only for a pull the shop gave no weather for', async () => {
     const { db, close } = await testDb()
     const { slug, pullId } = await makeBuildAwaitingCheck(db)

@@ -117,6 +117,16 @@ describe('verifying a pull over HTTP', () => {
     const page = await api(`/api/builds/${slug}`)
     expect(page.body.verified).toBe(true)
     expect(page.body.pulls[0].status).toBe('verified')
+
+    // The shop is told, once, through the outbox written with the decision.
+    const [owner] = await ctx.db.select({ email: schema.users.email }).from(schema.builds)
+      .innerJoin(schema.builderProfiles, eq(schema.builderProfiles.id, schema.builds.builderId))
+      .innerJoin(schema.users, eq(schema.users.id, schema.builderProfiles.userId)).where(eq(schema.builds.id, buildId))
+    const label = pull.label
+    const mail = await waitForMail(owner!.email, m => m.subject === `Dyno pull verified: ${label}`, 20_000)
+    expect(mail.text).toContain(`/builds/${slug}`)
+    const queued = await ctx.db.select().from(schema.mailOutbox).where(eq(schema.mailOutbox.dedupeKey, `pull-verified:${pullId}`))
+    expect(queued).toHaveLength(1)
     expect((await get('/api/admin/evidence')).body.some((q: EvidenceQueueItem) => q.pullId === pullId)).toBe(false)
   })
 

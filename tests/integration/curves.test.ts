@@ -1,14 +1,15 @@
 import { readFileSync } from 'node:fs'
 import { resolve } from 'node:path'
-import { and, eq, isNotNull } from 'drizzle-orm'
+import { createHash } from 'node:crypto'
+import { and, eq, isNotNull, ne } from 'drizzle-orm'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { convertCurve, deltaCurve, parsePull, peaks, type CorrectionStandard } from '../../shared/engine'
 import { loadConfig } from '../../scripts/lib/config'
 import { makeCurve, pullCsv } from '../../scripts/lib/demo-data'
 import { seededRandom } from '../../scripts/lib/random'
 import { DISPLAY_MAX_POINTS } from '../../shared/listings/display-curve'
-import { api, schema, testDb } from '../support/context'
-import { makeBuildAwaitingCheck, testUploads } from '../support/fixtures'
+import { api, baseUrl, schema, testDb } from '../support/context'
+import { makeBuildAwaitingCheck, makeSubmittedPull, testUploads } from '../support/fixtures'
 
 let ctx: Awaited<ReturnType<typeof testDb>>
 beforeAll(async () => {
@@ -123,6 +124,34 @@ describe('a dense pull on the public page', () => {
     expect(csv.status).toBe(200)
     const back = parsePull(String(csv.body).split('\n').filter(l => !l.startsWith('#')).join('\n'))
     expect(back.ok && back.points.length).toBe(full.points.length)
+  })
+})
+
+describe('GET /api/builds/:slug/pulls/:id/raw', () => {
+  it('serves the raw file exactly as uploaded, with the SHA-256 the page shows (RFC 9530 Repr-Digest)', async () => {
+    const { slug } = await firstPublishedWithComparison()
+    const curves = await api(`/api/builds/${slug}/curves`)
+    const pull = curves.body.pulls[0]
+    const [file] = await ctx.db.select({ sha256: schema.files.sha256 }).from(schema.dynoPulls)
+      .innerJoin(schema.files, eq(schema.files.id, schema.dynoPulls.fileId)).where(eq(schema.dynoPulls.id, pull.id))
+    expect(pull.sha256).toBe(file!.sha256)
+    const res = await fetch(`${baseUrl()}/api/builds/${slug}/pulls/${pull.id}/raw`)
+    expect(res.status).toBe(200)
+    const bytes = Buffer.from(await res.arrayBuffer())
+    expect(createHash('sha256').update(bytes).digest('hex')).toBe(file!.sha256)
+    expect(res.headers.get('repr-digest')).toBe(`sha-256=:${Buffer.from(file!.sha256, 'hex').toString('base64')}:`)
+    expect(res.headers.get('content-disposition')).toContain('attachment')
+  })
+
+  it('answers 404 for a rejected pull, a pull of another build and an unpublished build', async () => {
+    const { slug, buildId } = await firstPublishedWithComparison()
+    const [other] = await ctx.db.select({ id: schema.dynoPulls.id }).from(schema.dynoPulls).where(ne(schema.dynoPulls.buildId, buildId)).limit(1)
+    expect((await api(`/api/builds/${slug}/pulls/${other!.id}/raw`)).status).toBe(404)
+    const rejected = await makeSubmittedPull(ctx.db, slug)
+    expect((await api(`/api/builds/${slug}/pulls/${rejected.pullId}/raw`)).status).toBe(200)
+    await ctx.db.update(schema.dynoPulls).set({ status: 'rejected' }).where(eq(schema.dynoPulls.id, rejected.pullId))
+    expect((await api(`/api/builds/${slug}/pulls/${rejected.pullId}/raw`)).status).toBe(404)
+    expect((await api(`/api/builds/no-such-build/pulls/1/raw`)).status).toBe(404)
   })
 })
 

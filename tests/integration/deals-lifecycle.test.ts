@@ -231,6 +231,14 @@ describe('a guaranteed final milestone', () => {
       const [row] = await ctx.db.insert(schema.files).values({ ownerId: builder.id, kind: 'pull', mime: 'text/csv', sizeBytes: text.length, sha256: 'x'.repeat(64), storageKey: key, originalName: 'delivery.csv' }).$returningId()
       return row!.id
     }
+    // Milestones are done in order: the delivery cannot be handed in while earlier work is untouched.
+    const early = await submitMilestone(ctx, builder, last.id, { notes: 'Delivered.', proofFileIds: [], deliveryPullId: null }).catch(e => e)
+    expect(early.statusCode).toBe(409)
+    expect(early.message).toContain(`"${milestones[0]!.title}" comes first`)
+    for (const m of milestones.slice(0, 2)) {
+      await submitMilestone(ctx, builder, m.id, { notes: 'Done as quoted.', proofFileIds: [], deliveryPullId: null })
+      await approveMilestone(ctx, racer, m.id)
+    }
     expect(await statusOf(submitMilestone(ctx, builder, last.id, { notes: 'Delivered.', proofFileIds: [], deliveryPullId: null }))).toBe(422)
 
     const weak = await recordDeliveryPull(ctx, storage, builder, last.id, await upload(curve(1.0)), fields)

@@ -30,6 +30,8 @@ export async function startMailCatcher(): Promise<{ smtpPort: number, apiUrl: st
       }, callback)
     },
   })
+  // A client that hangs up mid-session (the app killed at teardown) is an SMTP 'error' event: note it, never crash the run.
+  smtp.on('error', (error: Error) => console.warn(`mail catcher: ${error.message}`))
   await new Promise<void>(r => smtp.listen(0, '127.0.0.1', () => r()))
   const smtpPort = (smtp.server.address() as AddressInfo).port
 

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import { curveFingerprint } from '../../shared/engine/fingerprint'
 import { evaluateDelivery, minimumPower, type DeliveryInput } from '../../shared/deals/delivery'
+import { blockingMilestone, SETTLED_MILESTONE_STATES } from '../../shared/deals/constants'
 import { inventedPull } from './engine/helpers'
 
 // An invented delivery: 4.125 × 4.000 in, eight cylinders (427.6 ci), torque peaking at 560 lb·ft.
@@ -77,5 +78,18 @@ describe('minimumPower', () => {
   it('is the target less its tolerance', () => {
     expect(minimumPower({ hp: 720, tolerancePct: 2, standard: 'SAE_J1349_2004' })).toBeCloseTo(705.6, 9)
     expect(minimumPower({ hp: 500, tolerancePct: 0, standard: 'DIN_70020' })).toBe(500)
+  })
+})
+
+describe('milestones are done in order', () => {
+  const m = (position: number, state: string, title = `M${position}`) => ({ position, state, title })
+  it('blocks a milestone while an earlier one is unpaid, held, submitted or disputed', () => {
+    for (const state of ['awaiting_payment', 'funded', 'submitted', 'disputed']) {
+      expect(blockingMilestone([m(1, state), m(2, 'funded'), m(3, 'funded')], 3)?.title).toBe('M1')
+    }
+  })
+  it('lets it through once every earlier one is approved, released, refunded or cancelled', () => {
+    for (const state of SETTLED_MILESTONE_STATES) expect(blockingMilestone([m(1, state), m(2, 'released'), m(3, 'funded')], 3)).toBeNull()
+    expect(blockingMilestone([m(1, 'funded')], 1)).toBeNull()
   })
 })

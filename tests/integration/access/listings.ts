@@ -17,6 +17,8 @@ export default defineAccess([
   { method: 'GET', path: '/api/builds/harrow-362-na-race-gas-1/curves?standard=SAE_J9999', expect: everyone(400) },
   { method: 'GET', path: '/api/builds/harrow-362-na-race-gas-1/pulls/1/curve.csv', expect: everyone(200) },
   { method: 'GET', path: '/api/builds/harrow-362-na-race-gas-1/pulls/999999/curve.csv', expect: everyone(404) },
+  { method: 'GET', path: '/api/builds/harrow-362-na-race-gas-1/pulls/1/raw', expect: everyone(200) },
+  { method: 'GET', path: '/api/builds/harrow-362-na-race-gas-1/pulls/999999/raw', expect: everyone(404) },
   { method: 'GET', path: '/api/compare?builds=harrow-362-na-race-gas-1,harrow-519-nitrous-race-gas-2', expect: everyone(200) },
   { method: 'GET', path: '/api/compare?builds=not-a-real-build', expect: everyone(404) },
   { method: 'GET', path: '/api/builds/harrow-362-na-race-gas-1/photos/999999', expect: everyone(404) },
