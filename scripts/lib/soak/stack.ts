@@ -1,0 +1,154 @@
+import { spawn, type ChildProcess } from 'node:child_process'
+import { randomBytes } from 'node:crypto'
+import { createWriteStream, mkdirSync, rmSync } from 'node:fs'
+import { createServer } from 'node:net'
+import { resolve } from 'node:path'
+import { startMailCatcher } from '../../../tests/support/mail-catcher'
+import { createPaymentsFake } from '../../payments-fake/server'
+import { appEnv, buildIfStale, startBuiltServer } from '../app'
+import { databaseUrl, loadConfig, type ServiceConfig } from '../config'
+import { recreateDatabase, startMariadb, stopMariadb } from '../mariadb'
+import { migrateDatabase } from '../migrate'
+import { stripeEnvForFake, webhookUrl } from '../payments'
+import { portInUse, UserFacingError } from '../process'
+import { seedDemo } from '../seed'
+import type { SoakOptions } from './options'
+
+/** How the run stops and starts the database under the app: the project's own scripts, or shell commands. */
+export interface DatabaseControl {
+  describe: string
+  stop: () => Promise<void>
+  start: () => Promise<void>
+}
+
+/** What the run stands on: the instances to load, the database to reconcile, and how to take it all down. */
+export interface SoakStack {
+  bases: string[]
+  dbUrl: string
+  database: DatabaseControl | null
+  /** Lines of the app's log matching a pattern (own instance only). */
+  logCount: (pattern: RegExp) => number
+  logFile: string | null
+  close: () => Promise<void>
+}
+
+function freePort(): Promise<number> {
+  return new Promise((resolvePort, reject) => {
+    const srv = createServer()
+    srv.once('error', reject)
+    srv.listen(0, '127.0.0.1', () => {
+      const address = srv.address()
+      const port = typeof address === 'object' && address ? address.port : 0
+      srv.close(() => resolvePort(port))
+    })
+  })
+}
+
+function shell(command: string): Promise<void> {
+  return new Promise((resolveRun, reject) => {
+    const child = spawn('sh', ['-c', command], { stdio: 'inherit' })
+    child.once('error', reject)
+    child.once('exit', code => (code === 0 ? resolveRun() : reject(new Error(`"${command}" exited with ${code}`))))
+  })
+}
+
+/** The soak's own service settings: its data folder (.data/soak unless TW_DATA_DIR says) and its own MariaDB port. */
+export function soakConfig(opts: SoakOptions): ServiceConfig {
+  process.env.TW_DATA_DIR ??= '.data/soak'
+  // loadConfig reads the port from the environment; the demo's TW_DB_PORT must not leak into the soak's instance.
+  process.env.TW_DB_PORT = String(opts.dbPort)
+  return loadConfig()
+}
+
+function commandControl(opts: SoakOptions): DatabaseControl | null {
+  if (!opts.fault.enabled || !opts.fault.stopCommand || !opts.fault.startCommand) return null
+  const { stopCommand, startCommand } = opts.fault
+  return { describe: `\`${stopCommand}\` / \`${startCommand}\``, stop: () => shell(stopCommand), start: () => shell(startCommand) }
+}
+
+/** Instances given with --base: nothing is started, the database is reached through --db-url. */
+export function externalStack(opts: SoakOptions): SoakStack {
+  return { bases: opts.bases, dbUrl: opts.dbUrl!, database: commandControl(opts), logCount: () => 0, logFile: null, close: async () => {} }
+}
+
+/**
+ * The soak's own single instance: MariaDB on its own port and data folder with a fresh database
+ * (migrated, demo seeded), the mail catcher and payments fake in process, and the built server
+ * with NUXT_TRUST_PROXY=1 so each virtual user's X-Forwarded-For address is its own for the rate limits.
+ */
+export async function ownStack(opts: SoakOptions, log: (line: string) => void): Promise<SoakStack> {
+  const cfg = soakConfig(opts)
+  log(`› data folder ${cfg.dataDir}, MariaDB on 127.0.0.1:${cfg.db.port}`)
+  await buildIfStale(cfg)
+  const appPort = opts.appPort || await freePort()
+  if (await portInUse(appPort)) throw new UserFacingError(`Port ${appPort} on 127.0.0.1 is already taken: pick another with --app-port.`)
+
+  const closers: (() => Promise<void>)[] = []
+  const close = async () => {
+    for (const c of closers.reverse()) await c().catch(err => console.error(`› while stopping: ${(err as Error).message}`))
+  }
+  try {
+    const startedDb = await startMariadb(cfg)
+    if (startedDb) closers.push(async () => void await stopMariadb(cfg))
+    const database = cfg.db.name
+    recreateDatabase(cfg, database)
+    const dbUrl = databaseUrl(cfg, database)
+    await migrateDatabase(dbUrl)
+    const uploadsDir = resolve(cfg.dataDir, 'uploads')
+    rmSync(uploadsDir, { recursive: true, force: true })
+    const t = performance.now()
+    await seedDemo({ url: dbUrl, uploadsDir })
+    log(`› fresh database ${database}, demo seeded in ${((performance.now() - t) / 1000).toFixed(1)} s`)
+
+    const mail = await startMailCatcher()
+    closers.push(mail.stop)
+    const keys = { secretKey: `sk_test_soak_${randomBytes(12).toString('hex')}`, webhookSecret: `whsec_soak_${randomBytes(18).toString('hex')}` }
+    const payments = await createPaymentsFake({ port: 0, ...keys, webhookUrl: webhookUrl(appPort) })
+    closers.push(() => payments.close())
+
+    mkdirSync(cfg.runDir, { recursive: true })
+    const logFile = resolve(cfg.runDir, 'soak-app.log')
+    const out = createWriteStream(logFile)
+    let logText = ''
+    const server: ChildProcess = await startBuiltServer(cfg, appEnv(cfg, {
+      database, port: appPort, smtpPort: mail.smtpPort, uploadsDir,
+      extra: { NUXT_TRUST_PROXY: '1', ...stripeEnvForFake(payments.port, keys) },
+    }), 'pipe')
+    const keep = (d: Buffer) => {
+      out.write(d)
+      // Only the tail is kept in memory for the counts; the whole log is in the file.
+      logText = (logText + d.toString('utf8')).slice(-4_000_000)
+    }
+    server.stdout?.on('data', keep)
+    server.stderr?.on('data', keep)
+    closers.push(async () => {
+      if (server.exitCode === null && server.signalCode === null) {
+        const exited = new Promise(r => server.once('exit', r))
+        server.kill('SIGTERM')
+        await exited
+      }
+      out.end()
+    })
+    log(`› app on http://127.0.0.1:${appPort} (log: ${logFile})`)
+
+    const control: DatabaseControl | null = !opts.fault.enabled
+      ? null
+      : commandControl(opts) ?? {
+        describe: 'stopMariadb / startMariadb (scripts/lib/mariadb.ts)',
+        stop: async () => void await stopMariadb(cfg),
+        start: async () => void await startMariadb(cfg),
+      }
+    return {
+      bases: [`http://127.0.0.1:${appPort}`],
+      dbUrl,
+      database: control,
+      logCount: pattern => logText.split('\n').filter(l => pattern.test(l)).length,
+      logFile,
+      close,
+    }
+  }
+  catch (err) {
+    await close()
+    throw err
+  }
+}
