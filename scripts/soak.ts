@@ -12,7 +12,7 @@ import { fmtCounts, ok, outcomes, phaseTable, type Sample } from './lib/soak/sta
 import { UserFacingError } from './lib/process'
 
 const log = (line: string) => console.log(line)
-const sleep = (ms: number) => new Promise(r => setTimeout(r, ms))
+const sleep = (ms: number) => new Promise<void>(r => setTimeout(r, ms))
 const load = () => loadavg().map(n => n.toFixed(2)).join(' ')
 
 interface PhaseResult {
@@ -32,6 +32,12 @@ async function runPhase(name: string, opts: SoakOptions, client: Client, pop: Po
   phase.stop = true
   await users
   return { samples: phase.samples, examples: phase.examples, seconds: (performance.now() - phase.startedAt) / 1000, loadBefore, loadAfter: load() }
+}
+
+/** The app log's counts that grew during a phase. */
+function logLines(before: Record<string, number>, after: Record<string, number>): string {
+  const grown = Object.entries(after).map(([k, n]) => `${k} ${n - (before[k] ?? 0)}`)
+  return `  app log lines: ${grown.join(', ')}`
 }
 
 function printPhase(title: string, r: PhaseResult) {
@@ -70,14 +76,18 @@ function faultLines(samples: Sample[], at: { stopBegin: number, stopped: number,
   else {
     lines.push(`  no database-backed action answered 2xx after the restart: the app did not recover within the phase`)
   }
-  // A time line in 5-second steps, by when the request was sent.
+  // A time line in 5-second steps, by when the request was sent, database-backed actions apart from the public ones.
   const end = Math.max(...samples.map(s => s.sentAt), 0)
-  lines.push('  time line (by when sent): 2xx / 503 / 500 / other non-2xx / no answer')
+  const cell = (of: Sample[]) => {
+    const n = (f: (s: Sample) => boolean) => of.filter(f).length
+    return `${n(ok)} / ${n(s => s.status === 503)} / ${n(s => s.status === 500)} / ${n(s => s.status >= 300 && s.status !== 500 && s.status !== 503)} / ${n(s => s.status === 0)}`
+  }
+  lines.push('  time line by when sent — 2xx / 503 / 500 / other / no answer:')
+  lines.push(`    ${'seconds'.padEnd(9)}  ${'database-backed'.padEnd(24)}  public pages and search`)
   for (let t = 0; t < end; t += 5000) {
     const of = between(t, t + 5000)
-    const n = (f: (s: Sample) => boolean) => of.filter(f).length
-    const mark = at.stopped <= t + 5000 && at.started >= t ? '  ← MariaDB down' : ''
-    lines.push(`    ${String(t / 1000).padStart(3)}–${String(t / 1000 + 5).padEnd(3)} s  ${n(ok)} / ${n(s => s.status === 503)} / ${n(s => s.status === 500)} / ${n(s => s.status >= 300 && s.status !== 500 && s.status !== 503)} / ${n(s => s.status === 0)}${mark}`)
+    const mark = at.stopped < t + 5000 && at.started > t ? '  ← MariaDB down' : ''
+    lines.push(`    ${`${t / 1000}–${t / 1000 + 5}`.padEnd(9)}  ${cell(of.filter(s => DATABASE_KINDS.has(s.kind))).padEnd(24)}  ${cell(of.filter(s => !DATABASE_KINDS.has(s.kind)))}${mark}`)
   }
   const fiveHundreds = samples.filter(s => s.status === 500).length
   return { lines, recovered: !!firstOk, fiveHundreds }
@@ -105,8 +115,10 @@ async function main() {
     log(`› loading ${stack.bases.join(', ')}`)
     const pop = await preparePopulation(client, stack.bases, opts.users, opts.seed, runId, log)
 
+    let logBefore = stack.logCounts()
     const steady = await runPhase('steady', opts, client, pop, () => sleep(opts.duration * 1000))
     printPhase(`Phase 1 — steady load, ${opts.users} users`, steady)
+    if (stack.logFile) log(logLines(logBefore, stack.logCounts()))
     const steadyFailed = steady.samples.filter(s => !ok(s)).length
     if (steadyFailed) failures.push(`phase 1 had ${steadyFailed} answers that were not 2xx (${fmtCounts(outcomes(steady.samples))})`)
     reconciliations.push(await reconcile(stack.dbUrl, pop.ledger, 'steady'))
@@ -117,6 +129,7 @@ async function main() {
     if (database) {
       log(`\n› fault phase: MariaDB stopped and started with ${database.describe}`)
       const at = { stopBegin: 0, stopped: 0, startBegin: 0, started: 0 }
+      logBefore = stack.logCounts()
       const fault = await runPhase('fault', opts, client, pop, async (phase) => {
         const now = () => performance.now() - phase.startedAt
         await sleep(opts.fault.at * 1000)
@@ -130,6 +143,7 @@ async function main() {
         await sleep(opts.fault.after * 1000)
       })
       printPhase(`Phase 2 — the same load, MariaDB down ${opts.fault.down} s`, fault)
+      if (stack.logFile) log(logLines(logBefore, stack.logCounts()))
       const story = faultLines(fault.samples, at)
       for (const line of story.lines) log(line)
       if (!story.recovered) failures.push('the app did not answer a database-backed action with 2xx after MariaDB came back')
@@ -140,9 +154,9 @@ async function main() {
     }
 
     for (const r of reconciliations) if (!reconciled(r)) failures.push(`the ${r.phase} phase lost or doubled acknowledged writes`)
-    if (stack.logFile) {
-      log(`\napp log ${stack.logFile}: ${stack.logCount(/deadlock/i)} lines mention a deadlock, ${stack.logCount(/lock wait timeout/i)} a lock wait timeout`)
-    }
+    const mail = stack.mailSent()
+    if (mail !== null) log(`\noutbox: ${mail} e-mails reached the SMTP sink`)
+    if (stack.logFile) log(`app log: ${stack.logFile}`)
     log(`1-minute load average at the end: ${load().split(' ')[0]} (the load generator shares the machine with the app and MariaDB)`)
     log(failures.length ? `\nRESULT: FAIL\n${failures.map(f => `  - ${f}`).join('\n')}` : '\nRESULT: pass')
   }

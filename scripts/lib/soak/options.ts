@@ -44,10 +44,9 @@ function number(raw: string | undefined, name: string, fallback: number, min: nu
   return n
 }
 
-/** True when a host name is a loopback address (127.0.0.0/8, ::1) or "localhost". */
+/** True when a host is a loopback address literal (127.0.0.0/8 or ::1); names are refused, since a name may resolve elsewhere. */
 export function isLoopbackHost(host: string): boolean {
   const h = host.replace(/^\[|\]$/g, '').toLowerCase()
-  if (h === 'localhost') return true
   if (isIP(h) === 4) return h.startsWith('127.')
   if (isIP(h) === 6) return h === '::1'
   return false
@@ -72,7 +71,7 @@ export const USAGE = `npm run soak -- [options]
                        Default: start our own built server on its own data folder (.data/soak).
   --duration S         seconds of the steady phase (default 60)
   --users N            concurrent virtual users (default 200)
-  --think MIN-MAX      pause between one user's actions in ms (default 250-750; 0 for none)
+  --think MIN-MAX      pause between one user's actions in ms (default 1000-3000; 0 for none)
   --timeout MS         per-request timeout (default 10000)
   --max-requests N     bound on requests per phase (default 400000)
   --no-fault           skip the database fault phase
@@ -115,7 +114,8 @@ export function parseSoakOptions(argv: string[]): SoakOptions {
     process.exit(0)
   }
   const bases = (values.base ?? []).flatMap(b => b.split(',')).map(b => b.trim()).filter(Boolean).map(loopbackBase)
-  const think = (values.think ?? '250-750').split('-').map(s => number(s, 'think', 0, 0, 60_000))
+  const think = (values.think ?? '1000-3000').split('-').map(s => number(s, 'think', 0, 0, 60_000))
+  if ((think[1] ?? think[0] ?? 0) < (think[0] ?? 0)) throw new UserFacingError('--think is MIN-MAX with MIN at most MAX')
   const stopCommand = values['db-stop'] ?? null
   const startCommand = values['db-start'] ?? null
   if ((stopCommand === null) !== (startCommand === null)) throw new UserFacingError('--db-stop and --db-start go together')

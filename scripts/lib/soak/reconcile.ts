@@ -21,8 +21,10 @@ export interface Reconciliation {
     saved: number
     /** The stored title is the last acknowledged one (the initial title when none was acknowledged). */
     lastAcknowledgedKept: number
-    /** The stored title is a save that got no answer (it may land or not). */
+    /** The stored title is a later save that got no answer (it may land or not). */
     unansweredLanded: number
+    /** The stored title is a save that got no answer sent before the last acknowledged one, which it overwrote when it finished late. */
+    overwrittenByEarlier: { draftId: number, acknowledged: string, stored: string }[]
     /** The stored title is an earlier save, the initial title, or none of the run's: the last acknowledged save was lost. */
     lost: { draftId: number, expected: string, stored: string | null }[]
   }
@@ -67,7 +69,7 @@ export async function reconcile(dbUrl: string, ledger: Ledger, phase: string): P
       const [drafts] = await connection.query<mysql.RowDataPacket[]>('SELECT id, title FROM builds WHERE id IN (?)', [ids])
       for (const d of drafts) titles.set(Number(d.id), String(d.title))
     }
-    const drafts: Reconciliation['drafts'] = { saved: 0, lastAcknowledgedKept: 0, unansweredLanded: 0, lost: [] }
+    const drafts: Reconciliation['drafts'] = { saved: 0, lastAcknowledgedKept: 0, unansweredLanded: 0, overwrittenByEarlier: [], lost: [] }
     for (const [id, { initial, saves }] of ledger.drafts) {
       if (!saves.some(s => s.phase === phase)) continue
       drafts.saved++
@@ -76,8 +78,10 @@ export async function reconcile(dbUrl: string, ledger: Ledger, phase: string): P
       const lastAck = saves.map(s => acknowledged(s.status)).lastIndexOf(true)
       const expected = lastAck >= 0 ? saves[lastAck]!.title : initial
       const stored = titles.get(id) ?? null
+      const landed = stored === null ? -1 : saves.findIndex(s => unanswered(s.status) && s.title === stored)
       if (stored === expected) drafts.lastAcknowledgedKept++
-      else if (stored !== null && saves.some(s => unanswered(s.status) && s.title === stored)) drafts.unansweredLanded++
+      else if (landed > lastAck) drafts.unansweredLanded++
+      else if (landed >= 0) drafts.overwrittenByEarlier.push({ draftId: id, acknowledged: expected, stored: stored! })
       else drafts.lost.push({ draftId: id, expected, stored })
     }
     return { phase, messages, drafts }
@@ -97,8 +101,9 @@ export function reconciliationLines(r: Reconciliation): string[] {
   const lines = [
     `  messages: ${m.acknowledged} acknowledged (201), ${m.acknowledgedStored} of them in request_messages; lost ${m.lost.length}, written twice ${m.doubled.length}`,
     `            ${m.unanswered} unanswered (timeout or 5xx): ${m.unansweredStored} of them were written anyway, none may be twice`,
-    `  drafts:   ${d.saved} autosaved this phase: ${d.lastAcknowledgedKept} hold the last acknowledged title, ${d.unansweredLanded} an unanswered save's; lost ${d.lost.length}`,
+    `  drafts:   ${d.saved} autosaved this phase: ${d.lastAcknowledgedKept} hold the last acknowledged title, ${d.unansweredLanded} a later unanswered save's; lost ${d.lost.length}`,
   ]
+  if (d.overwrittenByEarlier.length) lines.push(`  finding: ${d.overwrittenByEarlier.length} drafts hold an earlier save that timed out on the client and finished after the last acknowledged one`)
   if (m.refusedButStored.length) lines.push(`  refused (4xx) yet written: ${m.refusedButStored.length}: ${m.refusedButStored.slice(0, 5).join('; ')}`)
   if (m.lost.length) lines.push(`  lost messages (first 5): ${m.lost.slice(0, 5).join('; ')}`)
   if (m.doubled.length) lines.push(`  doubled messages (first 5): ${m.doubled.slice(0, 5).join('; ')}`)

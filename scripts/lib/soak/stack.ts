@@ -3,7 +3,6 @@ import { randomBytes } from 'node:crypto'
 import { createWriteStream, mkdirSync, rmSync } from 'node:fs'
 import { createServer } from 'node:net'
 import { resolve } from 'node:path'
-import { startMailCatcher } from '../../../tests/support/mail-catcher'
 import { createPaymentsFake } from '../../payments-fake/server'
 import { appEnv, buildIfStale, startBuiltServer } from '../app'
 import { databaseUrl, loadConfig, type ServiceConfig } from '../config'
@@ -12,6 +11,7 @@ import { migrateDatabase } from '../migrate'
 import { stripeEnvForFake, webhookUrl } from '../payments'
 import { portInUse, UserFacingError } from '../process'
 import { seedDemo } from '../seed'
+import { startMailSink } from './mail-sink'
 import type { SoakOptions } from './options'
 
 /** How the run stops and starts the database under the app: the project's own scripts, or shell commands. */
@@ -26,11 +26,23 @@ export interface SoakStack {
   bases: string[]
   dbUrl: string
   database: DatabaseControl | null
-  /** Lines of the app's log matching a pattern (own instance only). */
-  logCount: (pattern: RegExp) => number
+  /** Lines of the app's log so far that match each of LOG_PATTERNS (own instance only; zeros otherwise). */
+  logCounts: () => Record<LogPattern, number>
+  /** Messages the app's outbox handed to SMTP (own instance only). */
+  mailSent: () => number | null
   logFile: string | null
   close: () => Promise<void>
 }
+
+/** What the run counts in the app's log: request errors, and the database errors behind them. */
+export const LOG_PATTERNS = {
+  'request errors': /\[request error\]/,
+  'deadlocks': /deadlock/i,
+  'lock wait timeouts': /lock wait timeout/i,
+  'lost or refused connections': /PROTOCOL_CONNECTION_LOST|ECONNREFUSED|ECONNRESET/,
+}
+export type LogPattern = keyof typeof LOG_PATTERNS
+const NO_LOG = Object.fromEntries(Object.keys(LOG_PATTERNS).map(k => [k, 0])) as Record<LogPattern, number>
 
 function freePort(): Promise<number> {
   return new Promise((resolvePort, reject) => {
@@ -68,12 +80,12 @@ function commandControl(opts: SoakOptions): DatabaseControl | null {
 
 /** Instances given with --base: nothing is started, the database is reached through --db-url. */
 export function externalStack(opts: SoakOptions): SoakStack {
-  return { bases: opts.bases, dbUrl: opts.dbUrl!, database: commandControl(opts), logCount: () => 0, logFile: null, close: async () => {} }
+  return { bases: opts.bases, dbUrl: opts.dbUrl!, database: commandControl(opts), logCounts: () => ({ ...NO_LOG }), mailSent: () => null, logFile: null, close: async () => {} }
 }
 
 /**
  * The soak's own single instance: MariaDB on its own port and data folder with a fresh database
- * (migrated, demo seeded), the mail catcher and payments fake in process, and the built server
+ * (migrated, demo seeded), an SMTP sink and the payments fake in process, and the built server
  * with NUXT_TRUST_PROXY=1 so each virtual user's X-Forwarded-For address is its own for the rate limits.
  */
 export async function ownStack(opts: SoakOptions, log: (line: string) => void): Promise<SoakStack> {
@@ -100,7 +112,7 @@ export async function ownStack(opts: SoakOptions, log: (line: string) => void): 
     await seedDemo({ url: dbUrl, uploadsDir })
     log(`› fresh database ${database}, demo seeded in ${((performance.now() - t) / 1000).toFixed(1)} s`)
 
-    const mail = await startMailCatcher()
+    const mail = await startMailSink()
     closers.push(mail.stop)
     const keys = { secretKey: `sk_test_soak_${randomBytes(12).toString('hex')}`, webhookSecret: `whsec_soak_${randomBytes(18).toString('hex')}` }
     const payments = await createPaymentsFake({ port: 0, ...keys, webhookUrl: webhookUrl(appPort) })
@@ -109,15 +121,19 @@ export async function ownStack(opts: SoakOptions, log: (line: string) => void): 
     mkdirSync(cfg.runDir, { recursive: true })
     const logFile = resolve(cfg.runDir, 'soak-app.log')
     const out = createWriteStream(logFile)
-    let logText = ''
+    const counts = { ...NO_LOG }
+    let pending = ''
     const server: ChildProcess = await startBuiltServer(cfg, appEnv(cfg, {
       database, port: appPort, smtpPort: mail.smtpPort, uploadsDir,
       extra: { NUXT_TRUST_PROXY: '1', ...stripeEnvForFake(payments.port, keys) },
     }), 'pipe')
     const keep = (d: Buffer) => {
       out.write(d)
-      // Only the tail is kept in memory for the counts; the whole log is in the file.
-      logText = (logText + d.toString('utf8')).slice(-4_000_000)
+      const lines = (pending + d.toString('utf8')).split('\n')
+      pending = lines.pop() ?? ''
+      for (const line of lines) {
+        for (const name of Object.keys(LOG_PATTERNS) as LogPattern[]) if (LOG_PATTERNS[name].test(line)) counts[name]++
+      }
     }
     server.stdout?.on('data', keep)
     server.stderr?.on('data', keep)
@@ -142,7 +158,8 @@ export async function ownStack(opts: SoakOptions, log: (line: string) => void): 
       bases: [`http://127.0.0.1:${appPort}`],
       dbUrl,
       database: control,
-      logCount: pattern => logText.split('\n').filter(l => pattern.test(l)).length,
+      logCounts: () => ({ ...counts }),
+      mailSent: mail.received,
       logFile,
       close,
     }
