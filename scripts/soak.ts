@@ -16,6 +16,7 @@ const sleep = (ms: number) => new Promise<void>(r => setTimeout(r, ms))
 const load = () => loadavg().map(n => n.toFixed(2)).join(' ')
 
 interface PhaseResult {
+  cpu: string
   samples: Sample[]
   examples: Map<string, string>
   seconds: number
@@ -24,14 +25,21 @@ interface PhaseResult {
 }
 
 /** Runs every virtual user until `control` returns (or the request budget is spent), then waits for the last answers. */
-async function runPhase(name: string, opts: SoakOptions, client: Client, pop: Population, control: (phase: PhaseRun) => Promise<void>): Promise<PhaseResult> {
+async function runPhase(name: string, opts: SoakOptions, client: Client, pop: Population, stack: SoakStack, control: (phase: PhaseRun) => Promise<void>): Promise<PhaseResult> {
   const loadBefore = load()
+  const cpuBefore = { ...stack.cpuSeconds(), generator: process.cpuUsage() }
   const phase: PhaseRun = { name, startedAt: performance.now(), samples: [], stop: false, budget: opts.maxRequests, examples: new Map() }
   const users = Promise.all(pop.users.map(u => runUser(client, u, pop, phase, opts.think)))
   await Promise.race([control(phase), users])
   phase.stop = true
   await users
-  return { samples: phase.samples, examples: phase.examples, seconds: (performance.now() - phase.startedAt) / 1000, loadBefore, loadAfter: load() }
+  const seconds = (performance.now() - phase.startedAt) / 1000
+  const cpuAfter = stack.cpuSeconds()
+  const generator = process.cpuUsage(cpuBefore.generator)
+  const share = (used: number | null) => (used === null ? 'unknown' : `${used.toFixed(1)} s (${Math.round(100 * used / seconds)} % of one core)`)
+  const diff = (a: number | null, b: number | null) => (a === null || b === null || b < a ? null : b - a)
+  const cpu = `  CPU used in the phase: app ${share(diff(cpuBefore.app, cpuAfter.app))}, MariaDB ${cpuBefore.mariadbPid === cpuAfter.mariadbPid ? share(diff(cpuBefore.mariadb, cpuAfter.mariadb)) : 'unknown (restarted)'}, load generator ${share((generator.user + generator.system) / 1e6)}`
+  return { samples: phase.samples, examples: phase.examples, seconds, loadBefore, loadAfter: load(), cpu }
 }
 
 /** The app log's counts that grew during a phase. */
@@ -43,6 +51,7 @@ function logLines(before: Record<string, number>, after: Record<string, number>)
 function printPhase(title: string, r: PhaseResult) {
   log(`\n${title} (1-minute load average ${r.loadBefore.split(' ')[0]} before, ${r.loadAfter.split(' ')[0]} after)`)
   for (const line of phaseTable(r.samples, r.seconds)) log(line)
+  log(r.cpu)
   if (r.examples.size) log('  what the first failing answer of each kind said:')
   for (const [key, text] of [...r.examples].sort()) log(`    ${key}: ${text}`)
 }
@@ -116,7 +125,7 @@ async function main() {
     const pop = await preparePopulation(client, stack.bases, opts.users, opts.seed, runId, log)
 
     let logBefore = stack.logCounts()
-    const steady = await runPhase('steady', opts, client, pop, () => sleep(opts.duration * 1000))
+    const steady = await runPhase('steady', opts, client, pop, stack, () => sleep(opts.duration * 1000))
     printPhase(`Phase 1 — steady load, ${opts.users} users`, steady)
     if (stack.logFile) log(logLines(logBefore, stack.logCounts()))
     const steadyFailed = steady.samples.filter(s => !ok(s)).length
@@ -130,7 +139,7 @@ async function main() {
       log(`\n› fault phase: MariaDB stopped and started with ${database.describe}`)
       const at = { stopBegin: 0, stopped: 0, startBegin: 0, started: 0 }
       logBefore = stack.logCounts()
-      const fault = await runPhase('fault', opts, client, pop, async (phase) => {
+      const fault = await runPhase('fault', opts, client, pop, stack, async (phase) => {
         const now = () => performance.now() - phase.startedAt
         await sleep(opts.fault.at * 1000)
         at.stopBegin = now()

@@ -1,6 +1,6 @@
 import { spawn, type ChildProcess } from 'node:child_process'
 import { randomBytes } from 'node:crypto'
-import { createWriteStream, mkdirSync, rmSync } from 'node:fs'
+import { createWriteStream, existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs'
 import { createServer } from 'node:net'
 import { resolve } from 'node:path'
 import { createPaymentsFake } from '../../payments-fake/server'
@@ -28,6 +28,8 @@ export interface SoakStack {
   database: DatabaseControl | null
   /** Lines of the app's log so far that match each of LOG_PATTERNS (own instance only; zeros otherwise). */
   logCounts: () => Record<LogPattern, number>
+  /** CPU seconds used so far by the app server and by MariaDB (own instance only, Linux; null when unknown). */
+  cpuSeconds: () => { app: number | null, mariadb: number | null, mariadbPid: number | null }
   /** Messages the app's outbox handed to SMTP (own instance only). */
   mailSent: () => number | null
   logFile: string | null
@@ -43,6 +45,26 @@ export const LOG_PATTERNS = {
 }
 export type LogPattern = keyof typeof LOG_PATTERNS
 const NO_LOG = Object.fromEntries(Object.keys(LOG_PATTERNS).map(k => [k, 0])) as Record<LogPattern, number>
+
+/** User plus system CPU seconds of a live process, from /proc (Linux counts them in USER_HZ ticks, 100 a second). */
+export function processCpuSeconds(pid: number | undefined): number | null {
+  if (!pid) return null
+  try {
+    // The command name (field 2) may hold spaces; the fields after its closing parenthesis are plain.
+    const stat = readFileSync(`/proc/${pid}/stat`, 'utf8')
+    const fields = stat.slice(stat.lastIndexOf(')') + 2).split(' ')
+    return (Number(fields[11]) + Number(fields[12])) / 100
+  }
+  catch {
+    return null
+  }
+}
+
+function pidFromFile(file: string): number | undefined {
+  if (!existsSync(file)) return undefined
+  const pid = Number(readFileSync(file, 'utf8').trim())
+  return Number.isInteger(pid) && pid > 0 ? pid : undefined
+}
 
 function freePort(): Promise<number> {
   return new Promise((resolvePort, reject) => {
@@ -80,7 +102,7 @@ function commandControl(opts: SoakOptions): DatabaseControl | null {
 
 /** Instances given with --base: nothing is started, the database is reached through --db-url. */
 export function externalStack(opts: SoakOptions): SoakStack {
-  return { bases: opts.bases, dbUrl: opts.dbUrl!, database: commandControl(opts), logCounts: () => ({ ...NO_LOG }), mailSent: () => null, logFile: null, close: async () => {} }
+  return { bases: opts.bases, dbUrl: opts.dbUrl!, database: commandControl(opts), logCounts: () => ({ ...NO_LOG }), cpuSeconds: () => ({ app: null, mariadb: null, mariadbPid: null }), mailSent: () => null, logFile: null, close: async () => {} }
 }
 
 /**
@@ -159,6 +181,10 @@ export async function ownStack(opts: SoakOptions, log: (line: string) => void): 
       dbUrl,
       database: control,
       logCounts: () => ({ ...counts }),
+      cpuSeconds: () => {
+        const mariadbPid = pidFromFile(resolve(cfg.dataDir, 'mariadb', 'mariadb.pid')) ?? null
+        return { app: processCpuSeconds(server.pid), mariadb: processCpuSeconds(mariadbPid ?? undefined), mariadbPid }
+      },
       mailSent: mail.received,
       logFile,
       close,
