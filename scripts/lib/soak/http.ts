@@ -49,8 +49,12 @@ export class Client {
   private readonly https: HttpsAgent
 
   constructor(connections: number, private readonly timeoutMs: number) {
-    this.http = new HttpAgent({ keepAlive: true, maxSockets: connections, maxFreeSockets: connections })
-    this.https = new HttpsAgent({ keepAlive: true, maxSockets: connections, maxFreeSockets: connections })
+    // With a socket timeout set, Node's agent closes an idle connection a second before the server's
+    // announced keep-alive timeout (Keep-Alive: timeout=5); without one it keeps it, and a request sent
+    // on a connection the server is closing fails with ECONNRESET.
+    const options = { keepAlive: true, maxSockets: connections, maxFreeSockets: connections, timeout: timeoutMs }
+    this.http = new HttpAgent(options)
+    this.https = new HttpsAgent(options)
   }
 
   /** One request with a hard timeout; never throws: a failure is an Answer with status 0. */
