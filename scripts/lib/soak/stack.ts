@@ -36,12 +36,12 @@ export interface SoakStack {
   close: () => Promise<void>
 }
 
-/** What the run counts in the app's log: request errors, and the database errors behind them. */
+/** What the run counts in the app's log: failed requests, and the database errors behind them (one `code:` line per error). */
 export const LOG_PATTERNS = {
   'request errors': /\[request error\]/,
-  'deadlocks': /deadlock/i,
-  'lock wait timeouts': /lock wait timeout/i,
-  'lost or refused connections': /PROTOCOL_CONNECTION_LOST|ECONNREFUSED|ECONNRESET/,
+  'deadlocks': /code: 'ER_LOCK_DEADLOCK'/,
+  'lock wait timeouts': /code: 'ER_LOCK_WAIT_TIMEOUT'/,
+  'lost or refused connections': /code: '(PROTOCOL_CONNECTION_LOST|ECONNREFUSED|ECONNRESET)'/,
 }
 export type LogPattern = keyof typeof LOG_PATTERNS
 const NO_LOG = Object.fromEntries(Object.keys(LOG_PATTERNS).map(k => [k, 0])) as Record<LogPattern, number>
