@@ -71,6 +71,8 @@ function faultLines(samples: Sample[], at: { stopBegin: number, stopped: number,
     `  while down, public pages and search: ${all(downPublic)}`,
     `  while starting (${sec(at.started - at.startBegin)}): ${all(between(at.startBegin, at.started))}`,
   ]
+  const anyOk = samples.filter(s => s.doneAt >= at.started && DATABASE_KINDS.has(s.kind) && ok(s)).sort((a, b) => a.doneAt - b.doneAt)[0]
+  if (anyOk) lines.push(`  first 2xx of a database-backed action answered after the restart, whenever sent: ${sec(anyOk.doneAt - at.started)} after MariaDB was up`)
   const after = samples.filter(s => s.sentAt >= at.started && DATABASE_KINDS.has(s.kind))
   const firstOk = after.filter(ok).sort((a, b) => a.doneAt - b.doneAt)[0]
   if (firstOk) {
