@@ -6,7 +6,7 @@ import { resolve } from 'node:path'
 import { createPaymentsFake } from '../../payments-fake/server'
 import { appEnv, buildIfStale, startBuiltServer } from '../app'
 import { databaseUrl, loadConfig, type ServiceConfig } from '../config'
-import { recreateDatabase, startMariadb, stopMariadb } from '../mariadb'
+import { ensureDatabase, recreateDatabase, startMariadb, stopMariadb } from '../mariadb'
 import { migrateDatabase } from '../migrate'
 import { stripeEnvForFake, webhookUrl } from '../payments'
 import { portInUse, UserFacingError } from '../process'
@@ -86,9 +86,15 @@ function shell(command: string): Promise<void> {
   })
 }
 
-/** The soak's own service settings: its data folder (.data/soak unless TW_DATA_DIR says) and its own MariaDB port. */
+/** The database the soak recreates on every run, in its own instance. */
+export const SOAK_DATABASE = 'torquewright_soak'
+
+/**
+ * The soak's own service settings: its data folder (.data/soak, or TW_SOAK_DATA_DIR) and its own
+ * MariaDB port. TW_DATA_DIR is not read, so a shell set up for the demo never points the soak at the demo's data.
+ */
 export function soakConfig(opts: SoakOptions): ServiceConfig {
-  process.env.TW_DATA_DIR ??= '.data/soak'
+  process.env.TW_DATA_DIR = process.env.TW_SOAK_DATA_DIR || '.data/soak'
   // loadConfig reads the port from the environment; the demo's TW_DB_PORT must not leak into the soak's instance.
   process.env.TW_DB_PORT = String(opts.dbPort)
   return loadConfig()
@@ -123,9 +129,14 @@ export async function ownStack(opts: SoakOptions, log: (line: string) => void): 
   }
   try {
     const startedDb = await startMariadb(cfg)
-    if (startedDb) closers.push(async () => void await stopMariadb(cfg))
-    const database = cfg.db.name
+    // Stopped at the end when this run started it, or restarted it in the fault phase (then it is this run's process).
+    let restarted = false
+    closers.push(async () => {
+      if (startedDb || restarted) await stopMariadb(cfg)
+    })
+    const database = SOAK_DATABASE
     recreateDatabase(cfg, database)
+    ensureDatabase(cfg, database)
     const dbUrl = databaseUrl(cfg, database)
     await migrateDatabase(dbUrl)
     const uploadsDir = resolve(cfg.dataDir, 'uploads')
@@ -174,7 +185,10 @@ export async function ownStack(opts: SoakOptions, log: (line: string) => void): 
       : commandControl(opts) ?? {
         describe: 'stopMariadb / startMariadb (scripts/lib/mariadb.ts)',
         stop: async () => void await stopMariadb(cfg),
-        start: async () => void await startMariadb(cfg),
+        start: async () => {
+          restarted = true
+          await startMariadb(cfg)
+        },
       }
     return {
       bases: [`http://127.0.0.1:${appPort}`],
