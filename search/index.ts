@@ -283,6 +283,7 @@ class EmbeddedIndex implements SearchIndex {
     const aspirationCounts = new Int32Array(ASPIRATIONS.length)
     const fuelCounts = new Int32Array(FUELS.length)
     const familyCounts = new Int32Array(this.families.values.length)
+    const regionCounts = new Int32Array(this.regions.values.length)
     const top = new TopK(Math.min(page * perPage, MAX_RESULT_WINDOW))
     const textIndex = this.text
     let total = 0
@@ -322,12 +323,14 @@ class EmbeddedIndex implements SearchIndex {
       if (priceFilter && (price[p] as number) > priceMax) continue
       const fam = family[p] as number
       if (familyAllowed && familyAllowed[fam] !== 1) continue
-      if (regionAllowed && regionAllowed[region[p] as number] !== 1) continue
+      const reg = region[p] as number
+      if (regionAllowed && regionAllowed[reg] !== 1) continue
       if (text && !textIndex.isMatch(slots[p] as number)) continue
       total++
       aspirationCounts[a]!++
       fuelCounts[f]!++
       familyCounts[fam]!++
+      regionCounts[reg]!++
       let key: number
       if (sortCode === 0) key = -textIndex.scoreOf(slots[p] as number)
       else if (sortCode === 1) key = -(published[p] as number)
@@ -354,7 +357,7 @@ class EmbeddedIndex implements SearchIndex {
       if (text) hit.score = Math.round(textIndex.scoreOf(slot) * 1000) / 1000
       return hit
     })
-    return { total, page, perPage, hits, facets: this.facets(aspirationCounts, fuelCounts, familyCounts) }
+    return { total, page, perPage, hits, facets: this.facets(aspirationCounts, fuelCounts, familyCounts, regionCounts) }
   }
 
   private candidates = new Int32Array(0)
@@ -395,13 +398,17 @@ class EmbeddedIndex implements SearchIndex {
     return out
   }
 
-  private facets(aspiration: Int32Array, fuel: Int32Array, family: Int32Array): SearchFacets {
-    const out: SearchFacets = { aspiration: {}, fuel: {}, family: {} }
+  private facets(aspiration: Int32Array, fuel: Int32Array, family: Int32Array, region: Int32Array): SearchFacets {
+    const out: SearchFacets = { aspiration: {}, fuel: {}, family: {}, region: {} }
     ASPIRATIONS.forEach((a, i) => (out.aspiration[a] = aspiration[i] as number))
     FUELS.forEach((f, i) => (out.fuel[f] = fuel[i] as number))
     this.families.values.forEach((name, code) => {
       const n = family[code] ?? 0
       if (n > 0 || this.families.inUse(code)) out.family[name] = n
+    })
+    this.regions.values.forEach((name, code) => {
+      const n = region[code] ?? 0
+      if (n > 0 || this.regions.inUse(code)) out.region[name] = n
     })
     return out
   }

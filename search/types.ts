@@ -110,6 +110,7 @@ export interface SearchFacets {
   aspiration: Record<string, number>
   fuel: Record<string, number>
   family: Record<string, number>
+  region: Record<string, number>
 }
 
 export interface SearchResult {

@@ -12,6 +12,7 @@ export interface SearchFilters {
   aspiration: string[]
   fuel: string[]
   family: string[]
+  region: string[]
   use: string[]
   verified: boolean
   priceMax: number | null
@@ -27,11 +28,11 @@ export interface RacerBand {
 
 const BAND_KEY = 'torquewright.band'
 const NUMBERS = ['ciMin', 'ciMax', 'hpTarget', 'hpTolerance', 'priceMax'] as const
-const LISTS = { aspiration: SEARCH_ASPIRATIONS, fuel: SEARCH_FUELS, use: SEARCH_USES, family: null } as const
+const LISTS = { aspiration: SEARCH_ASPIRATIONS, fuel: SEARCH_FUELS, use: SEARCH_USES, family: null, region: null } as const
 
 const blank = (): SearchFilters => ({
   q: '', ciMin: null, ciMax: null, hpTarget: null, hpTolerance: null,
-  aspiration: [], fuel: [], family: [], use: [], verified: false, priceMax: null, sort: '', page: 1,
+  aspiration: [], fuel: [], family: [], region: [], use: [], verified: false, priceMax: null, sort: '', page: 1,
 })
 
 type QueryValue = LocationQuery[string] | undefined
@@ -122,7 +123,7 @@ export const useSearchStore = defineStore('search', () => {
   }
 
   /** Adds or removes one value of a repeatable filter. */
-  function toggle(key: 'aspiration' | 'fuel' | 'family' | 'use', value: string): void {
+  function toggle(key: 'aspiration' | 'fuel' | 'family' | 'region' | 'use', value: string): void {
     const list = filters[key]
     update({ [key]: list.includes(value) ? list.filter(v => v !== value) : [...list, value] })
   }

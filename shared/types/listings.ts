@@ -145,3 +145,11 @@ export interface BuildCurves {
   pulls: CurvePull[]
   comparisons: CurveComparison[]
 }
+
+/** One build on the compare page: its combination and price, its headline pull, and its average power across the racer's band. */
+export interface CompareRow {
+  build: Omit<BuildDetail, 'parts' | 'pulls' | 'photos'>
+  pull: CurvePull | null
+  /** Average power in hp across the band under the chosen standard; null without a band or when the pull does not cover it. */
+  bandAvgHp: number | null
+}

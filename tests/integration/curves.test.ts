@@ -3,7 +3,7 @@ import { resolve } from 'node:path'
 import { createHash } from 'node:crypto'
 import { and, eq, isNotNull, ne } from 'drizzle-orm'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { convertCurve, deltaCurve, parsePull, peaks, type CorrectionStandard } from '../../shared/engine'
+import { averagePower, convertCurve, deltaCurve, parsePull, peaks, type CorrectionStandard } from '../../shared/engine'
 import { loadConfig } from '../../scripts/lib/config'
 import { makeCurve, pullCsv } from '../../scripts/lib/demo-data'
 import { seededRandom } from '../../scripts/lib/random'
@@ -189,6 +189,38 @@ describe('GET /api/compare', () => {
     expect(res.status).toBe(200)
     expect(res.body.builds.map((b: { build: { slug: string } }) => b.build.slug)).toEqual(slugs)
     for (const b of res.body.builds) expect(b.pull.standard).toBe('SAE_J607')
+  })
+
+  it('gives each build its headline pull, price, combination and average power across the racer\'s band', async () => {
+    const rows = await ctx.db.selectDistinct({ id: schema.builds.id, slug: schema.builds.slug }).from(schema.builds)
+      .innerJoin(schema.dynoPulls, eq(schema.dynoPulls.buildId, schema.builds.id))
+      .where(eq(schema.builds.status, 'published')).orderBy(schema.builds.id).limit(2)
+    const slugs = rows.map(r => r.slug)
+    const res = await api(`/api/compare?builds=${slugs.join(',')}&bandFrom=4000&bandTo=6000`)
+    expect(res.status).toBe(200)
+    expect(res.body.band).toEqual({ from: 4000, to: 6000 })
+    for (const row of res.body.builds) {
+      const curves = await api(`/api/builds/${row.build.slug}/curves`)
+      expect(row.pull.id).toBe(curves.body.headlineId)
+      expect(typeof row.build.priceCents).toBe('number')
+      expect(typeof row.build.boreIn).toBe('number')
+      expect(typeof row.build.cylinderHeads).toBe('string')
+      // The band average is the engine module's trapezoid average over the same curve (shared/engine averagePower).
+      const expected = averagePower(row.pull.points, 4000, 6000)
+      expect(row.bandAvgHp).toBeCloseTo(expected, 1)
+    }
+    const onePull = await api(`/api/compare?builds=${slugs[0]}&bandFrom=1000&bandTo=12000`)
+    expect(onePull.body.builds[0].bandAvgHp).toBeNull()
+  })
+
+  it.each([
+    ['builds=a&bandFrom=4000', 'needs both'],
+    ['builds=a&bandFrom=5000&bandTo=5050', 'at least 100 rpm'],
+    ['builds=a&bandFrom=300&bandTo=5000', 'between 1,000 and 12,000'],
+  ])('refuses a bad band %s with a 400', async (query, words) => {
+    const res = await api(`/api/compare?${query}`)
+    expect(res.status).toBe(400)
+    expect(res.body.message).toContain(words)
   })
 
   it.each([

@@ -30,12 +30,13 @@ describe('filter-only queries against a brute-force filter and sort', () => {
     expect(result.facets.aspiration).toEqual(facets.aspiration)
     expect(result.facets.fuel).toEqual(facets.fuel)
     for (const [family, n] of Object.entries(result.facets.family)) expect(n).toBe(facets.family.get(family) ?? 0)
+    for (const [region, n] of Object.entries(result.facets.region)) expect(n).toBe(facets.region.get(region) ?? 0)
   })
 
   it('answers facet counts that each add up to the total', () => {
     for (const q of queries) {
       const { total, facets } = index.query(q)
-      for (const counts of [facets.aspiration, facets.fuel, facets.family]) {
+      for (const counts of [facets.aspiration, facets.fuel, facets.family, facets.region]) {
         expect(Object.values(counts).reduce((a, b) => a + b, 0)).toBe(total)
       }
     }
@@ -44,6 +45,13 @@ describe('filter-only queries against a brute-force filter and sort', () => {
   it('lists every family in the index among the facets, with 0 for those filtered out', () => {
     const { facets } = index.query({ aspiration: ['na'], family: [docs[0]!.family] })
     expect(Object.keys(facets.family).sort()).toEqual([...new Set(docs.map(d => d.family))].sort())
+  })
+
+  it('lists every region too, counting the builds of each among the matches', () => {
+    const { facets, total } = index.query({ region: [docs[0]!.region] })
+    expect(Object.keys(facets.region).sort()).toEqual([...new Set(docs.map(d => d.region))].sort())
+    expect(facets.region[docs[0]!.region]).toBe(total)
+    expect(total).toBe(docs.filter(d => d.region === docs[0]!.region).length)
   })
 
   it('treats repeated values as OR within a field and fields as AND', () => {

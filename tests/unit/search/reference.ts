@@ -57,12 +57,16 @@ export function referenceSort(docs: SearchDocument[], q: SearchQuery): SearchDoc
   return [...docs].map(d => ({ d, k: key(d) })).sort((a, b) => (a.k < b.k ? -1 : a.k > b.k ? 1 : a.d.id - b.d.id)).map(x => x.d)
 }
 
-export function referenceFacets(docs: SearchDocument[]): Pick<SearchFacets, 'aspiration' | 'fuel'> & { family: Map<string, number> } {
+export function referenceFacets(docs: SearchDocument[]): Pick<SearchFacets, 'aspiration' | 'fuel'> & { family: Map<string, number>, region: Map<string, number> } {
   const aspiration = Object.fromEntries(ASPIRATIONS.map(a => [a, docs.filter(d => d.aspiration === a).length]))
   const fuel = Object.fromEntries(FUELS.map(f => [f, docs.filter(d => d.fuel === f).length]))
   const family = new Map<string, number>()
-  for (const d of docs) family.set(d.family, (family.get(d.family) ?? 0) + 1)
-  return { aspiration, fuel, family }
+  const region = new Map<string, number>()
+  for (const d of docs) {
+    family.set(d.family, (family.get(d.family) ?? 0) + 1)
+    region.set(d.region, (region.get(d.region) ?? 0) + 1)
+  }
+  return { aspiration, fuel, family, region }
 }
 
 /** A fixed, seeded set of filter-only queries over the documents' own values. */
