@@ -12,5 +12,8 @@ export const FORMULA_START = /^[=+\-@\t\r]/
 /** Rows as CSV text, one `\n`-ended line per row: control characters in text cells become spaces, formula-like text is neutralised. */
 export function toCsv(rows: readonly (readonly CsvCell[])[]): string {
   const safe = rows.map(row => row.map(cell => (typeof cell === 'number' ? cell : singleLine(cell))))
-  return `${Papa.unparse(safe, { newline: '\n', escapeFormulae: FORMULA_START, quotes: false })}\n`
+  const text = Papa.unparse(safe, { newline: '\n', escapeFormulae: FORMULA_START, quotes: false })
+  // Cells are single-line, so each row is one line; a row of one empty cell would be an empty line,
+  // which readers skip, so it is written as one quoted empty field (RFC 4180 §2.5).
+  return `${text.split('\n').map(line => (line === '' ? '""' : line)).join('\n')}\n`
 }

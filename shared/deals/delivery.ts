@@ -5,10 +5,11 @@
  * its peak power under the quoted standard must reach the guaranteed figure less the tolerance.
  */
 import { convertCurve, isCorrectionStandard } from '../engine/correction'
-import { peaks } from '../engine/curves'
+import { peaks, torqueAt } from '../engine/curves'
 import { checkEvidence } from '../engine/evidence'
 import { displacementCi } from '../engine/geometry'
 import type { Aspiration, CorrectionStandard, EvidenceCheck, ParseColumns, PullPoint, Weather } from '../engine/types'
+import { displayCurve } from '../listings/display-curve'
 
 export interface Guarantee {
   hp: number
@@ -41,6 +42,8 @@ export interface DeliveryEvaluation {
   targetHp: number | null
   minimumHp: number | null
   checks: Pick<EvidenceCheck, 'id' | 'outcome' | 'message'>[]
+  /** The curve under the quoted standard, on at most DISPLAY_MAX_POINTS points, for the order page's chart. */
+  curve: { rpm: number, hp: number, lbFt: number }[]
   /** Why the pull is not verified, in words the shop can act on; empty when it is. */
   reasons: string[]
   status: 'verified' | 'rejected'
@@ -69,10 +72,12 @@ export function evaluateDelivery(input: DeliveryInput): DeliveryEvaluation {
   const target: CorrectionStandard = input.guarantee && isCorrectionStandard(input.guarantee.standard) ? input.guarantee.standard : input.declaredStandard
   let peak = { peakHp: 0, peakHpRpm: 0, peakTq: 0, peakTqRpm: 0 }
   let uncorrected = true
+  let curve: DeliveryEvaluation['curve'] = []
   try {
     const converted = convertCurve(input.points, { standard: input.declaredStandard, weather: input.weather }, { standard: target, weather: input.weather })
     peak = peaks(converted.points)
     uncorrected = converted.uncorrected
+    curve = displayCurve(converted.points).map(p => ({ rpm: p.rpm, hp: one(p.hp), lbFt: one(torqueAt(p)) }))
   }
   catch (error) {
     reasons.push(`The curve could not be put under ${target}: ${error instanceof Error ? error.message : String(error)}.`)
@@ -90,6 +95,7 @@ export function evaluateDelivery(input: DeliveryInput): DeliveryEvaluation {
     targetHp: input.guarantee?.hp ?? null,
     minimumHp: minimum === null ? null : one(minimum),
     checks: checks.map(c => ({ id: c.id, outcome: c.outcome, message: c.message })),
+    curve,
     reasons,
     status,
     meetsTarget: status === 'verified' && (minimum === null || peak.peakHp >= minimum),

@@ -120,6 +120,8 @@ export interface DeliveryPullView {
     targetHp: number | null
     minimumHp: number | null
     checks: { id: string, outcome: 'pass' | 'warn' | 'fail', message: string }[]
+    /** The pull under the quoted standard, for a chart; absent on pulls recorded before curves were kept. */
+    curve?: { rpm: number, hp: number, lbFt: number }[]
     reasons: string[]
   }
   createdAt: string

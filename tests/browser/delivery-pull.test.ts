@@ -56,6 +56,8 @@ describe('a delivery pull in Chromium', () => {
     const title = await form.locator('[data-test="delivery-report"] p').first().innerText()
     expect(title).toMatch(/^Delivery pull: /)
     expect(title).not.toContain('the delivery pull')
+    // Its curve under the quoted standard is drawn beside the report.
+    await form.locator('[data-test="delivery-curve"] canvas').waitFor()
     // The order page polls: after its next refresh, with the pull now on the milestone, the report is still shown once.
     await page.waitForResponse(r => r.url().includes(`/api/orders/${orderId}`) && r.status() === 200)
     await page.waitForLoadState('networkidle')
@@ -63,6 +65,7 @@ describe('a delivery pull in Chromium', () => {
 
     await page.reload({ waitUntil: 'networkidle' })
     expect(await page.locator('[data-test="delivery-report"]').count()).toBe(1)
+    await page.locator('[data-test="delivery-curve"] canvas').waitFor()
     // The history names the standard in words, not by its stored code.
     const history = await page.locator('[data-test="order-history"]').innerText()
     expect(history).toContain('Delivery pull checked')

@@ -47,7 +47,9 @@ const approve = (pullId: number) => call(admin, 'POST', `/api/admin/evidence/${p
 /** The build's announcements to the given searches (other files' and tests' searches may match it too). */
 const announcementsFor = (buildId: number, searchIds: number[]) => ctx.db.select().from(schema.savedSearchAnnouncements)
   .where(and(eq(schema.savedSearchAnnouncements.buildId, buildId), inArray(schema.savedSearchAnnouncements.savedSearchId, searchIds)))
-const outboxTo = async (email: string) => ctx.db.select().from(schema.mailOutbox).where(eq(schema.mailOutbox.toAddress, email))
+// Saved-search announcements only: a shop is also e-mailed when its own pull is verified (pull-verified:…).
+const outboxTo = async (email: string) => (await ctx.db.select().from(schema.mailOutbox).where(eq(schema.mailOutbox.toAddress, email)))
+  .filter(m => m.dedupeKey?.startsWith('saved-search:'))
 
 describe('saving, listing, changing and deleting a search', () => {
   it('saves the filters as the search schema reads them, counts the matches as GET /api/search does, renames, switches e-mail and deletes', async () => {

@@ -28,6 +28,11 @@ describe('toCsv (OWASP "CSV Injection": prefix formula-like text with an apostro
     expect(Papa.parse<string[]>(text.trimEnd(), { delimiter: ',' }).data).toEqual([['# pull, =1+1']])
   })
 
+  it('keeps a row of one empty cell as a row (a quoted empty field, RFC 4180 §2.5), not an empty line readers skip', () => {
+    expect(toCsv([['a'], [''], ['b']])).toBe('a\n""\nb\n')
+    expect(Papa.parse<string[]>(toCsv([['']]).slice(0, -1)).data).toEqual([['']])
+  })
+
   it('reads back as the same rows for any text, with no cell that begins a formula', () => {
     fc.assert(fc.property(fc.array(fc.array(fc.oneof(fc.string(), fc.integer()), { minLength: 1, maxLength: 4 }), { minLength: 1, maxLength: 5 }), (rows) => {
       const parsed = Papa.parse<string[]>(toCsv(rows).slice(0, -1), { delimiter: ',' }).data

@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest'
 import { curveFingerprint } from '../../shared/engine/fingerprint'
 import { evaluateDelivery, minimumPower, type DeliveryInput } from '../../shared/deals/delivery'
 import { blockingMilestone, SETTLED_MILESTONE_STATES } from '../../shared/deals/constants'
+import { DISPLAY_MAX_POINTS } from '../../shared/listings/display-curve'
 import { inventedPull } from './engine/helpers'
 
 // An invented delivery: 4.125 × 4.000 in, eight cylinders (427.6 ci), torque peaking at 560 lb·ft.
@@ -91,5 +92,18 @@ describe('milestones are done in order', () => {
   it('lets it through once every earlier one is approved, released, refunded or cancelled', () => {
     for (const state of SETTLED_MILESTONE_STATES) expect(blockingMilestone([m(1, state), m(2, 'released'), m(3, 'funded')], 3)).toBeNull()
     expect(blockingMilestone([m(1, 'funded')], 1)).toBeNull()
+  })
+})
+
+describe('the delivery pull on the order page', () => {
+  it('carries its curve under the quoted standard, bounded for the chart, whose peak is the report\'s', () => {
+    const report = evaluateDelivery(base)
+    expect(report.curve.length).toBeGreaterThan(10)
+    expect(report.curve.length).toBeLessThanOrEqual(DISPLAY_MAX_POINTS)
+    let top = report.curve[0]!
+    for (const p of report.curve) if (p.hp > top.hp) top = p
+    expect(top.hp).toBeCloseTo(report.peakHp, 0)
+    // hp = lb·ft × rpm / 5252.113 (33,000 ft·lbf/min per hp ÷ 2π, NIST SP 811), to the stored tenth.
+    for (const p of report.curve) expect(p.hp).toBeCloseTo((p.lbFt * p.rpm) / 5252.113, 0)
   })
 })
