@@ -17,8 +17,9 @@ export const dealEventWords = (action: string): string => DEAL_EVENT_WORDS[actio
 export const EMAIL_GROUPS = ['requests', 'messages', 'quotes', 'payments', 'milestones'] as const
 export type EmailGroup = typeof EMAIL_GROUPS[number]
 
-export const EMAIL_GROUP_LABELS: Record<EmailGroup, { label: string, hint: string }> = {
-  requests: { label: 'New requests', hint: 'A racer asks your shop for a quote.' },
+/** What each switch says; `shopsOnly` for mail only a shop receives (a racer is never sent it). */
+export const EMAIL_GROUP_LABELS: Record<EmailGroup, { label: string, hint: string, shopsOnly?: true }> = {
+  requests: { label: 'New requests', hint: 'A racer asks your shop for a quote.', shopsOnly: true },
   messages: { label: 'Messages', hint: 'The other side writes in a deal’s thread.' },
   quotes: { label: 'Quotes', hint: 'A quote is sent to you, or yours is accepted.' },
   payments: { label: 'Deposits and payouts', hint: 'A milestone’s deposit is paid, or a payout goes to the shop.' },
