@@ -582,3 +582,17 @@ export const savedSearchAnnouncements = mysqlTable('saved_search_announcements',
 ])
 
 export type SavedSearch = typeof savedSearches.$inferSelect
+
+/**
+ * A person's notification state: how far they have read the deal events of their deals (an event id,
+ * never moved back) and the groups of deal e-mail they switched off (keys of shared/deals/notifications.ts).
+ * No row means nothing read and every e-mail on.
+ */
+export const notificationSettings = mysqlTable('notification_settings', {
+  userId: ref('user_id').primaryKey().references(() => users.id, { onDelete: 'cascade' }),
+  readUpToEventId: ref('read_up_to_event_id').notNull().default(0),
+  emailOff: json('email_off').$type<string[]>().notNull(),
+  updatedAt: updatedAt(),
+})
+
+export type NotificationSettings = typeof notificationSettings.$inferSelect

@@ -7,6 +7,7 @@ import type { Database } from '../database/types'
 import { retryOnLockConflict } from '../utils/transaction'
 import type { Executor } from './deal-context'
 import { renderDealMail, type DealMail, type RenderedMail } from './mail-templates'
+import { mailSwitchedOff } from './notifications'
 
 /** After this many failed attempts a mail stays in the table with its last error, for a person to look at. */
 export const MAX_ATTEMPTS = 12
@@ -41,8 +42,12 @@ export function outboxMessageId(mail: Pick<OutboxMail, 'id' | 'dedupeKey' | 'toA
   return `<outbox-${mail.id}.${hash}@${host}>`
 }
 
-/** Queues one deal e-mail; a repeated dedupe key (the same event reported twice) queues nothing. */
+/**
+ * Queues one deal e-mail; a repeated dedupe key (the same event reported twice) queues nothing, and
+ * neither does a kind of mail the recipient has switched off on their notifications page.
+ */
 export async function enqueueMail(tx: Executor, to: string, mail: DealMail, dedupeKey: string | null = null): Promise<void> {
+  if (!to || await mailSwitchedOff(tx, to, mail.kind)) return
   await enqueueRendered(tx, to, renderDealMail(mail), dedupeKey)
 }
 

@@ -83,6 +83,7 @@ describe('pages under the CSP in Chromium', () => {
     await page.click('[data-test="message-send"]')
     await expect.poll(() => page.locator('[data-test="message-body"]').allInnerTexts()).toContain(text)
     await visit(`/deals/orders/${orderId}`, '[data-test="milestone"]')
+    await visit('/notifications', '[data-test="notification"]')
     expect(problems).toEqual([])
   })
 

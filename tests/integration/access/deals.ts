@@ -33,6 +33,11 @@ export default defineAccess([
   { method: 'POST', path: '/api/milestones/1/approve', expect: dealOne(403, 403) },
   { method: 'POST', path: '/api/milestones/1/dispute', body: {}, expect: dealOne(403, 403) },
   { method: 'GET', path: '/api/messages/unread', expect: signedIn(200) },
+  // The caller's own notifications: every signed-in role reads its own list (an admin's is empty); writes stop at validation.
+  { method: 'GET', path: '/api/me/notifications', expect: signedIn(200) },
+  { method: 'GET', path: '/api/me/notifications?perPage=0', expect: signedIn(400) },
+  { method: 'POST', path: '/api/me/notifications/read', body: {}, expect: signedIn(400) },
+  { method: 'PATCH', path: '/api/me/notifications/settings', body: {}, expect: signedIn(400) },
   { method: 'POST', path: '/api/attachments', expect: signedIn(400) },
   { method: 'GET', path: '/api/attachments/999999', expect: signedIn(404) },
   { method: 'POST', path: '/api/webhooks/stripe', body: {}, publicWrite: 'the payment service calls it; the signature over the raw body is the guard', expect: { anonymous: 400, racer: 400, builder: 400, admin: 400 } },
