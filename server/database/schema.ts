@@ -7,6 +7,7 @@ import type { EvidenceCheck } from '../../shared/engine/types'
 import { MILESTONE_STATES, TRANSMISSIONS } from '../../shared/deals/constants'
 import type { PullSummaryFigures } from '../../shared/pulls/summary'
 import type { SearchFilterParams } from '../../shared/schemas/search'
+import type { QuoteAlternative } from '../../shared/schemas/deals'
 
 /** Shared column shapes, so every table spells them once. */
 const id = () => bigint('id', { mode: 'number', unsigned: true }).autoincrement().primaryKey()
@@ -347,6 +348,8 @@ export const quoteRevisions = mysqlTable('quote_revisions', {
   guaranteeHp: figure('guarantee_hp'),
   guaranteeTolerancePct: decimal('guarantee_tolerance_pct', { precision: 4, scale: 1, mode: 'number' }),
   guaranteeStandard: varchar('guarantee_standard', { length: 20 }),
+  /** Another combination offered beside the line items, as validated by alternativeSchema; its displacement is computed when shown. */
+  alternative: json('alternative').$type<QuoteAlternative>(),
   createdAt: createdAt(),
 }, t => [uniqueIndex('quote_revisions_unique').on(t.quoteId, t.revision)])
 

@@ -1,5 +1,6 @@
 /** The shapes the deal routes answer with, used by the pages. */
 import type { MilestoneStateName } from '../deals/constants'
+import type { QuoteAlternative } from '../schemas/deals'
 
 export type DealSide = 'racer' | 'builder' | 'admin'
 
@@ -50,7 +51,15 @@ export interface QuoteRevisionView {
   createdAt: string
   lineItems: QuoteLineView[]
   milestones: QuoteMilestoneView[]
+  /** Another combination offered beside the line items, with its displacement computed by shared/engine. */
+  alternative: AlternativeView | null
 }
+
+export interface AlternativeView extends QuoteAlternative {
+  /** displacementCi(bore, stroke, cylinders), never typed by the shop. */
+  displacementCi: number
+}
+
 
 export interface QuoteView {
   id: number
