@@ -141,6 +141,24 @@ export const declineQuoteSchema = z.object({
   reason: text(1000, 'The reason').default(''),
 })
 
+/**
+ * A change order after a refunded milestone: the milestones that replace the ones still awaiting
+ * payment, adding up to the stated total to the cent, with optional line items that total the same.
+ * The sums are the service's 422 (money that does not add up), not a 400.
+ */
+export const changeOrderSchema = z.object({
+  totalCents: centsSchema.min(DEAL_LIMITS.minMilestoneCents, 'The rest of the order is at least $1.00'),
+  milestones: z.array(quoteMilestoneSchema).min(1, 'A change order has at least one milestone').max(DEAL_LIMITS.milestones, `At most ${DEAL_LIMITS.milestones} milestones`),
+  lineItems: z.array(lineItemSchema).max(DEAL_LIMITS.lineItems, `At most ${DEAL_LIMITS.lineItems} line items`).default([]),
+  notes: text(DEAL_LIMITS.notesChars, 'The notes').default(''),
+})
+export type ChangeOrderInput = z.infer<typeof changeOrderSchema>
+
+export const changeOrderParams = z.object({
+  id: idSchema,
+  changeId: idSchema,
+})
+
 export const submitMilestoneSchema = z.object({
   notes: required(DEAL_LIMITS.notesChars, 'A note on what was done'),
   proofFileIds: fileIds,

@@ -60,6 +60,20 @@ export interface AlternativeView extends QuoteAlternative {
   displacementCi: number
 }
 
+/** A change order as its parties see it: the milestones that replace the ones still awaiting payment. */
+export interface ChangeOrderView {
+  id: number
+  status: 'open' | 'accepted' | 'declined'
+  totalCents: number
+  /** What the milestones it would replace (those awaiting payment) add up to now; null once answered. */
+  replacedCents: number | null
+  milestones: QuoteMilestoneView[]
+  lineItems: QuoteLineView[]
+  notes: string
+  declineReason: string | null
+  createdAt: string
+  answeredAt: string | null
+}
 
 export interface QuoteView {
   id: number
@@ -193,6 +207,10 @@ export interface OrderView {
   paidCents: number
   releasedCents: number
   refundedCents: number
+  /** The open change order, or the last answered one; null when none was sent. */
+  changeOrder: ChangeOrderView | null
+  /** True when the shop may send a change order now: a refunded milestone, an active order and none open. */
+  changeOrderAllowed: boolean
 }
 
 export interface DashboardRequestRow {
