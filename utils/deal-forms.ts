@@ -38,6 +38,29 @@ export function issuesByField(issues: { path: PropertyKey[], message: string }[]
 export interface LineDraft { category: string, description: string, partNumber: string, quantity: string, unitPrice: string }
 export interface MilestoneDraft { title: string, deliverable: string, amount: string, dueDate: string, percent: string }
 export interface GuaranteeDraft { enabled: boolean, hp: string, tolerancePct: string, standard: string }
+export interface AlternativeDraft {
+  enabled: boolean
+  boreIn: string
+  strokeIn: string
+  cylinders: string
+  cylinderHeads: string
+  camIntakeDurationDeg: string
+  camExhaustDurationDeg: string
+  camLobeSeparationDeg: string
+  camshaft: string
+  note: string
+}
+
+/** The alternative combination's body (numbers as typed; zod says what is wrong), or null when it is not offered. */
+export function alternativeBody(draft: AlternativeDraft) {
+  if (!draft.enabled) return null
+  const n = (s: string) => (s.trim() === '' ? Number.NaN : Number(s.replace(/,/g, '')))
+  return {
+    boreIn: n(draft.boreIn), strokeIn: n(draft.strokeIn), cylinders: n(draft.cylinders), cylinderHeads: draft.cylinderHeads,
+    camIntakeDurationDeg: n(draft.camIntakeDurationDeg), camExhaustDurationDeg: n(draft.camExhaustDurationDeg),
+    camLobeSeparationDeg: n(draft.camLobeSeparationDeg), camshaft: draft.camshaft, note: draft.note,
+  }
+}
 
 /** Cents of a typed amount, or null while it does not read as one. */
 export function draftCents(text: string): number | null {
@@ -53,7 +76,7 @@ export function draftLineTotal(line: LineDraft): number | null {
 }
 
 /** The body for POST /api/requests/:id/quote, or the first thing a person must fix. */
-export function quoteBody(lines: LineDraft[], milestones: MilestoneDraft[], guarantee: GuaranteeDraft, validUntil: string, notes: string) {
+export function quoteBody(lines: LineDraft[], milestones: MilestoneDraft[], guarantee: GuaranteeDraft, validUntil: string, notes: string, alternative?: AlternativeDraft) {
   const errors: Record<string, string> = {}
   const lineItems = lines.map((l, i) => {
     const unit = draftCents(l.unitPrice)
@@ -68,6 +91,7 @@ export function quoteBody(lines: LineDraft[], milestones: MilestoneDraft[], guar
   const body = {
     lineItems, milestones: plan, validUntil, notes,
     guarantee: guarantee.enabled ? { hp: Number(guarantee.hp), tolerancePct: Number(guarantee.tolerancePct), standard: guarantee.standard } : null,
+    alternative: alternative ? alternativeBody(alternative) : null,
   }
   return { body, errors }
 }

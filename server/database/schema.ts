@@ -7,6 +7,7 @@ import type { EvidenceCheck } from '../../shared/engine/types'
 import { MILESTONE_STATES, TRANSMISSIONS } from '../../shared/deals/constants'
 import type { PullSummaryFigures } from '../../shared/pulls/summary'
 import type { SearchFilterParams } from '../../shared/schemas/search'
+import type { ChangeOrderInput, QuoteAlternative } from '../../shared/schemas/deals'
 
 /** Shared column shapes, so every table spells them once. */
 const id = () => bigint('id', { mode: 'number', unsigned: true }).autoincrement().primaryKey()
@@ -347,6 +348,8 @@ export const quoteRevisions = mysqlTable('quote_revisions', {
   guaranteeHp: figure('guarantee_hp'),
   guaranteeTolerancePct: decimal('guarantee_tolerance_pct', { precision: 4, scale: 1, mode: 'number' }),
   guaranteeStandard: varchar('guarantee_standard', { length: 20 }),
+  /** Another combination offered beside the line items, as validated by alternativeSchema; its displacement is computed when shown. */
+  alternative: json('alternative').$type<QuoteAlternative>(),
   createdAt: createdAt(),
 }, t => [uniqueIndex('quote_revisions_unique').on(t.quoteId, t.revision)])
 
@@ -423,6 +426,27 @@ export const milestones = mysqlTable('milestones', {
   uniqueIndex('milestones_position_unique').on(t.orderId, t.position),
   index('milestones_state_idx').on(t.state, t.submittedAt),
 ])
+
+export const changeOrderStatuses = ['open', 'accepted', 'declined'] as const
+
+/**
+ * A shop's revised plan for the rest of an order after a refunded milestone: the milestones (and
+ * optional line items) that replace the ones still awaiting payment once the racer accepts. One
+ * open change order per order, checked under the order's row lock.
+ */
+export const changeOrders = mysqlTable('change_orders', {
+  id: id(),
+  orderId: ref('order_id').notNull().references(() => orders.id),
+  status: mysqlEnum('status', changeOrderStatuses).notNull().default('open'),
+  totalCents: cents('total_cents').notNull(),
+  milestones: json('milestones').$type<ChangeOrderInput['milestones']>().notNull(),
+  lineItems: json('line_items').$type<ChangeOrderInput['lineItems']>().notNull(),
+  notes: text('notes').notNull(),
+  declineReason: text('decline_reason'),
+  createdBy: ref('created_by').notNull().references(() => users.id),
+  answeredAt: at('answered_at'),
+  createdAt: createdAt(),
+}, t => [index('change_orders_order_idx').on(t.orderId, t.status)])
 
 /** Photos and files a builder sends as proof with a submitted milestone. */
 export const milestoneProofs = mysqlTable('milestone_proofs', {
@@ -548,6 +572,7 @@ export type QuoteLineItem = typeof quoteLineItems.$inferSelect
 export type QuoteMilestone = typeof quoteMilestones.$inferSelect
 export type Order = typeof orders.$inferSelect
 export type Milestone = typeof milestones.$inferSelect
+export type ChangeOrder = typeof changeOrders.$inferSelect
 export type MilestoneState = Milestone['state']
 export type Payment = typeof payments.$inferSelect
 export type DeliveryPull = typeof deliveryPulls.$inferSelect

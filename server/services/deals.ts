@@ -1,5 +1,6 @@
 // Quote requests, quotes with their revisions, acceptance into an order, and the views of both.
 import { and, asc, desc, eq, inArray, isNull } from 'drizzle-orm'
+import { alternativeView } from '../../shared/deals/alternative'
 import { MoneyError, apportion, feeCents, formatCents, lineTotalCents, sumCents } from '../../shared/money'
 import { QUOTE_LIMIT_MESSAGE, quoteLimitIssue, type QuoteInput, type QuoteRequestInput } from '../../shared/schemas/deals'
 import type {
@@ -123,7 +124,7 @@ export async function sendQuote(ctx: DealContext, actor: DealActor, requestId: n
     const [rev] = await tx.insert(quoteRevisions).values({
       quoteId, revision, totalCents: total, platformFeeBp: ctx.config.platformFeeBps, platformFeeCents: fee, validUntil: input.validUntil,
       notes: input.notes, guaranteeHp: input.guarantee?.hp ?? null, guaranteeTolerancePct: input.guarantee?.tolerancePct ?? null,
-      guaranteeStandard: input.guarantee?.standard ?? null, createdAt: now,
+      guaranteeStandard: input.guarantee?.standard ?? null, alternative: input.alternative ?? null, createdAt: now,
     }).$returningId()
     const revisionId = rev!.id
     await tx.insert(quoteLineItems).values(input.lineItems.map((l, position) => ({ revisionId, position, ...l })))
@@ -222,6 +223,7 @@ async function revisionViews(db: Executor, quoteId: number): Promise<QuoteRevisi
       unitPriceCents: l.unitPriceCents, lineTotalCents: l.unitPriceCents * l.quantity,
     })),
     milestones: plan.filter(m => m.revisionId === r.id).map(m => ({ position: m.position, title: m.title, deliverable: m.deliverable, amountCents: m.amountCents, dueDate: m.dueDate })),
+    alternative: r.alternative ? alternativeView(r.alternative) : null,
   }))
 }
 

@@ -17,6 +17,8 @@ export type DealMail
     | { kind: 'milestone_approved', recipientName: string, milestone: string, automatic: boolean, link: string }
     | { kind: 'milestone_released', shopName: string, milestone: string, payoutCents: number, feeCents: number, link: string }
     | { kind: 'milestone_refunded', recipientName: string, milestone: string, amountCents: number, reason: string, link: string }
+    | { kind: 'change_order_sent', racerName: string, shopName: string, title: string, totalCents: number, milestones: number, link: string }
+    | { kind: 'change_order_answered', shopName: string, racerName: string, title: string, totalCents: number, accepted: boolean, link: string }
     | { kind: 'dispute_settled', recipientName: string, side: 'racer' | 'builder', shopName: string, title: string, milestone: string, outcome: 'refund' | 'release', amountCents: number, note: string, link: string }
 
 // The tokens of tailwind.config.ts (ink, paper, copper), written out because e-mail has no stylesheet.
@@ -122,6 +124,19 @@ export function renderDealMail(mail: DealMail): RenderedMail {
         settledOutcome(mail),
         `The note from Torquewright: "${mail.note}"`,
         'The decision is final for this milestone. The rest of the order carries on as agreed; write in the deal\'s thread if something between you is still open.',
+      ], { label: 'Open the order', link: mail.link }) }
+    case 'change_order_sent':
+      return { subject: `Change order: ${mail.title}`, ...layout([
+        `Hello ${mail.racerName},`,
+        `${mail.shopName} proposes a new plan for the rest of "${mail.title}": ${formatCents(mail.totalCents)} in ${mail.milestones} milestone${mail.milestones === 1 ? '' : 's'}, in place of the milestones still waiting for a deposit.`,
+        'Nothing you have paid changes. Accept or decline it on the order page.',
+      ], { label: 'Review the change order', link: mail.link }) }
+    case 'change_order_answered':
+      return { subject: `Change order ${mail.accepted ? 'accepted' : 'declined'}: ${mail.title}`, ...layout([
+        `Hello ${mail.shopName},`,
+        mail.accepted
+          ? `${mail.racerName} accepted your change order of ${formatCents(mail.totalCents)} for "${mail.title}". Its milestones now stand in place of the unpaid ones.`
+          : `${mail.racerName} declined your change order of ${formatCents(mail.totalCents)} for "${mail.title}". The order stays as it was.`,
       ], { label: 'Open the order', link: mail.link }) }
   }
 }

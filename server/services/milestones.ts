@@ -20,6 +20,7 @@ import {
   type DealActor, type DealContext, type DbTransaction, conflict, forbidden, notFound, partiesOf, paymentServiceError, recordDealEvent,
   unprocessable,
 } from './deal-context'
+import { changeOrderOf } from './change-orders'
 import { claimFiles } from './deal-files'
 import { postEvent } from './deals'
 import { writeAudit } from './audit'
@@ -326,6 +327,7 @@ export async function getOrderView(ctx: DealContext, actor: DealActor, orderId: 
   })
   const sum = (kind: string) => pays.filter(p => p.kind === kind && p.status === 'succeeded').reduce((a, p) => a + p.amountCents, 0)
   const r = rev[0]
+  const change = await changeOrderOf(ctx.db, order, list)
   return {
     id: order.id, side, status: order.status, requestId: order.requestId, title: row.request.title,
     racer: { id: order.racerId, name: row.racerName },
@@ -338,5 +340,7 @@ export async function getOrderView(ctx: DealContext, actor: DealActor, orderId: 
     events: events.map(({ e, actorName }) => ({ id: e.id, action: e.action, detail: e.detail, actorName, milestoneId: e.milestoneId, createdAt: e.createdAt.toISOString() })),
     documents: views.flatMap(v => v.proofs),
     paidCents: sum('checkout'), releasedCents: sum('transfer'), refundedCents: sum('refund'),
+    changeOrder: change.changeOrder,
+    changeOrderAllowed: side === 'builder' && change.changeOrderAllowed,
   }
 }

@@ -19,6 +19,9 @@ export const MAIL_GROUP: Record<DealMail['kind'], EmailGroup | null> = {
   new_message: 'messages',
   quote_sent: 'quotes',
   quote_accepted: 'quotes',
+  // A change order is a revised quote for the rest of an order.
+  change_order_sent: 'quotes',
+  change_order_answered: 'quotes',
   milestone_funded: 'payments',
   milestone_released: 'payments',
   milestone_submitted: 'milestones',

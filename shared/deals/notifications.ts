@@ -8,6 +8,7 @@ export const DEAL_EVENT_WORDS: Record<string, string> = {
   milestone_auto_approved: 'Approved on its own', milestone_released: 'Paid out to the shop', milestone_disputed: 'Disputed',
   dispute_settled: 'Dispute settled', milestone_refunded: 'Refunded', payment_refunded: 'Late payment refunded',
   order_cancelled: 'Order cancelled', order_completed: 'Order completed', delivery_pull: 'Delivery pull checked',
+  change_order_sent: 'Change order sent', change_order_accepted: 'Change order accepted', change_order_declined: 'Change order declined',
 }
 
 /** An event's words; an action without words shows as stored rather than vanish. */
@@ -21,7 +22,7 @@ export type EmailGroup = typeof EMAIL_GROUPS[number]
 export const EMAIL_GROUP_LABELS: Record<EmailGroup, { label: string, hint: string, shopsOnly?: true }> = {
   requests: { label: 'New requests', hint: 'A racer asks your shop for a quote.', shopsOnly: true },
   messages: { label: 'Messages', hint: 'The other side writes in a deal’s thread.' },
-  quotes: { label: 'Quotes', hint: 'A quote is sent to you, or yours is accepted.' },
+  quotes: { label: 'Quotes and change orders', hint: 'A quote or a change order is sent to you, or yours is answered.' },
   payments: { label: 'Deposits and payouts', hint: 'A milestone’s deposit is paid, or a payout goes to the shop.' },
   milestones: { label: 'Work submitted and approved', hint: 'The shop submits a milestone, or it is approved.' },
 }

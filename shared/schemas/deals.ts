@@ -94,6 +94,28 @@ export function quoteLimitIssue(input: { lineItems: { unitPriceCents: number, qu
   return null
 }
 
+const bounded = (label: string, min: number, max: number, unit: string) => z.number({ error: `${label} is a number` })
+  .refine(Number.isFinite, `${label} is a number`)
+  .refine(n => n >= min && n <= max, `${label} is between ${min} and ${max} ${unit}`)
+
+/**
+ * Another combination a shop offers beside a quote's line items. Bore, stroke and cylinders carry
+ * the listing editor's bounds (shared/schemas/build.ts); the displacement is always computed from
+ * them with shared/engine, never typed. Cam durations are at 0.050 in lift.
+ */
+export const alternativeSchema = z.object({
+  boreIn: bounded('The bore', 1.5, 6.5, 'in'),
+  strokeIn: bounded('The stroke', 1.5, 6.5, 'in'),
+  cylinders: z.number({ error: 'Cylinders is a whole number' }).int('Cylinders is a whole number').min(1, 'Cylinders is at least 1').max(16, 'Cylinders is at most 16'),
+  cylinderHeads: required(160, 'The cylinder heads'),
+  camIntakeDurationDeg: bounded('The intake duration', 150, 340, '°'),
+  camExhaustDurationDeg: bounded('The exhaust duration', 150, 340, '°'),
+  camLobeSeparationDeg: bounded('The lobe separation', 96, 130, '°'),
+  camshaft: required(160, 'The camshaft'),
+  note: text(500, 'The note').default(''),
+})
+export type QuoteAlternative = z.infer<typeof alternativeSchema>
+
 /** A quote's fields one by one. The route reads these; the money limit over the whole is the service's 422. */
 export const quoteFieldsSchema = z.object({
   lineItems: z.array(lineItemSchema).min(1, 'A quote has at least one line item').max(DEAL_LIMITS.lineItems, `At most ${DEAL_LIMITS.lineItems} line items`),
@@ -101,6 +123,7 @@ export const quoteFieldsSchema = z.object({
   validUntil: isoDay,
   notes: text(DEAL_LIMITS.notesChars, 'The notes').default(''),
   guarantee: guaranteeSchema.nullable().default(null),
+  alternative: alternativeSchema.nullable().default(null),
 })
 
 /** A whole quote as the editor checks it before sending: its fields, and its total inside the money limit. */
@@ -116,6 +139,24 @@ export const acceptQuoteSchema = z.object({
 
 export const declineQuoteSchema = z.object({
   reason: text(1000, 'The reason').default(''),
+})
+
+/**
+ * A change order after a refunded milestone: the milestones that replace the ones still awaiting
+ * payment, adding up to the stated total to the cent, with optional line items that total the same.
+ * The sums are the service's 422 (money that does not add up), not a 400.
+ */
+export const changeOrderSchema = z.object({
+  totalCents: centsSchema.min(DEAL_LIMITS.minMilestoneCents, 'The rest of the order is at least $1.00'),
+  milestones: z.array(quoteMilestoneSchema).min(1, 'A change order has at least one milestone').max(DEAL_LIMITS.milestones, `At most ${DEAL_LIMITS.milestones} milestones`),
+  lineItems: z.array(lineItemSchema).max(DEAL_LIMITS.lineItems, `At most ${DEAL_LIMITS.lineItems} line items`).default([]),
+  notes: text(DEAL_LIMITS.notesChars, 'The notes').default(''),
+})
+export type ChangeOrderInput = z.infer<typeof changeOrderSchema>
+
+export const changeOrderParams = z.object({
+  id: idSchema,
+  changeId: idSchema,
 })
 
 export const submitMilestoneSchema = z.object({

@@ -1,5 +1,6 @@
 /** The shapes the deal routes answer with, used by the pages. */
 import type { MilestoneStateName } from '../deals/constants'
+import type { QuoteAlternative } from '../schemas/deals'
 
 export type DealSide = 'racer' | 'builder' | 'admin'
 
@@ -50,6 +51,28 @@ export interface QuoteRevisionView {
   createdAt: string
   lineItems: QuoteLineView[]
   milestones: QuoteMilestoneView[]
+  /** Another combination offered beside the line items, with its displacement computed by shared/engine. */
+  alternative: AlternativeView | null
+}
+
+export interface AlternativeView extends QuoteAlternative {
+  /** displacementCi(bore, stroke, cylinders), never typed by the shop. */
+  displacementCi: number
+}
+
+/** A change order as its parties see it: the milestones that replace the ones still awaiting payment. */
+export interface ChangeOrderView {
+  id: number
+  status: 'open' | 'accepted' | 'declined'
+  totalCents: number
+  /** What the milestones it would replace (those awaiting payment) add up to now; null once answered. */
+  replacedCents: number | null
+  milestones: QuoteMilestoneView[]
+  lineItems: QuoteLineView[]
+  notes: string
+  declineReason: string | null
+  createdAt: string
+  answeredAt: string | null
 }
 
 export interface QuoteView {
@@ -186,6 +209,10 @@ export interface OrderView {
   paidCents: number
   releasedCents: number
   refundedCents: number
+  /** The open change order, or the last answered one; null when none was sent. */
+  changeOrder: ChangeOrderView | null
+  /** True when the shop may send a change order now: a refunded milestone, an active order and none open. */
+  changeOrderAllowed: boolean
 }
 
 export interface DashboardRequestRow {

@@ -1,0 +1,1 @@
+ALTER TABLE `quote_revisions` ADD `alternative` json;
