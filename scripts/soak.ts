@@ -158,7 +158,7 @@ async function main() {
       const story = faultLines(fault.samples, at)
       for (const line of story.lines) log(line)
       if (!story.recovered) failures.push('the app did not answer a database-backed action with 2xx after MariaDB came back')
-      if (story.fiveHundreds) log(`  finding: ${story.fiveHundreds} answers were 500 (a database outage should answer 503)`)
+      if (story.fiveHundreds) log(`  warning: ${story.fiveHundreds} answers were 500 (a database outage should answer 503)`)
       reconciliations.push(await reconcile(stack.dbUrl, pop.ledger, 'fault'))
       log('  reconciliation against MariaDB:')
       for (const line of reconciliationLines(reconciliations.at(-1)!)) log(line)

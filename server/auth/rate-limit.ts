@@ -72,7 +72,7 @@ const RETRY = { attempts: 4 }
  * Makes sure every bucket has its row, each new one full, before any transaction locks them. Each
  * row is its own statement, outside a transaction, in key order: a row lock on an existing key is
  * all the locking transactions below ever take, never a lock on the gap a new key goes into (two
- * inserts of new keys into each other's locked gaps is how the buckets used to deadlock).
+ * inserts of new keys into each other's locked gaps would deadlock).
  */
 async function ensureBuckets(db: Db, sorted: BucketRequest[], now: number): Promise<void> {
   const present = new Set((await db.select({ key: rateLimitBuckets.key }).from(rateLimitBuckets).where(inArray(rateLimitBuckets.key, sorted.map(r => r.key)))).map(r => r.key))

@@ -1,15 +1,14 @@
 // In Chromium: the shop's composer offers another combination at a phone's width (390 px) with its
 // displacement computed as the shop types and checked against the request's cap, and the racer
 // accepts a change order only after a confirm step that names the amounts.
-import type { Page } from 'playwright-core'
 import { eq } from 'drizzle-orm'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { sendChangeOrder } from '../../server/services/change-orders'
 import { createRequest } from '../../server/services/deals'
 import { approveMilestone, disputeMilestone, settleDispute, submitMilestone } from '../../server/services/milestones'
 import { displacementCi } from '../../shared/engine/geometry'
-import { DEMO_PASSWORD, PERSONAS } from '../support/auth'
-import { openBrowser } from '../support/browser'
+import { PERSONAS } from '../support/auth'
+import { openBrowser, signInPage } from '../support/browser'
 import { baseUrl } from '../support/context'
 import { PEOPLE, actorByEmail, dealTestContext, fundMilestone, makeOrder, requestInput, schema } from '../support/deals'
 
@@ -29,14 +28,6 @@ afterAll(async () => {
 
 const inDays = (n: number) => new Date(Date.now() + n * 86_400_000).toISOString().slice(0, 10)
 
-async function signIn(page: Page, email: string) {
-  await page.goto(`${baseUrl()}/sign-in`, { waitUntil: 'networkidle' })
-  await page.fill('#field-email', email)
-  await page.fill('#field-password', DEMO_PASSWORD)
-  await page.click('[data-test="password-form"] button[type="submit"]')
-  await page.locator('[data-test="nav-account"]').waitFor()
-}
-
 describe('the composer\'s alternative combination at 390 px', () => {
   it('computes the displacement as the shop types, says it is inside the cap, and shows it on the sent quote', async () => {
     const ctx = deal.ctx
@@ -44,7 +35,7 @@ describe('the composer\'s alternative combination at 390 px', () => {
     const { id } = await createRequest(ctx, racerActor, requestInput({ title: `Alternative in Chromium ${Math.random().toString(36).slice(2, 8)}`, displacementCapCi: 440 }))
     const { page } = shop
     await page.setViewportSize({ width: 390, height: 844 })
-    await signIn(page, PERSONAS.builder)
+    await signInPage(page, PERSONAS.builder)
     await page.goto(`${baseUrl()}/deals/requests/${id}/quote`, { waitUntil: 'networkidle' })
     const line = page.locator('[data-test="line-item"]').first()
     await line.getByLabel('Description').fill('Bore, hone and deck the block')
@@ -103,7 +94,7 @@ describe('the shop sending a change order', () => {
     const { page } = shop
     await page.setViewportSize({ width: 390, height: 844 })
     await page.goto(`${baseUrl()}/deals/orders/${order.orderId}`, { waitUntil: 'networkidle' })
-    if (await page.locator('[data-test="nav-account"]').count() === 0) await signIn(page, PERSONAS.builder)
+    if (await page.locator('[data-test="nav-account"]').count() === 0) await signInPage(page, PERSONAS.builder)
     await page.goto(`${baseUrl()}/deals/orders/${order.orderId}`, { waitUntil: 'networkidle' })
     await page.click('[data-test="new-change-order"]')
     const form = page.locator('[data-test="change-order-form"]')
@@ -137,7 +128,7 @@ describe('the racer accepting a change order', () => {
     })
     const states = async () => (await deal.db.select().from(schema.milestones).where(eq(schema.milestones.orderId, order.orderId)).orderBy(schema.milestones.position)).map(m => m.state)
     const { page } = racer
-    await signIn(page, PERSONAS.racer)
+    await signInPage(page, PERSONAS.racer)
     await page.goto(`${baseUrl()}/deals/orders/${order.orderId}`, { waitUntil: 'networkidle' })
     const box = page.locator('[data-test="change-order"]')
     expect(await box.locator('[data-test="change-order-milestones"] li').count()).toBe(2)

@@ -1,11 +1,10 @@
 // A whole deal in Chromium with two people at once: a racer requests a quote from a build page, the
 // shop quotes it in three milestones, the racer accepts and pays the first deposit on the payments
 // fake's own page, and both see it funded; then a message from one appears on the other's open page.
-import type { Page } from 'playwright-core'
 import { eq } from 'drizzle-orm'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { DEMO_PASSWORD, PERSONAS, BUILDER_SHOP } from '../support/auth'
-import { isLocal, openBrowser } from '../support/browser'
+import { PERSONAS, BUILDER_SHOP } from '../support/auth'
+import { isLocal, openBrowser, signInPage } from '../support/browser'
 import { baseUrl, schema, testDb } from '../support/context'
 
 type Browser = Awaited<ReturnType<typeof openBrowser>>
@@ -20,14 +19,6 @@ afterAll(async () => {
   await shop?.close()
 })
 
-async function signIn(page: Page, email: string) {
-  await page.goto(`${baseUrl()}/sign-in`, { waitUntil: 'networkidle' })
-  await page.fill('#field-email', email)
-  await page.fill('#field-password', DEMO_PASSWORD)
-  await page.click('[data-test="password-form"] button[type="submit"]')
-  await page.locator('[data-test="nav-account"]').waitFor()
-}
-
 const inDays = (n: number) => new Date(Date.now() + n * 86_400_000).toISOString().slice(0, 10)
 
 describe('a deal in Chromium', () => {
@@ -39,8 +30,8 @@ describe('a deal in Chromium', () => {
     await close()
     const r = racer.page
     const s = shop.page
-    await signIn(r, PERSONAS.racer)
-    await signIn(s, PERSONAS.builder)
+    await signInPage(r, PERSONAS.racer)
+    await signInPage(s, PERSONAS.builder)
 
     // The racer asks for a quote from one of the shop's builds.
     await r.goto(`${baseUrl()}/builds/${build!.slug}`, { waitUntil: 'networkidle' })

@@ -1,8 +1,7 @@
 // The shop's delivery pull on a guaranteed milestone, in Chromium: checked once, reported once, in words.
-import type { Page } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { DEMO_PASSWORD, PERSONAS } from '../support/auth'
-import { openBrowser } from '../support/browser'
+import { PERSONAS } from '../support/auth'
+import { openBrowser, signInPage } from '../support/browser'
 import { baseUrl } from '../support/context'
 import { dealTestContext, fundMilestone, makeOrder } from '../support/deals'
 import { inventedPullCsv } from '../support/listings'
@@ -18,14 +17,6 @@ afterAll(async () => {
   await deal?.close()
 })
 
-async function signIn(page: Page, email: string) {
-  await page.goto(`${baseUrl()}/sign-in`, { waitUntil: 'networkidle' })
-  await page.fill('#field-email', email)
-  await page.fill('#field-password', DEMO_PASSWORD)
-  await page.click('[data-test="password-form"] button[type="submit"]')
-  await page.locator('[data-test="nav-account"]').waitFor()
-}
-
 const inDays = (n: number) => new Date(Date.now() + n * 86_400_000).toISOString().slice(0, 10)
 
 describe('a delivery pull in Chromium', () => {
@@ -40,7 +31,7 @@ describe('a delivery pull in Chromium', () => {
     await fundMilestone(deal.ctx, racer, milestones[0]!.id)
 
     const { page } = browser
-    await signIn(page, PERSONAS.builder)
+    await signInPage(page, PERSONAS.builder)
     await page.goto(`${baseUrl()}/deals/orders/${orderId}`, { waitUntil: 'networkidle' })
     await page.click('[data-test="open-submit"]')
     const form = page.locator('[data-test="delivery-pull-form"]')

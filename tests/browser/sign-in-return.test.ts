@@ -29,6 +29,8 @@ describe('signing in from a deal link', () => {
       await page.click('[data-test="password-form"] button[type="submit"]')
       await page.waitForURL(`${baseUrl()}${orderPath}`)
       await page.locator('[data-test="milestone"]').first().waitFor()
+      expect(new URL(page.url()).pathname).toBe(orderPath)
+      expect(await page.locator('[data-test="milestone"]').count()).toBeGreaterThan(0)
     }
     finally {
       await browser.close()

@@ -75,7 +75,7 @@ describe('the headline rule across search, the build page and the card', () => {
     expect(curves.body.headlineId).toBe(passing.id)
     expect(curves.body.headlineBasis).toBe('awaiting')
     const detail = await api(`/api/builds/${build!.slug}`)
-    expect(detail.body.peakHp ?? detail.body.build?.peakHp).toBe(passing.summary.peakHp)
+    expect(detail.body.peakHp).toBe(passing.summary.peakHp)
   })
 
   it('leaves a build whose only pull fails its checks with no headline figure at all', async () => {

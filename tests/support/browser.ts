@@ -2,6 +2,8 @@ import { mkdtempSync, rmSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { chromium, type BrowserContext, type Page } from 'playwright-core'
+import { DEMO_PASSWORD } from './auth'
+import { baseUrl } from './context'
 
 const ARGS = ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--disable-dev-shm-usage']
 
@@ -33,4 +35,13 @@ export function isLocal(url: string): boolean {
   if (url.startsWith('data:') || url.startsWith('blob:') || url.startsWith('about:')) return true
   const host = new URL(url).hostname
   return host === '127.0.0.1' || host === 'localhost' || host === '[::1]'
+}
+
+/** Signs in through the sign-in page's password form, as a person does, and waits for the signed-in header. */
+export async function signInPage(page: Page, email: string, password = DEMO_PASSWORD): Promise<void> {
+  await page.goto(`${baseUrl()}/sign-in`, { waitUntil: 'networkidle' })
+  await page.fill('#field-email', email)
+  await page.fill('#field-password', password)
+  await page.click('[data-test="password-form"] button[type="submit"]')
+  await page.locator('[data-test="nav-account"]').waitFor()
 }

@@ -36,7 +36,7 @@ describe('the headline rule', () => {
   })
 
   it('never lets a pull that fails its own checks speak, even when it is the strongest and nothing else is verified', () => {
-    // The reported case: pull B's power column is inflated (741 hp, the agreement check fails); pull A passes at 685 hp.
+    // An inflated power column: pull B's is inflated (741 hp, the agreement check fails); pull A passes at 685 hp.
     expect(headlinePull([pull(1, 'submitted', 685), pull(2, 'submitted', 741, fail)])).toEqual({ pull: pull(1, 'submitted', 685), basis: 'awaiting' })
     expect(headlinePull([pull(2, 'submitted', 741, fail)])).toBeNull()
   })

@@ -2,7 +2,7 @@ import { isIP } from 'node:net'
 import { parseArgs } from 'node:util'
 import { UserFacingError } from '../process'
 
-/** Everything one soak run is told, with the defaults of the owner's request. */
+/** Everything one soak run is told, with its defaults. */
 export interface SoakOptions {
   /** Base URLs of the app instances under load; empty means "start our own single instance". */
   bases: string[]

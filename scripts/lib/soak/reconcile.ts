@@ -103,7 +103,7 @@ export function reconciliationLines(r: Reconciliation): string[] {
     `            ${m.unanswered} unanswered (timeout or 5xx): ${m.unansweredStored} of them were written anyway, none may be twice`,
     `  drafts:   ${d.saved} autosaved this phase: ${d.lastAcknowledgedKept} hold the last acknowledged title, ${d.unansweredLanded} a later unanswered save's; lost ${d.lost.length}`,
   ]
-  if (d.overwrittenByEarlier.length) lines.push(`  finding: ${d.overwrittenByEarlier.length} drafts hold an earlier save that timed out on the client and finished after the last acknowledged one`)
+  if (d.overwrittenByEarlier.length) lines.push(`  note: ${d.overwrittenByEarlier.length} drafts hold an earlier save that timed out on the client and finished after the last acknowledged one`)
   if (m.refusedButStored.length) lines.push(`  refused (4xx) yet written: ${m.refusedButStored.length}: ${m.refusedButStored.slice(0, 5).join('; ')}`)
   if (m.lost.length) lines.push(`  lost messages (first 5): ${m.lost.slice(0, 5).join('; ')}`)
   if (m.doubled.length) lines.push(`  doubled messages (first 5): ${m.doubled.slice(0, 5).join('; ')}`)

@@ -50,6 +50,7 @@ describe('fuel defaults follow the stoichiometric air-fuel ratios', () => {
   })
   it('BSFC defaults = gasoline\'s (0.50 NA, 0.60 with an adder: common practice) × 14.7 / (A/F)s: E85 ×1.5, methanol ×2.3, rounded up', () => {
     expect(GASOLINE_BSFC).toEqual({ na: 0.5, boosted: 0.6 })
+    // Gasoline's stoichiometric air-fuel ratio 14.7 (Heywood 1988, as cited in shared/engine/fuel.ts).
     expect(GASOLINE_STOICH_AFR).toBe(14.7)
     for (const f of Object.values(fuelDefaults)) {
       const ratio = 14.7 / f.stoichAfr
@@ -59,7 +60,7 @@ describe('fuel defaults follow the stoichiometric air-fuel ratios', () => {
       expect(f.bsfcBoosted).toBeGreaterThanOrEqual(0.6 * ratio - 1e-9)
       expect(f.bsfcBoosted - 0.6 * ratio).toBeLessThan(0.01)
     }
-    expect(14.7 / 9.8).toBeCloseTo(1.5, 12)
+    expect(fuelDefaults.e85.fuelRatio).toBeCloseTo(1.5, 1)
     expect(fuelDefaults.e85.bsfcNa).toBe(0.75)
     expect(fuelDefaults.e85.bsfcBoosted).toBe(0.9)
     // 14.7 / 6.4 = 2.297: methanol needs 2.3 × the fuel of gasoline.
