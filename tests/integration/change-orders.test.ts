@@ -7,27 +7,20 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { approveMilestone, disputeMilestone, settleDispute, submitMilestone } from '../../server/services/milestones'
 import { startCheckout } from '../../server/services/payments'
 import type { DealContext } from '../../server/services/deal-context'
-import { type CookieJar, as, freshAddress, json, signedIn } from '../support/auth'
-import { api } from '../support/context'
-import { PEOPLE, actorByEmail, dealTestContext, fundMilestone, makeOrder, schema } from '../support/deals'
+import { PEOPLE, actorByEmail, dealTestContext, dealHttp, signedInParties, fundMilestone, makeOrder, schema } from '../support/deals'
 
 let ctx: DealContext
 let close: () => Promise<void>
-const jar: Record<'racer' | 'builder' | 'otherBuilder' | 'otherRacer', CookieJar> = {} as never
-const address = freshAddress()
+let jar: Awaited<ReturnType<typeof signedInParties>>
 beforeAll(async () => {
   ({ ctx, close } = await dealTestContext())
-  jar.racer = await signedIn(PEOPLE.racer)
-  jar.builder = await signedIn(PEOPLE.builder)
-  jar.otherBuilder = await signedIn(PEOPLE.otherBuilder)
-  jar.otherRacer = await signedIn(PEOPLE.otherRacer)
+  jar = await signedInParties()
 })
 afterAll(async () => {
   await close()
 })
 
-const post = (path: string, body: unknown, who: CookieJar) => api(path, json('POST', body, who, address))
-const get = (path: string, who: CookieJar) => api(path, { headers: as(who, address) })
+const { post, get } = dealHttp()
 const inDays = (n: number) => new Date(Date.now() + n * 86_400_000).toISOString().slice(0, 10)
 const planOf = (orderId: number) => ctx.db.select().from(schema.milestones).where(eq(schema.milestones.orderId, orderId)).orderBy(asc(schema.milestones.position))
 const orderRow = async (orderId: number) => (await ctx.db.select().from(schema.orders).where(eq(schema.orders.id, orderId)))[0]!

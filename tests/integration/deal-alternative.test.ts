@@ -4,27 +4,21 @@
 import { count, eq } from 'drizzle-orm'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { displacementCi } from '../../shared/engine/geometry'
-import { type CookieJar, as, freshAddress, json, signedIn } from '../support/auth'
-import { api } from '../support/context'
-import { PEOPLE, dealTestContext, quoteInput, requestInput, schema } from '../support/deals'
+import { dealTestContext, dealHttp, signedInParties, quoteInput, requestInput, schema } from '../support/deals'
 import type { Database } from '../../server/database/types'
 
 let db: Database
 let close: () => Promise<void>
-const jar: Record<'racer' | 'builder' | 'otherRacer', CookieJar> = {} as never
-const address = freshAddress()
+let jar: Awaited<ReturnType<typeof signedInParties>>
 beforeAll(async () => {
   ({ db, close } = await dealTestContext())
-  jar.racer = await signedIn(PEOPLE.racer)
-  jar.builder = await signedIn(PEOPLE.builder)
-  jar.otherRacer = await signedIn(PEOPLE.otherRacer)
+  jar = await signedInParties(['racer', 'builder', 'otherRacer'])
 })
 afterAll(async () => {
   await close()
 })
 
-const post = (path: string, body: unknown, who: CookieJar) => api(path, json('POST', body, who, address))
-const get = (path: string, who: CookieJar) => api(path, { headers: as(who, address) })
+const { post, get } = dealHttp()
 const revisions = async () => (await db.select({ n: count() }).from(schema.quoteRevisions))[0]!.n
 
 /** An invented alternative: 4.155 in × 4.000 in × 8, inside the request's 440 ci cap. */

@@ -2,30 +2,26 @@
 // act on (and nothing is written), strangers are refused, and uploads are limited and sniffed.
 import { count, eq } from 'drizzle-orm'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { type CookieJar, as, freshAddress, json, signedIn } from '../support/auth'
+import { type CookieJar, as, freshAddress, signedIn } from '../support/auth'
 import { api } from '../support/context'
-import { PEOPLE, dealTestContext, fundMilestone, makeOrder, milestoneRow, quoteInput, requestInput, schema } from '../support/deals'
+import { PEOPLE, dealTestContext, dealHttp, signedInParties, fundMilestone, makeOrder, milestoneRow, quoteInput, requestInput, schema } from '../support/deals'
 import { disputeMilestone } from '../../server/services/milestones'
 import { CARDS, eventually, payOnFakePage } from '../support/payments'
 import type { Database } from '../../server/database/types'
 
 let db: Database
 let close: () => Promise<void>
-const jar: Record<'racer' | 'builder' | 'otherBuilder' | 'otherRacer', CookieJar> = {} as never
-const address = freshAddress()
+let jar: Awaited<ReturnType<typeof signedInParties>>
 beforeAll(async () => {
   ({ db, close } = await dealTestContext())
-  jar.racer = await signedIn(PEOPLE.racer)
-  jar.builder = await signedIn(PEOPLE.builder)
-  jar.otherBuilder = await signedIn(PEOPLE.otherBuilder)
-  jar.otherRacer = await signedIn(PEOPLE.otherRacer)
+  jar = await signedInParties()
 })
 afterAll(async () => {
   await close()
 })
 
-const post = (path: string, body: unknown, who: CookieJar) => api(path, json('POST', body, who, address))
-const get = (path: string, who: CookieJar) => api(path, { headers: as(who, address) })
+const address = freshAddress()
+const { post, get } = dealHttp(address)
 const rows = async (table: typeof schema.quoteRequests | typeof schema.quoteRevisions | typeof schema.requestMessages) => (await db.select({ n: count() }).from(table))[0]!.n
 
 async function newRequest() {

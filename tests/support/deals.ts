@@ -11,7 +11,7 @@ import { quoteRequestSchema, quoteSchema } from '../../shared/schemas/deals'
 import { startCheckout } from '../../server/services/payments'
 import { disputeMilestone, submitMilestone } from '../../server/services/milestones'
 import { postMessage } from '../../server/services/messages'
-import { as, freshAddress, signedIn } from './auth'
+import { type CookieJar, as, freshAddress, json, signedIn } from './auth'
 import { api } from './context'
 import { CARDS, eventually, payOnFakePage, runningFakeClient } from './payments'
 
@@ -142,4 +142,21 @@ export async function makeDispute(ctx: DealContext, opts: { title?: string, reas
   const reason = opts.reason ?? `The invoice lists a cast crank, the quote says forged (${tag}).`
   await disputeMilestone(ctx, order.racer, milestone.id, reason)
   return { ...order, title, milestone: await milestoneRow(ctx.db, milestone.id), proofFileId: upload.body.id as number, proofName: `parts-invoice-${tag}.pdf`, notes, reason, message }
+}
+
+export type DealParty = 'racer' | 'builder' | 'otherBuilder' | 'otherRacer'
+
+/** Signed-in sessions of the seeded deal people, for route tests that act as each side and as strangers. */
+export async function signedInParties(who: readonly DealParty[] = ['racer', 'builder', 'otherBuilder', 'otherRacer']): Promise<Record<DealParty, CookieJar>> {
+  const jars = {} as Record<DealParty, CookieJar>
+  for (const party of who) jars[party] = await signedIn(PEOPLE[party])
+  return jars
+}
+
+/** POST (JSON) and GET as a given session, all from one client address. */
+export function dealHttp(address = freshAddress()) {
+  return {
+    post: (path: string, body: unknown, who: CookieJar) => api(path, json('POST', body, who, address)),
+    get: (path: string, who: CookieJar) => api(path, { headers: as(who, address) }),
+  }
 }
