@@ -24,7 +24,7 @@ export type DealMail
 // The tokens of tailwind.config.ts (ink, paper, copper), written out because e-mail has no stylesheet.
 const INK = '#1d2230'
 const PAPER = '#f5f3ee'
-const COPPER = '#b8562a'
+const COPPER = '#a0461f'
 
 const escape = (s: string) => s.replace(/[&<>"']/g, c => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', '\'': '&#39;' })[c]!)
 
