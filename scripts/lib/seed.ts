@@ -9,6 +9,7 @@ import { headlinePull } from '../../shared/pulls/headline'
 import { evaluatePull } from '../../shared/pulls/evaluate'
 import type { EvidenceCheck } from '../../shared/engine/types'
 import type { PullSummaryFigures } from '../../shared/pulls/summary'
+import type { DerivedPullFigures } from '../../shared/pulls/figures'
 import * as schema from '../../server/database/schema'
 import { createStripeClient } from '../../server/services/payments'
 import { canonicalFilters } from '../../shared/search/saved'
@@ -16,7 +17,7 @@ import type { SearchFilterParams } from '../../shared/schemas/search'
 import { seedDemoDeals, seedDemoDispute } from './seed-deals'
 import { DEMO_ADMIN, DEMO_PASSWORD, DEMO_RACERS, DEMO_SHOPS, demoBuilds, pullCsv, type DemoPull } from './demo-data'
 
-const { builderProfiles, buildParts, builds, dynoPulls, files, users } = schema
+const { builderProfiles, buildParts, builds, dynoPulls, files, pullFigures, users } = schema
 type Db = MySql2Database<typeof schema>
 
 async function ensureUser(db: Db, u: { name: string, email: string, role: 'racer' | 'builder' | 'admin' }, passwordHash: string): Promise<number> {
@@ -66,7 +67,7 @@ export async function seedDemo(opts: { url: string, uploadsDir: string, payments
       const [existing] = await db.select({ id: builds.id }).from(builds).where(eq(builds.slug, b.slug))
       if (existing) continue
       // The seeded pulls take the same path as an upload: a stored CSV file, evaluated by the engine module.
-      const pullRows: { pull: DemoPull, sha256: string, storageKey: string, summary: PullSummaryFigures, fingerprint: string, checks: EvidenceCheck[], size: number }[] = []
+      const pullRows: { pull: DemoPull, sha256: string, storageKey: string, summary: PullSummaryFigures, fingerprint: string, checks: EvidenceCheck[], figures: DerivedPullFigures, size: number }[] = []
       for (const pull of b.pulls) {
         const text = pullCsv(pull.points)
         const declaredPeakHp = Math.max(...pull.points.map(p => p.hp))
@@ -82,7 +83,7 @@ export async function seedDemo(opts: { url: string, uploadsDir: string, payments
         const sha256 = createHash('sha256').update(text).digest('hex')
         const storageKey = `pulls/${sha256}.csv`
         await storage.setItem(storageKey, text)
-        pullRows.push({ pull, sha256, storageKey, summary: evaluation.summary, fingerprint: evaluation.fingerprint, checks: evaluation.checks, size: Buffer.byteLength(text) })
+        pullRows.push({ pull, sha256, storageKey, summary: evaluation.summary, fingerprint: evaluation.fingerprint, checks: evaluation.checks, figures: evaluation.figures, size: Buffer.byteLength(text) })
       }
       // The one headline rule, as the app applies it after every pull change (shared/pulls/headline.ts).
       const chosen = headlinePull(pullRows.map((r, i) => ({ id: i + 1, status: r.pull.status, summary: r.summary, checks: r.checks, row: r })))
@@ -112,7 +113,7 @@ export async function seedDemo(opts: { url: string, uploadsDir: string, payments
           const [file] = await tx.insert(files).values({
             ownerId: shop.userId, kind: 'pull', mime: 'text/csv', sizeBytes: r.size, sha256: r.sha256, storageKey: r.storageKey, originalName: `${b.slug}.csv`,
           }).$returningId()
-          await tx.insert(dynoPulls).values({
+          const [pullRow] = await tx.insert(dynoPulls).values({
             buildId,
             label: r.pull.label,
             fileId: file!.id,
@@ -131,7 +132,9 @@ export async function seedDemo(opts: { url: string, uploadsDir: string, payments
             changeKind: r.pull.changeKind ?? null,
             changeNote: r.pull.changeNote ?? null,
             createdAt: r.pull.status === 'submitted' ? submittedAt : undefined,
-          })
+          }).$returningId()
+          // The derived figures, stored with the pull as an upload stores them (server/services/pull-figures.ts).
+          await tx.insert(pullFigures).values({ pullId: pullRow!.id, version: r.figures.version, standards: r.figures.standards, curve: r.figures.curve, searchCurve: r.figures.searchCurve })
         }
       })
       created++

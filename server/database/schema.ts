@@ -3,9 +3,10 @@ import {
   bigint, boolean, char, check, date, datetime, decimal, double, index, int, json, mysqlEnum, mysqlTable, text, uniqueIndex, varchar,
 } from 'drizzle-orm/mysql-core'
 import { REQUIRED_FOR_PUBLISH } from '../../shared/schemas/build'
-import type { EvidenceCheck } from '../../shared/engine/types'
+import type { CorrectionStandard, EvidenceCheck } from '../../shared/engine/types'
 import { MILESTONE_STATES, TRANSMISSIONS } from '../../shared/deals/constants'
 import type { PullSummaryFigures } from '../../shared/pulls/summary'
+import type { StandardFigures, StoredCurvePoint } from '../../shared/pulls/figures'
 import type { SearchFilterParams } from '../../shared/schemas/search'
 import type { ChangeOrderInput, QuoteAlternative } from '../../shared/schemas/deals'
 
@@ -140,6 +141,7 @@ export const files = mysqlTable('files', {
 
 /** What the server learnt from a pull file (see shared/pulls/summary.ts): enough to list and search without re-parsing. */
 export type PullSummary = PullSummaryFigures
+export type PullFiguresRow = typeof pullFigures.$inferSelect
 
 export const dynoPulls = mysqlTable('dyno_pulls', {
   id: id(),
@@ -174,6 +176,20 @@ export const dynoPulls = mysqlTable('dyno_pulls', {
   index('dyno_pulls_build_idx').on(t.buildId),
   index('dyno_pulls_status_idx').on(t.status, t.createdAt),
 ])
+
+/**
+ * A pull's derived figures (shared/pulls/figures.ts), computed once from its raw file when the pull is
+ * saved and read by the pages, the search index and the review desk. A row of an older `version`, or
+ * none, is recomputed from the raw file on its first read (server/services/pull-figures.ts).
+ */
+export const pullFigures = mysqlTable('pull_figures', {
+  pullId: ref('pull_id').primaryKey().references(() => dynoPulls.id, { onDelete: 'cascade' }),
+  version: int('version').notNull(),
+  standards: json('standards').$type<Record<CorrectionStandard, StandardFigures>>().notNull(),
+  curve: json('curve').$type<StoredCurvePoint[]>().notNull(),
+  searchCurve: json('search_curve').$type<{ startRpm: number, hp: number[] }>(),
+  computedAt: datetime('computed_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`).$onUpdate(() => new Date()),
+})
 
 // ── Listing editor: a build's photos, in the order the builder set ──
 

@@ -1,25 +1,20 @@
 import { createError } from 'h3'
 import { and, asc, eq, inArray } from 'drizzle-orm'
-import { convertCurve, deltaCurve, describeDelta, parsePull, peaks, torqueAt, type CorrectionStandard, type PullPoint } from '#shared/engine'
-import { displayCurve } from '#shared/listings/display-curve'
+import { deltaCurve, describeDelta, parsePull, torqueAt, type CorrectionStandard, type PullPoint } from '#shared/engine'
+import { curveUnder, rawCurveUnder, weatherOf } from '#shared/pulls/figures'
 import { headlinePull } from '#shared/pulls/headline'
 import type { BuildCurves, CurveComparison, CurvePull } from '#shared/types/listings'
 import { toCsv } from '#shared/csv'
-import { builds, dynoPulls, files, type DynoPull } from '../database/schema'
+import { builds, dynoPulls, files } from '../database/schema'
 import type { Database } from '../database/types'
+import { pullFiguresFor } from './pull-figures'
 
 /** Reads a stored file's text by its storage key (Nitro storage on the server, a plain map in tests). */
 export type ReadStoredText = (storageKey: string) => Promise<string | null>
 
 const one = (n: number) => Math.round(n * 10) / 10
 
-function weatherOf(p: DynoPull) {
-  return p.baroInHg !== null && p.airTempF !== null && p.humidityPct !== null
-    ? { baroInHg: p.baroInHg, airTempF: p.airTempF, humidityPct: p.humidityPct }
-    : null
-}
-
-/** One pull's raw points, parsed from its stored file exactly as an upload is. */
+/** One pull's raw points, parsed from its stored file exactly as an upload is (the CSV export of every point only). */
 async function rawPoints(read: ReadStoredText, storageKey: string): Promise<PullPoint[]> {
   const text = await read(storageKey)
   if (text === null) throw createError({ status: 500, message: `The pull file ${storageKey} is missing from storage.` })
@@ -29,32 +24,38 @@ async function rawPoints(read: ReadStoredText, storageKey: string): Promise<Pull
 }
 
 /**
- * Every pull of a build re-expressed under `target`, with the A/B comparisons between baseline and variants.
+ * Every pull of a build under `target`, with the A/B comparisons between baseline and variants, from
+ * the pulls' stored figures (server/services/pull-figures.ts): the stored display curve converted by the
+ * standard's stored ratio, the peaks as stored (computed from every point when the pull was saved).
  * Pages get each curve on at most DISPLAY_MAX_POINTS points (`resolution: 'display'`, the default); the
- * CSV download asks for every point of the file (`'full'`). Peaks and comparisons always use every point.
+ * CSV download asks for every point of the file (`'full'`), the one case that reads the raw file.
  */
 export async function curvesForBuild(db: Database, read: ReadStoredText, buildId: number, slug: string, target: CorrectionStandard, resolution: 'display' | 'full' = 'display'): Promise<BuildCurves> {
   const rows = await db.select({ pull: dynoPulls, storageKey: files.storageKey, sha256: files.sha256 }).from(dynoPulls)
     .innerJoin(files, eq(files.id, dynoPulls.fileId))
     .where(and(eq(dynoPulls.buildId, buildId), inArray(dynoPulls.status, ['submitted', 'verified'])))
     .orderBy(asc(dynoPulls.id))
+  const stored = await pullFiguresFor(db, read, rows.map(r => r.pull.id))
 
   const pulls: CurvePull[] = []
-  const raw = new Map<number, PullPoint[]>()
   for (const { pull, storageKey, sha256 } of rows) {
-    let points: PullPoint[]
-    try {
-      points = await rawPoints(read, storageKey)
+    const figures = stored.get(pull.id)
+    // One unreadable file must not take the public page down: that pull is left out (pullFiguresFor logs it).
+    if (!figures) continue
+    const under = figures.standards[target]
+    let points: CurvePull['points']
+    if (resolution === 'full') {
+      try {
+        points = (await rawPoints(read, storageKey)).map(p => ({ rpm: p.rpm, hp: one(p.hp * under.ratio), lbFt: one(torqueAt(p) * under.ratio) }))
+      }
+      catch (err) {
+        console.error(`pull ${pull.id}: ${(err as Error).message}`)
+        continue
+      }
     }
-    catch (err) {
-      // One unreadable file must not take the public page down: leave that pull out and say so in the log.
-      console.error(`pull ${pull.id}: ${(err as Error).message}`)
-      continue
+    else {
+      points = curveUnder(figures, target)
     }
-    const weather = weatherOf(pull)
-    const converted = convertCurve(points, { standard: pull.declaredStandard as CorrectionStandard, weather }, { standard: target, weather })
-    raw.set(pull.id, converted.points)
-    const pk = peaks(converted.points)
     pulls.push({
       id: pull.id,
       label: pull.label,
@@ -62,23 +63,26 @@ export async function curvesForBuild(db: Database, read: ReadStoredText, buildId
       status: pull.status,
       dynoKind: pull.dynoKind,
       declaredStandard: pull.declaredStandard,
-      weather,
+      weather: weatherOf(pull),
       comparisonRole: pull.comparisonRole,
       changeKind: pull.changeKind,
       changeNote: pull.changeNote,
-      standard: converted.uncorrected ? 'UNCORRECTED' : target,
-      uncorrected: converted.uncorrected,
-      notes: converted.notes,
-      points: (resolution === 'full' ? converted.points : displayCurve(converted.points)).map(p => ({ rpm: p.rpm, hp: one(p.hp), lbFt: one(torqueAt(p)) })),
-      peaks: { peakHp: one(pk.peakHp), peakHpRpm: pk.peakHpRpm, peakTq: one(pk.peakTq), peakTqRpm: pk.peakTqRpm },
+      standard: under.uncorrected ? 'UNCORRECTED' : target,
+      uncorrected: under.uncorrected,
+      notes: under.notes,
+      points,
+      peaks: { peakHp: under.peakHp, peakHpRpm: under.peakHpRpm, peakTq: under.peakTq, peakTqRpm: under.peakTqRpm },
     })
   }
 
   const baseline = pulls.find(p => p.comparisonRole === 'baseline')
   const comparisons: CurveComparison[] = []
   if (baseline) {
+    const base = stored.get(baseline.id)!
     for (const variant of pulls.filter(p => p.comparisonRole === 'variant')) {
-      const delta = deltaCurve(raw.get(baseline.id)!, raw.get(variant.id)!)
+      // On the stored display curves (every point of a pull of up to DISPLAY_MAX_POINTS points); "even" is
+      // within 1 % of the baseline's peak power, as deltaCurve's default takes it.
+      const delta = deltaCurve(rawCurveUnder(base, target), rawCurveUnder(stored.get(variant.id)!, target), { evenHp: 0.01 * Math.abs(baseline.peaks.peakHp) })
       comparisons.push({
         baselineId: baseline.id,
         variantId: variant.id,
@@ -94,7 +98,7 @@ export async function curvesForBuild(db: Database, read: ReadStoredText, buildId
     }
   }
   // The pull that speaks for the build, by the one headline rule (the same one cards and search use).
-  const headline = headlinePull(rows.map(r => r.pull).filter(p => raw.has(p.id)))
+  const headline = headlinePull(rows.map(r => r.pull).filter(p => stored.has(p.id)))
   return { slug, standard: target, headlineId: headline?.pull.id ?? null, headlineBasis: headline?.basis ?? null, pulls, comparisons }
 }
 

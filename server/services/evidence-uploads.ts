@@ -2,6 +2,7 @@ import { createError } from 'h3'
 import { and, eq, inArray, isNotNull, ne } from 'drizzle-orm'
 import { torqueAt, type CorrectionStandard, type DeclaredFigures } from '#shared/engine'
 import { evaluatePull, type PullBuildContext } from '#shared/pulls/evaluate'
+import { declaredOf, weatherOf } from '#shared/pulls/figures'
 import type { PullMeta } from '#shared/schemas/build'
 import type { PullPreview } from '#shared/types/editor'
 import { builds, dynoPulls, files, type Build } from '../database/schema'
@@ -10,6 +11,7 @@ import { inRetriedTransaction } from '../utils/transaction'
 import type { ReadStoredText } from './curves'
 import { refreshHeadline } from './headline'
 import { afterBuildChanged, ownBuild, type ShopRef } from './listing-editor'
+import { storePullFigures } from './pull-figures'
 import { deleteFileRows, discard, insertFileRow, vetUpload, withStagedFiles, type IncomingFile, type UploadStore } from './listing-files'
 
 export interface PullUpload {
@@ -29,7 +31,7 @@ function contextOf(build: Build): PullBuildContext {
   return { id: build.id, aspiration, boreIn, strokeIn, cylinders }
 }
 
-function declaredOf(meta: PullMeta): DeclaredFigures {
+function declaredOfMeta(meta: PullMeta): DeclaredFigures {
   return {
     standard: meta.declaredStandard as CorrectionStandard,
     correctionFactor: meta.declaredFactor,
@@ -53,7 +55,7 @@ async function evaluateUpload(db: Database, build: Build, file: IncomingFile, me
   const context = contextOf(build)
   const evaluation = evaluatePull({
     text: file.bytes.toString('utf8'),
-    declared: declaredOf(meta),
+    declared: declaredOfMeta(meta),
     weather: meta.weather,
     build: context,
     fingerprintsOfOtherBuilds: await fingerprintsOfOtherBuilds(db, build.id),
@@ -123,6 +125,8 @@ export async function savePull(db: Database, store: UploadStore, shop: ShopRef, 
       changeKind: meta.comparisonRole === 'variant' ? meta.changeKind : null,
       changeNote: meta.comparisonRole === 'variant' ? meta.changeNote : null,
     }).$returningId()
+    // The pull's derived figures under every standard, stored with it so no page parses the file again.
+    await storePullFigures(tx, row!.id, evaluation.figures)
     await refreshHeadline(tx, buildId)
     return row!.id
   })
@@ -172,21 +176,14 @@ export async function recheckSubmittedPulls(db: Database, buildId: number, read:
   for (const { pull, storageKey } of rows) {
     const text = await read(storageKey)
     if (text === null) continue
-    const weather = pull.baroInHg !== null && pull.airTempF !== null && pull.humidityPct !== null
-      ? { baroInHg: pull.baroInHg, airTempF: pull.airTempF, humidityPct: pull.humidityPct }
-      : null
-    const declared: DeclaredFigures = {
-      standard: pull.declaredStandard as CorrectionStandard,
-      correctionFactor: pull.declaredFactor,
-      peakHp: pull.declaredPeakHp,
-      peakHpRpm: pull.declaredPeakHpRpm,
-      peakTq: pull.declaredPeakTq,
-      peakTqRpm: pull.declaredPeakTqRpm,
-    }
-    const evaluation = evaluatePull({ text, declared, weather, build: context, fingerprintsOfOtherBuilds: others })
+    const evaluation = evaluatePull({ text, declared: declaredOf(pull), weather: weatherOf(pull), build: context, fingerprintsOfOtherBuilds: others })
     if (!evaluation.ok) continue
-    // Only while it still awaits review: an admin's decision made meanwhile keeps its report.
-    await db.update(dynoPulls).set({ checks: evaluation.checks }).where(and(eq(dynoPulls.id, pull.id), eq(dynoPulls.status, 'submitted')))
+    // Only while it still awaits review: an admin's decision made meanwhile keeps its report. The derived
+    // figures do not depend on the combination; the explicit re-check stores them afresh all the same.
+    await inRetriedTransaction(db, async (tx) => {
+      const [changed] = await tx.update(dynoPulls).set({ checks: evaluation.checks }).where(and(eq(dynoPulls.id, pull.id), eq(dynoPulls.status, 'submitted')))
+      if (changed.affectedRows > 0) await storePullFigures(tx, pull.id, evaluation.figures)
+    })
     refreshed++
   }
   return refreshed

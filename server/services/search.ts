@@ -1,17 +1,16 @@
 import { headlinePull } from '#shared/pulls/headline'
 import { and, asc, eq, inArray, sql } from 'drizzle-orm'
-import { convertCurve, isCorrectionStandard } from '#shared/engine/correction'
-import { peaks, resample } from '#shared/engine/curves'
 import { displacementCi } from '#shared/engine/geometry'
-import { parsePull } from '#shared/engine/parse'
+import type { DerivedPullFigures } from '#shared/pulls/figures'
 import { LISTING_STANDARD } from '#shared/pulls/summary'
-import { createSearchIndex, CURVE_STEP_RPM, type SearchDocument, type SearchIndex } from '../../search/index'
+import { createSearchIndex, type SearchDocument, type SearchIndex } from '../../search/index'
 import { syntheticDocuments } from '../../search/synthetic'
-import { builderProfiles, buildParts, builds, dynoPulls, files, type Build, type BuilderProfile, type DynoPull } from '../database/schema'
+import { builderProfiles, buildParts, builds, dynoPulls, type Build, type BuilderProfile, type DynoPull } from '../database/schema'
 import type { Database } from '../database/types'
 import { readUploadText } from '../utils/storage'
 import type { ReadStoredText } from './curves'
 import { asPublished } from './listings'
+import { pullFiguresFor } from './pull-figures'
 
 /** The one index of this server process: swapped whole by a rebuild, changed in place by syncBuild. */
 let current: SearchIndex = createSearchIndex()
@@ -52,47 +51,23 @@ async function publishedStamps(db: Database, ids?: number[]): Promise<Map<number
   return new Map(rows.map(r => [r.id, stampOf(r)]))
 }
 
-type PullWithFile = DynoPull & { storageKey: string }
+type Figures = Pick<SearchDocument, 'peakHp' | 'peakHpRpm' | 'peakTq' | 'peakTqRpm' | 'curve'>
 
-/** Peaks and the grid curve under SAE J1349 (2004), recomputed from the raw pull file; the stored summary when the file is unreadable. */
-async function figuresOf(read: ReadStoredText, pull: PullWithFile | undefined) {
+/** The headline pull's peaks and grid curve under the listing standard, as stored with the pull; its summary alone when no figures are stored. */
+function figuresOf(pull: DynoPull | undefined, stored: DerivedPullFigures | undefined): Figures {
   if (!pull) return { peakHp: null, peakHpRpm: null, peakTq: null, peakTqRpm: null, curve: null }
-  const fallback = { peakHp: pull.summary.peakHp, peakHpRpm: pull.summary.peakHpRpm, peakTq: pull.summary.peakTq, peakTqRpm: pull.summary.peakTqRpm, curve: null }
-  const text = await read(pull.storageKey)
-  if (text === null) {
-    console.warn(`search: pull file ${pull.storageKey} of build ${pull.buildId} is missing; indexing its stored figures without a curve`)
-    return fallback
-  }
-  const parsed = parsePull(text)
-  if (!parsed.ok) return fallback
-  const weather = pull.baroInHg !== null && pull.airTempF !== null && pull.humidityPct !== null
-    ? { baroInHg: pull.baroInHg, airTempF: pull.airTempF, humidityPct: pull.humidityPct }
-    : null
-  const declared = isCorrectionStandard(pull.declaredStandard) ? pull.declaredStandard : 'UNCORRECTED'
-  const recomputed = (() => {
-    try {
-      const points = convertCurve(parsed.points, { standard: declared, weather }, { standard: LISTING_STANDARD, weather }).points
-      return { pk: peaks(points), grid: resample(points, CURVE_STEP_RPM) }
-    }
-    catch (err) {
-      // A stored file the engine module refuses (it was checked on upload) must not stop the whole index.
-      console.warn(`search: pull ${pull.id} of build ${pull.buildId} could not be recomputed (${(err as Error).message}); indexing its stored figures`)
-      return null
-    }
-  })()
-  if (!recomputed) return fallback
-  const { pk, grid } = recomputed
-  const one = (n: number) => Math.round(n * 10) / 10
+  if (!stored) return { peakHp: pull.summary.peakHp, peakHpRpm: pull.summary.peakHpRpm, peakTq: pull.summary.peakTq, peakTqRpm: pull.summary.peakTqRpm, curve: null }
+  const under = stored.standards[LISTING_STANDARD]
   return {
-    peakHp: one(pk.peakHp),
-    peakHpRpm: pk.peakHpRpm,
-    peakTq: Number.isFinite(pk.peakTq) ? one(pk.peakTq) : null,
-    peakTqRpm: Number.isFinite(pk.peakTq) ? pk.peakTqRpm : null,
-    curve: grid.length > 0 ? { startRpm: (grid[0] as { rpm: number }).rpm, hp: grid.map(p => Math.round(p.hp * 10) / 10) } : null,
+    peakHp: under.peakHp,
+    peakHpRpm: under.peakHpRpm,
+    peakTq: Number.isFinite(under.peakTq) ? under.peakTq : null,
+    peakTqRpm: Number.isFinite(under.peakTq) ? under.peakTqRpm : null,
+    curve: stored.searchCurve,
   }
 }
 
-function documentOf(row: Build, shop: BuilderProfile, parts: string[], figures: Awaited<ReturnType<typeof figuresOf>>, stamp: string): SearchDocument {
+function documentOf(row: Build, shop: BuilderProfile, parts: string[], figures: Figures, stamp: string): SearchDocument {
   const build = asPublished(row)
   return {
     id: build.id,
@@ -118,7 +93,7 @@ function documentOf(row: Build, shop: BuilderProfile, parts: string[], figures: 
   }
 }
 
-/** Search documents of the published builds (all, or the given ids), read from MariaDB and the pull files. */
+/** Search documents of the published builds (all, or the given ids), read from MariaDB with each headline pull's stored figures. */
 export async function loadSearchDocuments(db: Database, ids?: number[], read: ReadStoredText = readUploadText): Promise<SearchDocument[]> {
   if (ids && ids.length === 0) return []
   const published = eq(builds.status, 'published')
@@ -127,8 +102,7 @@ export async function loadSearchDocuments(db: Database, ids?: number[], read: Re
     db.select({ build: builds, shop: builderProfiles }).from(builds).innerJoin(builderProfiles, eq(builderProfiles.id, builds.builderId)).where(where),
     db.select({ buildId: buildParts.buildId, category: buildParts.category, part: buildParts.part, partNumber: buildParts.partNumber })
       .from(buildParts).innerJoin(builds, eq(builds.id, buildParts.buildId)).where(where).orderBy(asc(buildParts.buildId), asc(buildParts.position)),
-    db.select({ pull: dynoPulls, storageKey: files.storageKey }).from(dynoPulls)
-      .innerJoin(builds, eq(builds.id, dynoPulls.buildId)).innerJoin(files, eq(files.id, dynoPulls.fileId)).where(where),
+    db.select({ pull: dynoPulls }).from(dynoPulls).innerJoin(builds, eq(builds.id, dynoPulls.buildId)).where(where),
     publishedStamps(db, ids),
   ])
   const partsOf = new Map<number, string[]>()
@@ -137,17 +111,20 @@ export async function loadSearchDocuments(db: Database, ids?: number[], read: Re
     list.push(`${p.category}: ${p.part} ${p.partNumber}`.trim())
     partsOf.set(p.buildId, list)
   }
-  const pullsOf = new Map<number, PullWithFile[]>()
-  for (const { pull, storageKey } of pullRows) {
+  const pullsOf = new Map<number, DynoPull[]>()
+  for (const { pull } of pullRows) {
     const list = pullsOf.get(pull.buildId) ?? []
-    list.push({ ...pull, storageKey })
+    list.push(pull)
     pullsOf.set(pull.buildId, list)
   }
+  // The one headline rule (shared/pulls/headline.ts): a pull failing its own checks never sets a filterable figure.
+  const headlines = new Map(rows.map(({ build }) => [build.id, headlinePull(pullsOf.get(build.id) ?? [])?.pull]))
+  // The headline pulls' stored figures: no pull file is parsed here (only one stored before the table was is derived once).
+  const stored = await pullFiguresFor(db, read, [...headlines.values()].flatMap(p => (p ? [p.id] : [])))
   const docs: SearchDocument[] = []
   for (const { build, shop } of rows) {
-    // The one headline rule (shared/pulls/headline.ts): a pull failing its own checks never sets a filterable figure.
-    const figures = await figuresOf(read, headlinePull(pullsOf.get(build.id) ?? [])?.pull)
-    docs.push(documentOf(build, shop, partsOf.get(build.id) ?? [], figures, stamps.get(build.id) ?? ''))
+    const pull = headlines.get(build.id)
+    docs.push(documentOf(build, shop, partsOf.get(build.id) ?? [], figuresOf(pull, pull ? stored.get(pull.id) : undefined), stamps.get(build.id) ?? ''))
   }
   return docs
 }

@@ -3,9 +3,9 @@ import type { PublishedBuild } from './listings'
 import { REQUIRED_FOR_PUBLISH } from '#shared/schemas/build'
 import { and, asc, count, desc, eq, inArray, ne } from 'drizzle-orm'
 import {
-  CORRECTION_STANDARDS, FINGERPRINT_TOLERANCE, convertCurve, displacementCi, evidenceOutcome, fingerprintDistance, parsePull, peaks, torqueAt,
-  type CorrectionStandard, type EvidenceCheck, type EvidenceOutcome, type PullPoint,
+  CORRECTION_STANDARDS, FINGERPRINT_TOLERANCE, displacementCi, evidenceOutcome, fingerprintDistance, type EvidenceCheck, type EvidenceOutcome,
 } from '../../shared/engine'
+import { curveUnder, declaredStandardOf, weatherOf, type StandardFigures } from '../../shared/pulls/figures'
 import { LISTING_STANDARD } from '../../shared/pulls/summary'
 import type { DuplicateLink, EvidenceQueueItem, EvidenceReview, PeakFigures } from '../../shared/types/admin'
 import { builderProfiles, builds, dynoPulls, files, users, type Build, type DynoPull } from '../database/schema'
@@ -15,25 +15,17 @@ import { adminEmails } from './admin-mail'
 import { writeAudit } from './audit'
 import { enqueueRendered } from './outbox'
 import { refreshHeadline } from './headline'
+import { pullFiguresFor } from './pull-figures'
 
 type Tx = Parameters<Parameters<Database['transaction']>[0]>[0]
 /** Reads a stored file's text by its storage key (Nitro storage on the server, the uploads folder in tests). */
 export type ReadStoredText = (storageKey: string) => Promise<string | null>
 
-const one = (n: number) => Math.round(n * 10) / 10
 const standardLabel = (id: string) => CORRECTION_STANDARDS.find(s => s.id === id)?.label ?? id
 /** The review page shows the first lines of the raw file; the whole file is a download. */
 const PREVIEW_LINES = 60
-/** A chart of more points than this shows every n-th sample (the raw values, not interpolated ones). */
-const CHART_POINTS = 600
 
 const duplicateCheck = (checks: EvidenceCheck[] | null) => checks?.find(c => c.id === 'duplicate-curve')
-
-function weatherOf(p: DynoPull) {
-  return p.baroInHg !== null && p.airTempF !== null && p.humidityPct !== null
-    ? { baroInHg: p.baroInHg, airTempF: p.airTempF, humidityPct: p.humidityPct }
-    : null
-}
 
 /** Builds with the given ids, as duplicate links. */
 async function linksFor(db: Database, found: { buildId: number, outcome: EvidenceOutcome }[]): Promise<DuplicateLink[]> {
@@ -116,27 +108,14 @@ export async function evidenceQueue(db: Database): Promise<EvidenceQueueItem[]> 
   })
 }
 
-/** Every n-th point so a chart stays light; the last point always stays. */
-function thin(points: PullPoint[]): PullPoint[] {
-  if (points.length <= CHART_POINTS) return points
-  const every = Math.ceil(points.length / CHART_POINTS)
-  return points.filter((_, i) => i % every === 0 || i === points.length - 1)
-}
+const curveOf = (label: string, standard: string, points: { rpm: number, hp: number, lbFt: number }[]) => ({ label, standard, points })
 
-const curveOf = (label: string, standard: string, points: PullPoint[]) =>
-  ({ label, standard, points: thin(points).map(p => ({ rpm: p.rpm, hp: one(p.hp), lbFt: one(torqueAt(p)) })) })
+const peakFigures = (f: StandardFigures): PeakFigures => ({ peakHp: f.peakHp, peakHpRpm: f.peakHpRpm, peakTq: f.peakTq, peakTqRpm: f.peakTqRpm })
 
-function peakFigures(points: PullPoint[]): PeakFigures {
-  const pk = peaks(points)
-  return { peakHp: one(pk.peakHp), peakHpRpm: pk.peakHpRpm, peakTq: one(pk.peakTq), peakTqRpm: pk.peakTqRpm }
-}
-
-async function parsedFile(read: ReadStoredText, storageKey: string): Promise<{ text: string, points: PullPoint[] }> {
+async function storedText(read: ReadStoredText, storageKey: string): Promise<string> {
   const text = await read(storageKey)
   if (text === null) throw createError({ status: 500, message: `The pull file ${storageKey} is missing from storage.` })
-  const parsed = parsePull(text)
-  if (!parsed.ok) throw createError({ status: 500, message: `The stored pull file ${storageKey} no longer parses.` })
-  return { text, points: parsed.points }
+  return text
 }
 
 function combinationOf(row: Build): EvidenceReview['combination'] {
@@ -170,33 +149,32 @@ export async function evidenceReview(db: Database, read: ReadStoredText, pullId:
   if (!row) throw createError({ status: 404, message: 'No pull has that id.' })
   const { pull, build, shop, owner, file } = row
 
-  const { text, points } = await parsedFile(read, file.storageKey)
+  // The raw file is shown as filed (its first lines); every figure and curve comes from the pull's stored figures.
+  const text = await storedText(read, file.storageKey)
   const weather = weatherOf(pull)
-  const declaredStandard = pull.declaredStandard as CorrectionStandard
-  const normalised = convertCurve(points, { standard: declaredStandard, weather }, { standard: LISTING_STANDARD, weather })
+  const declaredStandard = declaredStandardOf(pull)
+  const matches = await matchingBuilds(db, pull)
+  const nearest = matches[0]
+  const stored = await pullFiguresFor(db, read, nearest ? [pull.id, nearest.pullId] : [pull.id])
+  const own = stored.get(pull.id)
+  if (!own) throw createError({ status: 500, message: `The stored pull file ${file.storageKey} no longer parses.` })
+  const normalised = own.standards[LISTING_STANDARD]
   const lines = text.split(/\r?\n/)
   while (lines.length && lines[lines.length - 1] === '') lines.pop()
 
-  const matches = await matchingBuilds(db, pull)
   const named = duplicateCheck(pull.checks)?.figures.closestBuildId
   const found = [...matches.map(m => ({ buildId: m.buildId, outcome: m.outcome }))]
   if (typeof named === 'number' && !found.some(f => f.buildId === named)) found.push({ buildId: named, outcome: duplicateCheck(pull.checks)!.outcome })
   const duplicates = await linksFor(db, found)
 
   const curves = [
-    curveOf(`As filed (${standardLabel(declaredStandard)})`, declaredStandard, points),
-    ...(declaredStandard === LISTING_STANDARD ? [] : [curveOf(normalised.uncorrected ? 'Uncorrected (no weather)' : `Under ${standardLabel(LISTING_STANDARD)}`, normalised.uncorrected ? 'UNCORRECTED' : LISTING_STANDARD, normalised.points)]),
+    curveOf(`As filed (${standardLabel(declaredStandard)})`, declaredStandard, curveUnder(own, declaredStandard)),
+    ...(declaredStandard === LISTING_STANDARD ? [] : [curveOf(normalised.uncorrected ? 'Uncorrected (no weather)' : `Under ${standardLabel(LISTING_STANDARD)}`, normalised.uncorrected ? 'UNCORRECTED' : LISTING_STANDARD, curveUnder(own, LISTING_STANDARD))]),
   ]
-  const nearest = matches[0]
-  if (nearest) {
-    const [other] = await db.select({ pull: dynoPulls, storageKey: files.storageKey }).from(dynoPulls).innerJoin(files, eq(files.id, dynoPulls.fileId)).where(eq(dynoPulls.id, nearest.pullId))
-    if (other) {
-      const otherPoints = (await parsedFile(read, other.storageKey)).points
-      const otherWeather = weatherOf(other.pull)
-      const converted = convertCurve(otherPoints, { standard: other.pull.declaredStandard as CorrectionStandard, weather: otherWeather }, { standard: LISTING_STANDARD, weather: otherWeather })
-      const title = duplicates.find(d => d.buildId === nearest.buildId)?.title ?? `build ${nearest.buildId}`
-      curves.push(curveOf(`Matching curve: ${title}`, LISTING_STANDARD, converted.points))
-    }
+  const other = nearest ? stored.get(nearest.pullId) : undefined
+  if (nearest && other) {
+    const title = duplicates.find(d => d.buildId === nearest.buildId)?.title ?? `build ${nearest.buildId}`
+    curves.push(curveOf(`Matching curve: ${title}`, LISTING_STANDARD, curveUnder(other, LISTING_STANDARD)))
   }
 
   const [sheet] = pull.sheetFileId ? await db.select().from(files).where(eq(files.id, pull.sheetFileId)) : []
@@ -226,8 +204,8 @@ export async function evidenceReview(db: Database, read: ReadStoredText, pullId:
       peakHp: pull.declaredPeakHp, peakHpRpm: pull.declaredPeakHpRpm, peakTq: pull.declaredPeakTq, peakTqRpm: pull.declaredPeakTqRpm,
     },
     recomputed: {
-      asFiled: { standard: pull.declaredStandard, ...peakFigures(points) },
-      normalised: { standard: normalised.uncorrected ? 'UNCORRECTED' : LISTING_STANDARD, uncorrected: normalised.uncorrected, ...peakFigures(normalised.points) },
+      asFiled: { standard: pull.declaredStandard, ...peakFigures(own.standards[declaredStandard]) },
+      normalised: { standard: normalised.uncorrected ? 'UNCORRECTED' : LISTING_STANDARD, uncorrected: normalised.uncorrected, ...peakFigures(normalised) },
     },
     curves,
     checks: pull.checks ?? [],

@@ -3,6 +3,7 @@ import { curveFingerprint } from '../engine/fingerprint'
 import { displacementCi } from '../engine/geometry'
 import { parsePull } from '../engine/parse'
 import type { Aspiration, DeclaredFigures, EvidenceCheck, ParseError, PullPoint, Weather } from '../engine/types'
+import { derivePullFigures, type DerivedPullFigures } from './figures'
 import { summarisePull, type PullSummaryFigures } from './summary'
 
 export interface PullBuildContext {
@@ -15,11 +16,12 @@ export interface PullBuildContext {
 
 export type PullEvaluation
   = | { ok: false, errors: ParseError[] }
-    | { ok: true, points: PullPoint[], warnings: string[], checks: EvidenceCheck[], summary: PullSummaryFigures, fingerprint: string }
+    | { ok: true, points: PullPoint[], warnings: string[], checks: EvidenceCheck[], summary: PullSummaryFigures, fingerprint: string, figures: DerivedPullFigures }
 
 /**
  * Everything Torquewright learns from one pull file before it is saved: the parse (errors by row),
- * the automatic evidence report, the headline figures under the listing standard and the curve's fingerprint.
+ * the automatic evidence report, the headline figures under the listing standard, the curve's fingerprint
+ * and the derived figures under every standard (shared/pulls/figures.ts) that are stored with the pull.
  * The same path serves uploads, the parse preview and the demo seed.
  */
 export function evaluatePull(input: {
@@ -49,5 +51,6 @@ export function evaluatePull(input: {
     checks,
     summary: summarisePull(parsed.points, input.declared.standard, input.weather),
     fingerprint: curveFingerprint(parsed.points),
+    figures: derivePullFigures(parsed.points, input.declared.standard, input.weather),
   }
 }
