@@ -64,7 +64,7 @@ describe('the swap results page', () => {
 })
 
 describe('a racer\'s class rules', () => {
-  it('saved on /account, open search with them as filters and band, and a build page names the rule a build breaks', async () => {
+  it('saved on /account, open search with them as filters and band, start a quote request, and cards and a build page name the rule a build breaks', async () => {
     const { page } = browser
     await signInPage(page, racer.email, racer.password)
     await page.goto(`${baseUrl()}/account#class-rules`, { waitUntil: 'networkidle' })
@@ -86,6 +86,18 @@ describe('a racer\'s class rules', () => {
     expect(url.searchParams.get('bandTo')).toBe('6800')
     await page.locator('[data-test="search-class-clear"]').click()
     await page.waitForURL(u => !u.searchParams.has('ciMax'))
+    // Cleared filters list builds outside the class; their cards say which rule they break.
+    const outside = page.locator('[data-test="hit-class-breaks"]').first()
+    await outside.waitFor()
+    expect(await outside.innerText()).toMatch(/^Outside your class: (over the 410 ci cap|fuel: )/)
+
+    // A quote request starts from the rules.
+    await page.goto(`${baseUrl()}/deals/new?builder=harrow-creek-engine-works`, { waitUntil: 'networkidle' })
+    await page.locator('[data-test="request-from-class"]').waitFor()
+    expect(await page.inputValue('[data-test="request-form"] [name="displacementCapCi"]')).toBe('410')
+    expect(await page.inputValue('[data-test="request-form"] [name="fuel"]')).toBe('pump_gas')
+    expect(await page.inputValue('[data-test="request-form"] [name="transmission"]')).toBe('automatic')
+    expect(await page.inputValue('[data-test="request-form"] [name="stallRpm"]')).toBe('4200')
 
     // A published build over the cap on another fuel breaks two rules.
     const { db, close } = await testDb()
