@@ -2,6 +2,8 @@ import fc from 'fast-check'
 import { quantileSeq } from 'mathjs'
 import { describe, expect, it } from 'vitest'
 import { bandGain, deltaAt, quantile, quartiles, summarizeSwaps, SWAP_GRID_STEP, SWAP_MIN_RUN_SAMPLE, type SwapSample } from '../../shared/swaps/stats'
+import { SWAP_CHANGES } from '../../shared/schemas/swaps'
+import { changeKinds } from '../../server/database/schema'
 import { demoBuilds } from '../../scripts/lib/demo-data'
 import { demoSwapBuilds } from '../../scripts/lib/seed-swaps'
 
@@ -105,6 +107,12 @@ describe('the swap statistics against a brute-force computation', () => {
     // Too few comparisons: no verdict at all.
     expect(summarizeSwaps([0, 1].map(rising).slice(0, SWAP_MIN_RUN_SAMPLE - 1), null).runs).toEqual([])
     expect(deltaAt(rising(0).points, 8000)).toBeNull()
+  })
+})
+
+describe('the kinds of change', () => {
+  it('the swap route asks about exactly the kinds a comparison can record', () => {
+    expect([...SWAP_CHANGES]).toEqual([...changeKinds])
   })
 })
 
