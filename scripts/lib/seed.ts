@@ -15,6 +15,7 @@ import { createStripeClient } from '../../server/services/payments'
 import { canonicalFilters } from '../../shared/search/saved'
 import type { SearchFilterParams } from '../../shared/schemas/search'
 import { seedDemoDeals, seedDemoDispute } from './seed-deals'
+import { demoSwapBuilds } from './seed-swaps'
 import { DEMO_ADMIN, DEMO_PASSWORD, DEMO_RACERS, DEMO_SHOPS, demoBuilds, pullCsv, type DemoPull } from './demo-data'
 
 const { builderProfiles, buildParts, builds, dynoPulls, files, pullFigures, users } = schema
@@ -56,7 +57,9 @@ export async function seedDemo(opts: { url: string, uploadsDir: string, payments
       shopIds.set(shop.slug, { profileId, userId })
     }
 
-    const all = demoBuilds()
+    const scenario = demoBuilds()
+    // The before/after comparisons of the swap results page (scripts/lib/seed-swaps.ts) follow the scenario's builds.
+    const all = [...scenario, ...demoSwapBuilds(scenario)]
     // Pulls still awaiting a check arrived over the last few days, so the admin's queue has an order and an age to show.
     const submittedHoursAgo = [70, 26, 9, 3]
     let submittedBuilds = 0

@@ -9,6 +9,7 @@ import type { PullSummaryFigures } from '../../shared/pulls/summary'
 import type { StandardFigures, StoredCurvePoint } from '../../shared/pulls/figures'
 import type { SearchFilterParams } from '../../shared/schemas/search'
 import type { ChangeOrderInput, QuoteAlternative } from '../../shared/schemas/deals'
+import type { ClassRules } from '../../shared/schemas/class-rules'
 
 /** Shared column shapes, so every table spells them once. */
 const id = () => bigint('id', { mode: 'number', unsigned: true }).autoincrement().primaryKey()
@@ -637,3 +638,12 @@ export const notificationSettings = mysqlTable('notification_settings', {
 })
 
 export type NotificationSettings = typeof notificationSettings.$inferSelect
+
+/** A racer's class rules (shared/schemas/class-rules.ts): one row per racer, the rules as one JSON document. */
+export const classRules = mysqlTable('class_rules', {
+  userId: ref('user_id').primaryKey().references(() => users.id, { onDelete: 'cascade' }),
+  rules: json('rules').$type<ClassRules>().notNull(),
+  updatedAt: updatedAt(),
+})
+
+export type ClassRulesRow = typeof classRules.$inferSelect
