@@ -10,32 +10,11 @@ import type { Database } from '../database/types'
 import { inRetriedTransaction } from '../utils/transaction'
 import { writeAudit } from './audit'
 import { type DealActor, type Executor, conflict, forbidden, isDuplicateKey, notFound } from './deal-context'
-import { canEditReview, summariseRatings, type RatingSummary } from '#shared/reviews/aspects'
+import { canEditReview, summariseRatings } from '#shared/reviews/aspects'
 import type { ReviewInput } from '#shared/schemas/reviews'
+import type { AdminReviewRow, OrderReview, ReviewList, ReviewView } from '#shared/types/reviews'
 
-export interface ReviewView {
-  id: number
-  rating: number
-  aspects: Review['aspects']
-  body: string
-  /** The reviewer's first name only. */
-  author: string
-  createdAt: string
-  editedAt: string | null
-  /** Earlier versions, oldest first. */
-  edits: { rating: number, body: string, writtenAt: string }[]
-  answer: { body: string, at: string } | null
-  build: { slug: string, title: string } | null
-  /** The delivery pull's figures, when the racer chose to show them beside the review. */
-  deliveryPull: { peakHp: number, standard: string, targetHp: number | null, minimumHp: number | null } | null
-}
-
-export interface ReviewList {
-  summary: RatingSummary
-  reviews: ReviewView[]
-  /** Reviews an admin hid (not counted in the summary). */
-  hiddenCount: number
-}
+export type { ReviewList, ReviewView }
 
 const iso = (d: Date | null) => d === null ? null : d.toISOString()
 const firstName = (name: string) => name.trim().split(/\s+/)[0] ?? ''
@@ -96,13 +75,13 @@ export async function buildReviews(db: Executor, slug: string): Promise<ReviewLi
 }
 
 /** An order's review for its parties: the review (hidden ones with their reason) and whether the racer may write one now. */
-export async function orderReview(db: Executor, actor: DealActor, orderId: number) {
+export async function orderReview(db: Executor, actor: DealActor, orderId: number): Promise<OrderReview> {
   const [order] = await db.select({ status: orders.status, racerId: orders.racerId }).from(orders).where(eq(orders.id, orderId)).limit(1)
   if (!order) throw notFound('That order')
   const [row] = await db.select().from(reviews).where(eq(reviews.orderId, orderId)).limit(1)
   const [view] = row ? await toViews(db, [row]) : []
   return {
-    review: view ? { ...view, hidden: row!.hiddenAt !== null, hiddenReason: row!.hiddenReason, canEdit: row!.authorId === actor.id && row!.hiddenAt === null && canEditReview(row!.createdAt, new Date()) } : null,
+    review: view ? { ...view, showDeliveryPull: row!.showDeliveryPull, hidden: row!.hiddenAt !== null, hiddenReason: row!.hiddenReason, canEdit: row!.authorId === actor.id && row!.hiddenAt === null && canEditReview(row!.createdAt, new Date()) } : null,
     canReview: !row && order.status === 'completed' && order.racerId === actor.id,
     canAnswer: !!row && row.answer === null && row.hiddenAt === null && actor.builderId === row.builderId,
   }
@@ -178,7 +157,7 @@ export async function hideReview(db: Database, adminId: number, reviewId: number
 }
 
 /** Every review, newest first, for the admin's moderation page (with the shop and whether it is hidden). */
-export async function adminReviews(db: Executor, limit = 100) {
+export async function adminReviews(db: Executor, limit = 100): Promise<AdminReviewRow[]> {
   const rows = await db.select({ review: reviews, shopName: builderProfiles.shopName, shopSlug: builderProfiles.slug }).from(reviews)
     .innerJoin(builderProfiles, eq(builderProfiles.id, reviews.builderId))
     .orderBy(desc(reviews.createdAt), desc(reviews.id)).limit(limit)

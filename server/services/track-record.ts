@@ -9,16 +9,7 @@ import {
 } from '../database/schema'
 import type { Executor } from './deal-context'
 import { type RecordFigure, type TrackRecord, median, pct } from '#shared/reviews/track-record'
-
-/** One counted item behind a figure: which deal (numbered per shop), when, and how it counted. */
-export interface RecordItem {
-  deal: number
-  month: string
-  outcome: string
-  /** Only for the deal's parties (and admins): what the deal is and where it lives. */
-  title?: string
-  link?: string
-}
+import type { RecordItem } from '#shared/types/reviews'
 
 interface Counted extends RecordItem { requestId: number, racerId: number, orderId: number | null, title: string }
 
