@@ -143,14 +143,14 @@ export async function seedDemoReviews(db: Db, platformFeeBps = 500): Promise<num
       review: { rating: 4, aspects: aspects(4, 5, null, 4), body: 'Good machine work and clean paperwork. The short block came a week after the date in the quote, but I was told early.' },
     },
     {
-      racer: freya, shop: tobias, title: `${PAST_DEAL_PREFIX} turbo four for time attack`,
+      racer: freya, shop: tobias, title: `${PAST_DEAL_PREFIX} big block for an offshore boat`,
       past: { at: new Date(Date.now() - 120 * DAY), replyAfterH: 28, quoteAfterH: 70, orderStatus: 'completed', milestones: [
         { dueDay: 20, submittedDay: 24, state: 'released' }, { dueDay: 50, submittedDay: 49, disputedDay: 51, state: 'released' }, { dueDay: 90, submittedDay: 96, state: 'released', pull: { peakHp: 505, minimumHp: 490 } },
       ] },
-      review: { rating: 3, aspects: aspects(2, 4, 4, 3), body: 'The engine made its number, but replies took a day or more and we needed a dispute to agree what the head work included.' },
+      review: { rating: 3, aspects: aspects(2, 4, 4, 3), body: 'The engine made its number on the dyno, but replies took a day or more and we needed a dispute to agree what the head work included.' },
     },
     {
-      racer: samir, shop: tobias, title: `${PAST_DEAL_PREFIX} rotary rebuild, refunded`,
+      racer: samir, shop: tobias, title: `${PAST_DEAL_PREFIX} jet boat engine, refunded`,
       past: { at: new Date(Date.now() - 90 * DAY), replyAfterH: 6, quoteAfterH: 48, orderStatus: 'completed', milestones: [
         { dueDay: 20, submittedDay: 19, state: 'released' }, { dueDay: 60, submittedDay: null, state: 'refunded', disputedDay: 70, pull: { peakHp: 402, minimumHp: 431 } },
       ] },
@@ -161,7 +161,7 @@ export async function seedDemoReviews(db: Db, platformFeeBps = 500): Promise<num
     const build = await firstBuild(d.shop)
     const request = await createRequest(ctx, d.racer, quoteRequestSchema.parse({
       builder: slug, build, title: d.title, targetHp: 600, targetTq: 500, targetStandard: 'SAE_J1349_2004', displacementCapCi: null, fuel: 'pump_gas', aspiration: 'na',
-      intendedUse: 'street_strip', transmission: 'manual', stallRpm: null, shiftRpm: 7000, budgetMinCents: 1_500_000, budgetMaxCents: 2_200_000, deadline: null, notes: 'An invented demo deal.',
+      intendedUse: d.shop === tobias ? 'marine' : 'street_strip', transmission: d.shop === tobias ? 'none' : 'manual', stallRpm: null, shiftRpm: 7000, budgetMinCents: 1_500_000, budgetMaxCents: 2_200_000, deadline: null, notes: 'An invented demo deal.',
     }))
     if (d.past.replyAfterH !== undefined) await postMessage(ctx, d.shop, request.id, { body: 'Thanks for the details; a few questions before we quote.', attachmentIds: [] })
     const q = await sendQuote(ctx, d.shop, request.id, quoteSchema.parse({
