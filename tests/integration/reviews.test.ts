@@ -141,7 +141,7 @@ describe('the shop\'s answer and hiding', () => {
     const racer = await actorByEmail(t.db, PEOPLE.racer)
     const ratings = [5, 2, 4]
     for (const [i, rating] of ratings.entries()) {
-      const order = await makeOrder(t.ctx, { builder: shop, racer, request: { builder: owner.shopSlug } })
+      const order = await makeOrder(t.ctx, { builder: shop, racer, request: { builder: owner.shopSlug! } })
       await pastDeal(t.db, { requestId: order.requestId, orderId: order.orderId, shopUserId: shop.id, at: new Date(Date.now() - 50 * DAY), quoteAfterH: 1, orderStatus: 'completed', milestones: [{ dueDay: 5, submittedDay: 5, state: 'released' }] })
       expect((await http.post(`/api/orders/${order.orderId}/review`, { ...good, rating }, jars.racer)).status).toBe(201)
       const { summary } = (await api(`/api/builders/${owner.shopSlug}/reviews`)).body
@@ -165,7 +165,7 @@ describe('the track record, against a hand-counted fixture of deals', () => {
 
   beforeAll(async () => {
     const account = await makeAccount({ role: 'builder' })
-    slug = account.shopSlug
+    slug = account.shopSlug!
     owner = await actorByEmail(t.db, account.email)
     shopId = owner.builderId!
     const racer = await actorByEmail(t.db, PEOPLE.racer)
