@@ -16,6 +16,7 @@ import { canonicalFilters } from '../../shared/search/saved'
 import type { SearchFilterParams } from '../../shared/schemas/search'
 import { seedDemoDeals, seedDemoDispute } from './seed-deals'
 import { demoSwapBuilds } from './seed-swaps'
+import { seedDemoReviews } from './seed-reviews'
 import { DEMO_ADMIN, DEMO_PASSWORD, DEMO_RACERS, DEMO_SHOPS, demoBuilds, pullCsv, type DemoPull } from './demo-data'
 
 const { builderProfiles, buildParts, builds, dynoPulls, files, pullFigures, users } = schema
@@ -149,6 +150,8 @@ export async function seedDemo(opts: { url: string, uploadsDir: string, payments
       // A demo whose payments fake lost its books (or another data folder) still starts: the dispute is a nicety.
       await seedDemoDispute(db, storage, stripe).catch((e: unknown) => console.warn(`› the demo dispute was not seeded: ${e instanceof Error ? e.message : String(e)}`))
     }
+    // Last, so the ids of the deals above stay the same with or without the dispute.
+    await seedDemoReviews(db)
     return { builds: all.length, created }
   }
   finally {

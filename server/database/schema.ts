@@ -647,3 +647,56 @@ export const classRules = mysqlTable('class_rules', {
 })
 
 export type ClassRulesRow = typeof classRules.$inferSelect
+// ── Reviews: a racer's word on a completed order, the shop's one answer, and the edits kept ──
+
+/** The named aspects a review may rate besides the overall rating (keys of shared/reviews/aspects.ts). */
+export interface ReviewAspects {
+  communication: number | null
+  keptToQuote: number | null
+  powerVsTarget: number | null
+  finishAndPaperwork: number | null
+}
+
+/**
+ * One review per order (the unique key), by the order's racer once the order is completed. The shop's
+ * one public answer lives on the row; an admin may hide it with a reason (and an audit row).
+ */
+export const reviews = mysqlTable('reviews', {
+  id: id(),
+  orderId: ref('order_id').notNull().references(() => orders.id),
+  builderId: ref('builder_id').notNull().references(() => builderProfiles.id, { onDelete: 'cascade' }),
+  buildId: ref('build_id').references(() => builds.id, { onDelete: 'set null' }),
+  authorId: ref('author_id').notNull().references(() => users.id),
+  rating: int('rating', { unsigned: true }).notNull(),
+  aspects: json('aspects').$type<ReviewAspects>().notNull(),
+  body: text('body').notNull(),
+  showDeliveryPull: boolean('show_delivery_pull').notNull().default(false),
+  answer: text('answer'),
+  answeredAt: at('answered_at'),
+  hiddenAt: at('hidden_at'),
+  hiddenReason: text('hidden_reason'),
+  hiddenBy: ref('hidden_by').references(() => users.id, { onDelete: 'set null' }),
+  editedAt: at('edited_at'),
+  createdAt: createdAt(),
+}, t => [
+  uniqueIndex('reviews_order_unique').on(t.orderId),
+  index('reviews_builder_idx').on(t.builderId, t.createdAt),
+  index('reviews_build_idx').on(t.buildId),
+  check('reviews_rating_range', sql`${t.rating} between 1 and 5`),
+])
+
+/** A review as it read before each edit, oldest first: edits within the window keep their history. */
+export const reviewEdits = mysqlTable('review_edits', {
+  id: id(),
+  reviewId: ref('review_id').notNull().references(() => reviews.id, { onDelete: 'cascade' }),
+  rating: int('rating', { unsigned: true }).notNull(),
+  aspects: json('aspects').$type<ReviewAspects>().notNull(),
+  body: text('body').notNull(),
+  showDeliveryPull: boolean('show_delivery_pull').notNull(),
+  /** When the replaced version was written (the review's creation, or its previous edit). */
+  writtenAt: at('written_at').notNull(),
+  createdAt: createdAt(),
+}, t => [index('review_edits_review_idx').on(t.reviewId, t.id)])
+
+export type Review = typeof reviews.$inferSelect
+export type ReviewEdit = typeof reviewEdits.$inferSelect

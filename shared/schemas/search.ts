@@ -105,6 +105,10 @@ export const forTargetQuery = z.strictObject({
   aspiration: z.preprocess(blankToUndefined, enumItem('aspiration', SEARCH_ASPIRATIONS).optional()),
   fuel: z.preprocess(blankToUndefined, enumItem('fuel', SEARCH_FUELS).optional()),
   limit: z.preprocess(blankToUndefined, z.coerce.number({ error: 'limit is a whole number' }).int('limit is a whole number').min(1, 'limit is at least 1').max(50, 'limit is at most 50').default(5)),
+  // The track record (README, "Reviews and track record"): order by it, or keep shops that reach a share on time or a count of completed orders.
+  sort: z.preprocess(blankToUndefined, enumItem('sort', ['score', 'record', 'proof'] as const).default('score')),
+  minOnTimePct: numberParam('minOnTimePct', 0, 100, ' %'),
+  minCompleted: numberParam('minCompleted', 0, 100000, ' orders', true),
 }, unknownParameter).superRefine((v, ctx) => {
   if (v.ci === undefined && (v.ciMin === undefined || v.ciMax === undefined)) ctx.addIssue({ code: 'custom', path: ['ci'], message: 'ci (the displacement) is required, or both ciMin and ciMax' })
   if (v.ciMin !== undefined && v.ciMax !== undefined && v.ciMin > v.ciMax) ctx.addIssue({ code: 'custom', path: ['ciMin'], message: 'ciMin is above ciMax' })

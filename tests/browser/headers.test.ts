@@ -67,6 +67,8 @@ describe('pages under the CSP in Chromium', () => {
     await visit('/search', '[data-test="main-nav"]')
     await visit(`/builds/${build!.slug}`, 'canvas')
     await visit('/tools', '[data-test="main-nav"]')
+    await visit('/builders/tallgrass-racing-engines', '[data-test="track-record"]')
+    await visit('/track-record/tallgrass-racing-engines/on-time', '[data-test="record-items"]')
     await visit('/sign-in', '[data-test="password-form"]')
     expect(problems).toEqual([])
   })

@@ -1,0 +1,12 @@
+import { idParams } from '#shared/schemas/common'
+import { hideReviewSchema } from '#shared/schemas/reviews'
+import { hideReview } from '../../../../services/reviews'
+
+/** Hides a review from the public pages with a reason; one audit row. Admins only. */
+export default defineEventHandler(async (event) => {
+  const admin = await requireRole(event, 'admin')
+  const { id } = await getValidatedRouterParams(event, validator(idParams))
+  const { reason } = await readValidatedBody(event, validator(hideReviewSchema))
+  await hideReview(useDb(), admin.id, id, reason)
+  return { ok: true }
+})
