@@ -11,6 +11,7 @@ import type { ReadStoredText } from './curves'
 import { refreshHeadline } from './headline'
 import { afterBuildChanged, ownBuild, type ShopRef } from './listing-editor'
 import { deleteFileRows, discard, insertFileRow, vetUpload, withStagedFiles, type IncomingFile, type UploadStore } from './listing-files'
+import { recordBuildChange } from './search-feed'
 
 export interface PullUpload {
   pull: IncomingFile
@@ -124,6 +125,7 @@ export async function savePull(db: Database, store: UploadStore, shop: ShopRef, 
       changeNote: meta.comparisonRole === 'variant' ? meta.changeNote : null,
     }).$returningId()
     await refreshHeadline(tx, buildId)
+    await recordBuildChange(tx, buildId)
     return row!.id
   })
   await afterBuildChanged(buildId)
@@ -146,6 +148,7 @@ export async function deletePull(db: Database, store: UploadStore, shop: ShopRef
     await tx.delete(dynoPulls).where(eq(dynoPulls.id, pullId))
     const removed = await deleteFileRows(tx, [pull.fileId, ...(pull.sheetFileId ? [pull.sheetFileId] : [])])
     await refreshHeadline(tx, buildId)
+    await recordBuildChange(tx, buildId)
     return removed
   })
   await discard(store, keys)
