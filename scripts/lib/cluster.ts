@@ -128,7 +128,9 @@ function nodeDefaults(opts: ClusterOptions, node: GaleraNode, all: GaleraNode[])
     `pid-file=${node.pidFile}`,
     `log-error=${node.log}`,
     'bind-address=127.0.0.1',
-    ...(isRoot() ? ['user=root'] : []),
+    // Started by root, the nodes run as Debian's mysql account: rsync's state-transfer daemon, started by
+    // root, would drop to "nobody" and could not write the joiner's folder.
+    ...(isRoot() ? ['user=mysql'] : []),
     'default-time-zone=+00:00',
     'skip-name-resolve',
     'character-set-server=utf8mb4',
@@ -260,6 +262,7 @@ export async function startCluster(opts: ClusterOptions): Promise<Cluster> {
   for (const node of nodes) {
     mkdirSync(resolve(node.dir, 'data'), { recursive: true })
     writeFileSync(node.cnf, nodeDefaults(opts, node, nodes))
+    if (isRoot()) spawnSync('chown', ['-R', 'mysql:mysql', node.dir])
   }
   const closers: (() => Promise<void>)[] = []
   const close = async () => {
@@ -269,7 +272,7 @@ export async function startCluster(opts: ClusterOptions): Promise<Cluster> {
   try {
     // Node 1 starts a new cluster from a fresh system schema; the others join and receive it by rsync.
     const first = nodes[0]!
-    const init = spawnSync('mariadb-install-db', [`--defaults-file=${first.cnf}`, '--auth-root-authentication-method=socket', '--skip-test-db'], { encoding: 'utf8' })
+    const init = spawnSync('mariadb-install-db', [`--defaults-file=${first.cnf}`, '--auth-root-authentication-method=socket', '--skip-test-db', ...(isRoot() ? ['--user=mysql'] : [])], { encoding: 'utf8' })
     if (init.status !== 0) throw new UserFacingError(`mariadb-install-db failed: ${(init.stderr || init.stdout).trim().split('\n').pop()}`)
     closers.push(async () => {
       for (const node of [...nodes].reverse()) {
