@@ -7,7 +7,7 @@ import { randomBytes } from 'node:crypto'
 import { cpus, loadavg } from 'node:os'
 import { parseArgs } from 'node:util'
 import mysql from 'mysql2/promise'
-import { DEMO_PASSWORD, DEMO_SHOPS } from '../demo-data'
+import { DEMO_PASSWORD, DEMO_RACERS, DEMO_SHOPS } from '../demo-data'
 import { buildIfStale } from '../app'
 import { clusterOptions, startCluster, type Cluster } from '../cluster'
 import { loadConfig } from '../config'
@@ -69,6 +69,38 @@ async function runProbe(client: Client, cluster: Cluster, phase: PhaseRun, probe
   }
 }
 
+/**
+ * Sessions across instances: a sign-in on A is honoured on B; a password change made on B signs out
+ * the account's other session (started on C) on every instance, and the changer's own renewed cookie
+ * goes on working. The password is set back at the end, before the load signs in.
+ */
+async function checkSessions(client: Client, cluster: Cluster): Promise<string[]> {
+  const [a, b, c] = cluster.apps as [typeof cluster.apps[0], typeof cluster.apps[0], typeof cluster.apps[0]]
+  const email = DEMO_RACERS.at(-1)!.email
+  const address = '10.250.1.1'
+  const headers = { 'x-forwarded-for': address, 'content-type': 'application/json' }
+  const [x, y] = [new CookieJar(), new CookieJar()]
+  const lines: string[] = []
+  const problems: string[] = []
+  const expect = (what: string, got: number, want: number) => {
+    lines.push(`  ${what}: ${got}${got === want ? '' : ` (expected ${want})`}`)
+    if (got !== want) problems.push(`${what} answered ${got}, not ${want}`)
+  }
+  const refusedX = await signIn(client, a.base, x, address, email, DEMO_PASSWORD)
+  const refusedY = await signIn(client, c.base, y, address, email, DEMO_PASSWORD)
+  if (refusedX || refusedY) return [`sign-in for the session check failed: ${refusedX ?? refusedY}`]
+  const me = (base: string, jar: CookieJar) => client.send(`${base}/api/me`, { jar, headers })
+  expect(`signed in on ${a.name}, GET /api/me on ${b.name}`, (await me(b.base, x)).status, 200)
+  const changed = await client.send(`${b.base}/api/me/password`, { method: 'POST', jar: x, headers, body: JSON.stringify({ currentPassword: DEMO_PASSWORD, newPassword: `${DEMO_PASSWORD}-changed` }) })
+  expect(`password changed on ${b.name}`, changed.status, 200)
+  expect(`the other session (signed in on ${c.name}) on ${a.name} afterwards`, (await me(a.base, y)).status, 401)
+  expect(`the other session on ${c.name} afterwards`, (await me(c.base, y)).status, 401)
+  expect(`the changer's renewed session on ${c.name}`, (await me(c.base, x)).status, 200)
+  const back = await client.send(`${a.base}/api/me/password`, { method: 'POST', jar: x, headers, body: JSON.stringify({ currentPassword: `${DEMO_PASSWORD}-changed`, newPassword: DEMO_PASSWORD }) })
+  expect(`password set back on ${a.name}`, back.status, 200)
+  return problems.length ? problems : lines
+}
+
 async function main() {
   const { values } = parseArgs({
     args: process.argv.slice(2).filter(a => a !== '--cluster'),
@@ -92,6 +124,10 @@ async function main() {
   const client = new Client(users + 16, 10_000)
   const failures: string[] = []
   try {
+    log('› sessions across instances:')
+    const sessionLines = await checkSessions(client, cluster)
+    for (const line of sessionLines) log(line)
+    if (!sessionLines.every(l => l.startsWith('  '))) failures.push(...sessionLines)
     const pop = await preparePopulation(client, [cluster.base], users, Number(values.seed), runId, log)
     const node = cluster.nodes[1]!
     const app = cluster.apps[2]!
