@@ -194,8 +194,11 @@ async function startGalera(node: GaleraNode, bootstrap: boolean): Promise<void> 
 }
 
 function haproxyConfig(opts: ClusterOptions, nodes: GaleraNode[], apps: AppInstance[], lbPort: number): string {
-  // Each app instance writes through its own node, the others standing by: writes land on all three
-  // nodes (Galera certifies them against each other), and an instance whose node dies moves to the next.
+  // Every instance writes through node 1, the others standing by (one writer at a time is Galera's
+  // common practice: a hot row, such as one account's sign-in bucket, then waits on an InnoDB lock
+  // instead of losing certification again and again); when node 1 dies every instance moves to node 2.
+  // TW_CLUSTER_SPREAD_WRITES=1 gives each instance its own node instead, to exercise certification conflicts.
+  const spread = process.env.TW_CLUSTER_SPREAD_WRITES === '1'
   const dbSections = apps.flatMap((app, i) => [
     `listen db_${app.name}`,
     `  bind 127.0.0.1:${app.dbPort}`,
@@ -203,7 +206,7 @@ function haproxyConfig(opts: ClusterOptions, nodes: GaleraNode[], apps: AppInsta
     '  option mysql-check user haproxy',
     '  timeout client 1h',
     '  timeout server 1h',
-    ...nodes.map((n, k) => `  server ${n.name} 127.0.0.1:${n.port} check inter 1s rise 2 fall 2 on-marked-down shutdown-sessions${k === i % nodes.length ? '' : ' backup'}`),
+    ...nodes.map((n, k) => `  server ${n.name} 127.0.0.1:${n.port} check inter 1s rise 3 fall 2 on-marked-down shutdown-sessions${k === (spread ? i % nodes.length : 0) ? '' : ' backup'}`),
     '',
   ])
   return [
@@ -214,6 +217,9 @@ function haproxyConfig(opts: ClusterOptions, nodes: GaleraNode[], apps: AppInsta
     '  timeout connect 3s',
     '  timeout client 30s',
     '  timeout server 30s',
+    // A health answer may take a while on a busy machine: an instance is marked down after three
+    // missed checks of 4 s, not after one slow one.
+    '  timeout check 4s',
     '  retries 2',
     '',
     'frontend web',
@@ -230,7 +236,7 @@ function haproxyConfig(opts: ClusterOptions, nodes: GaleraNode[], apps: AppInsta
     '  retry-on conn-failure empty-response',
     '  option httpchk GET /api/health',
     '  http-check expect status 200',
-    ...apps.map(a => `  server ${a.name} 127.0.0.1:${a.port} check inter 1s rise 2 fall 2`),
+    ...apps.map(a => `  server ${a.name} 127.0.0.1:${a.port} check inter 1s rise 2 fall 3`),
     '',
     ...dbSections,
   ].join('\n')
@@ -374,7 +380,7 @@ export async function startCluster(opts: ClusterOptions): Promise<Cluster> {
     })
     await Promise.all(apps.map(async (app) => {
       await startApp(app)
-      log(`› ${app.name} on ${app.base} (database through 127.0.0.1:${app.dbPort} → ${nodes[apps.indexOf(app) % nodes.length]!.name} first)`)
+      log(`› ${app.name} on ${app.base} (database through 127.0.0.1:${app.dbPort} → ${nodes[process.env.TW_CLUSTER_SPREAD_WRITES === '1' ? apps.indexOf(app) % nodes.length : 0]!.name} first)`)
     }))
     // The balancer marks the instances up after two good health checks.
     await waitFor('the balancer to reach the instances', async () => {

@@ -106,7 +106,7 @@ async function main() {
     args: process.argv.slice(2).filter(a => a !== '--cluster'),
     options: {
       'duration': { type: 'string', default: '60' },
-      'users': { type: 'string', default: '120' },
+      'users': { type: 'string', default: '60' },
       'kill-at': { type: 'string', default: '20' },
       'down': { type: 'string', default: '12' },
       'seed': { type: 'string', default: '1' },
@@ -129,7 +129,8 @@ async function main() {
     for (const line of sessionLines) log(line)
     if (!sessionLines.every(l => l.startsWith('  '))) failures.push(...sessionLines)
     const pop = await preparePopulation(client, [cluster.base], users, Number(values.seed), runId, log)
-    const node = cluster.nodes[1]!
+    // Node 1 is the one every instance writes through: its death moves them all to node 2.
+    const node = cluster.nodes[0]!
     const app = cluster.apps[2]!
     const at = { killed: 0, nodeBack: 0, appBack: 0 }
     const probes: Probe[] = []
@@ -188,15 +189,22 @@ async function main() {
     log('\nReconciliation against MariaDB (node 1):')
     for (const line of reconciliationLines(r)) log(line)
     if (!reconciled(r)) failures.push('acknowledged writes were lost or doubled')
-    // Every node holds the same rows once the restarted one is Synced.
+    // Every node holds the same rows once the restarted one is Synced. A request the client gave up on
+    // may still be finishing on the server: wait out the client timeout, and read each node causally (wsrep_sync_wait).
+    await sleep(10_000)
     const counts: string[] = []
+    const galera: string[] = []
     for (const n of cluster.nodes) {
       const c = await mysql.createConnection({ uri: cluster.dbUrl.replace(`:${cluster.nodes[0]!.port}/`, `:${n.port}/`) })
+      await c.query('SET SESSION wsrep_sync_wait = 1')
+      const [status] = await c.query('SHOW STATUS WHERE Variable_name IN (\'wsrep_replicated\', \'wsrep_local_cert_failures\', \'wsrep_local_bf_aborts\', \'wsrep_flow_control_paused\')') as unknown as [{ Variable_name: string, Value: string }[]]
+      galera.push(`${n.name}: ${status.map(v => `${v.Variable_name.replace('wsrep_', '')} ${v.Value}`).join(', ')}`)
       const [[row]] = await c.query('select (select count(*) from request_messages) as m, (select count(*) from builds) as b, (select coalesce(max(id), 0) from build_changes) as f') as unknown as [[{ m: number, b: number, f: number }]]
       counts.push(`${n.name}: ${row.m} messages, ${row.b} builds, feed at ${row.f}`)
       await c.end()
     }
     log(`  rows on each node: ${counts.join('; ')}`)
+    log(`  Galera counters (since each node's last start): ${galera.join('; ')}`)
     if (new Set(counts.map(c => c.replace(/^node\d: /, ''))).size !== 1) failures.push('the nodes do not hold the same rows')
     log(`outbox: ${cluster.mailSent()} e-mails reached the SMTP sink`)
     log(`1-minute load average at the end: ${loadavg()[0]!.toFixed(2)} (load generator, three app instances, three MariaDB nodes and HAProxy share ${cpus().length} cores)`)
