@@ -231,9 +231,11 @@ function haproxyConfig(opts: ClusterOptions, nodes: GaleraNode[], apps: AppInsta
     'backend apps',
     '  mode http',
     '  balance roundrobin',
-    // A request refused at connect (instance gone) goes to another instance; one already sent is not repeated.
+    // A request refused at connect (instance gone) goes to another instance. One already sent is never
+    // sent again (no retry on an empty or missing answer): a message post that reached a dying instance
+    // may have been written, and a replay would write it twice.
     '  option redispatch',
-    '  retry-on conn-failure empty-response',
+    '  retry-on conn-failure',
     '  option httpchk GET /api/health',
     '  http-check expect status 200',
     ...apps.map(a => `  server ${a.name} 127.0.0.1:${a.port} check inter 1s rise 2 fall 3`),
