@@ -15,12 +15,14 @@ import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
 import { createSearchIndex } from '../../search/index'
 import { syntheticDocuments } from '../../search/synthetic'
 import type { Database } from '../../server/database/types'
+import { autoApproveDue, submitMilestone } from '../../server/services/milestones'
 import { announceBuild } from '../../server/services/saved-searches'
 import { createFeedReader, feedHead, recordBuildChange } from '../../server/services/search-feed'
 import { approvePull } from '../../server/services/verification'
 import { mariadbStorage } from '../../server/utils/mariadb-storage'
 import { as, makeAccount, signIn } from '../support/auth'
 import { api, schema, testDb } from '../support/context'
+import { dealTestContext, fundMilestone, makeOrder, milestoneRow } from '../support/deals'
 import { makeBuildAwaitingCheck, seededUser } from '../support/fixtures'
 import { eventually } from '../support/payments'
 
@@ -171,6 +173,33 @@ describe('a saved-search alert with several instances', () => {
     // At most one of the two test instances wrote it (none when the server was first).
     expect(results.reduce((n, r) => n + r.announced, 0)).toBeLessThanOrEqual(1)
     await ctx.db.delete(schema.savedSearches).where(inArray(schema.savedSearches.id, [saved.body.id]))
+  })
+})
+
+describe('automatic approvals with several instances', () => {
+  it('approves and pays out a due milestone once when two instances run the approvals at the same moment', async () => {
+    const [one, two] = await Promise.all([dealTestContext(), dealTestContext()])
+    try {
+      const { racer, builder, milestones } = await makeOrder(one.ctx)
+      const m = milestones[0]!
+      await fundMilestone(one.ctx, racer, m.id)
+      await submitMilestone(one.ctx, builder, m.id, { notes: 'Done.', proofFileIds: [], deliveryPullId: null })
+      const due = new Date((await milestoneRow(one.db, m.id)).submittedAt!.getTime() + 8 * 86_400_000)
+      const runs = await Promise.all([autoApproveDue({ ...one.ctx, now: () => due }), autoApproveDue({ ...two.ctx, now: () => due })])
+      // Other due milestones of earlier tests may be approved here too; this one counts once between the two runs.
+      expect(runs.reduce((n, r) => n + r.approved, 0)).toBeGreaterThanOrEqual(1)
+      expect((await milestoneRow(one.db, m.id)).state).toBe('released')
+      const events = await ctx.db.select().from(schema.dealEvents).where(eq(schema.dealEvents.milestoneId, m.id))
+      expect(events.filter(e => e.action === 'milestone_auto_approved')).toHaveLength(1)
+      expect(events.filter(e => e.action === 'milestone_released')).toHaveLength(1)
+      const transfers = (await ctx.db.select().from(schema.payments).where(eq(schema.payments.milestoneId, m.id))).filter(p => p.kind === 'transfer')
+      expect(transfers).toHaveLength(1)
+      const mails = await ctx.db.select().from(schema.mailOutbox).where(inArray(schema.mailOutbox.dedupeKey, [`approved:${m.id}:racer`, `approved:${m.id}:builder`]))
+      expect(mails).toHaveLength(2)
+    }
+    finally {
+      await Promise.all([one.close(), two.close()])
+    }
   })
 })
 
