@@ -27,6 +27,8 @@ export default defineNuxtConfig({
     smtpPort: '1025',
     mailFrom: 'Torquewright <no-reply@torquewright.test>',
     uploadsDir: '',
+    // Where uploads live: 'fs' (the folder above, one machine or a shared mount) or 'mariadb' (rows, replicated by Galera).
+    uploadsDriver: 'fs',
     // NUXT_TRUST_PROXY=1 behind a load balancer: rate limits then key on its X-Forwarded-For entry.
     trustProxy: '',
     // Payments: the SDK talks to the local fake when a host is set, to Stripe itself when not (README, Payments).

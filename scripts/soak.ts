@@ -178,7 +178,13 @@ async function main() {
   process.exit(failures.length ? 1 : 0)
 }
 
-main().catch((err) => {
-  console.error(err instanceof UserFacingError ? err.message : err)
-  process.exit(1)
-})
+// `--cluster`: the same load through the Galera cluster's balancer, with a node and an instance killed (scripts/lib/soak/cluster-run.ts).
+if (process.argv.includes('--cluster')) {
+  void import('./lib/soak/cluster-run')
+}
+else {
+  main().catch((err) => {
+    console.error(err instanceof UserFacingError ? err.message : err)
+    process.exit(1)
+  })
+}

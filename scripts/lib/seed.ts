@@ -5,6 +5,7 @@ import { drizzle, type MySql2Database } from 'drizzle-orm/mysql2'
 import mysql from 'mysql2/promise'
 import { createStorage } from 'unstorage'
 import fsDriver from 'unstorage/drivers/fs'
+import { mariadbStorage } from '../../server/utils/mariadb-storage'
 import { headlinePull } from '../../shared/pulls/headline'
 import { evaluatePull } from '../../shared/pulls/evaluate'
 import type { EvidenceCheck } from '../../shared/engine/types'
@@ -34,10 +35,11 @@ async function ensureUser(db: Db, u: { name: string, email: string, role: 'racer
  * Given the local payments fake, it also seeds an open dispute paid through it; with `savedSearches`, two racers'
  * saved searches (the tests seed without either, so their own searches and mail stay theirs alone).
  */
-export async function seedDemo(opts: { url: string, uploadsDir: string, paymentsFake?: { port: number, secretKey: string }, savedSearches?: boolean }): Promise<{ builds: number, created: number }> {
+export async function seedDemo(opts: { url: string, uploadsDir: string, uploadsDriver?: 'fs' | 'mariadb', paymentsFake?: { port: number, secretKey: string }, savedSearches?: boolean }): Promise<{ builds: number, created: number }> {
   const connection = await mysql.createConnection({ uri: opts.url, timezone: 'Z' })
   const db = drizzle(connection, { schema, mode: 'default' })
-  const storage = createStorage({ driver: fsDriver({ base: opts.uploadsDir }) })
+  // The same storage the app mounts (server/plugins/storage.ts): a folder, or MariaDB's stored_files rows.
+  const storage = createStorage({ driver: opts.uploadsDriver === 'mariadb' ? mariadbStorage({ db: () => db }) : fsDriver({ base: opts.uploadsDir }) })
   let created = 0
   try {
     const passwordHash = await hash(DEMO_PASSWORD)

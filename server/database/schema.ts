@@ -1,6 +1,6 @@
 import { sql } from 'drizzle-orm'
 import {
-  bigint, boolean, char, check, date, datetime, decimal, double, index, int, json, mysqlEnum, mysqlTable, text, uniqueIndex, varchar,
+  bigint, boolean, char, check, customType, date, datetime, decimal, double, index, int, json, mysqlEnum, mysqlTable, text, uniqueIndex, varchar,
 } from 'drizzle-orm/mysql-core'
 import { REQUIRED_FOR_PUBLISH } from '../../shared/schemas/build'
 import type { CorrectionStandard, EvidenceCheck } from '../../shared/engine/types'
@@ -700,3 +700,27 @@ export const reviewEdits = mysqlTable('review_edits', {
 
 export type Review = typeof reviews.$inferSelect
 export type ReviewEdit = typeof reviewEdits.$inferSelect
+/**
+ * The change feed of the search index: one row per change to a build, written in the same transaction
+ * as the change, read in position order by every server instance (server/services/search-feed.ts) so a
+ * change made on one instance reaches the others' indexes within a second. Append-only; old rows are pruned.
+ */
+export const buildChanges = mysqlTable('build_changes', {
+  id: id(),
+  buildId: ref('build_id').notNull(),
+  createdAt: createdAt(),
+}, t => [index('build_changes_created_idx').on(t.createdAt)])
+
+/** Bytes as MariaDB's LONGBLOB (up to 4 GB; an upload is at most 10 MB, shared/uploads.ts). */
+const longblob = customType<{ data: Buffer, driverData: Buffer }>({ dataType: () => 'longblob' })
+
+/**
+ * Uploaded files' bytes when the uploads storage is MariaDB (NUXT_UPLOADS_DRIVER=mariadb): the files
+ * then replicate with the rows, so every server instance on a Galera cluster reads every upload.
+ */
+export const storedFiles = mysqlTable('stored_files', {
+  storageKey: varchar('storage_key', { length: 255 }).primaryKey(),
+  body: longblob('body').notNull(),
+  sizeBytes: int('size_bytes', { unsigned: true }).notNull(),
+  updatedAt: updatedAt(),
+})

@@ -13,6 +13,7 @@ import { refreshHeadline } from './headline'
 import { afterBuildChanged, ownBuild, type ShopRef } from './listing-editor'
 import { storePullFigures } from './pull-figures'
 import { deleteFileRows, discard, insertFileRow, vetUpload, withStagedFiles, type IncomingFile, type UploadStore } from './listing-files'
+import { recordBuildChange } from './search-feed'
 
 export interface PullUpload {
   pull: IncomingFile
@@ -128,6 +129,7 @@ export async function savePull(db: Database, store: UploadStore, shop: ShopRef, 
     // The pull's derived figures under every standard, stored with it so no page parses the file again.
     await storePullFigures(tx, row!.id, evaluation.figures)
     await refreshHeadline(tx, buildId)
+    await recordBuildChange(tx, buildId)
     return row!.id
   })
   await afterBuildChanged(buildId)
@@ -150,6 +152,7 @@ export async function deletePull(db: Database, store: UploadStore, shop: ShopRef
     await tx.delete(dynoPulls).where(eq(dynoPulls.id, pullId))
     const removed = await deleteFileRows(tx, [pull.fileId, ...(pull.sheetFileId ? [pull.sheetFileId] : [])])
     await refreshHeadline(tx, buildId)
+    await recordBuildChange(tx, buildId)
     return removed
   })
   await discard(store, keys)

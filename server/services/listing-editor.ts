@@ -7,6 +7,7 @@ import { buildParts, buildPhotos, builds, dynoPulls, type Build } from '../datab
 import type { Database } from '../database/types'
 import { inRetriedTransaction } from '../utils/transaction'
 import { refreshHeadline } from './headline'
+import { recordBuildChange } from './search-feed'
 import { deleteFileRows, discard, type Tx, type UploadStore } from './listing-files'
 
 /** The caller's shop, as the builder guard returns it. */
@@ -162,6 +163,7 @@ export async function updateBuild(db: Database, shop: ShopRef, buildId: number, 
       // The row's updated_at marks the autosave even when only the parts changed.
       if (!Object.keys(columns).length) await tx.update(builds).set({ updatedAt: new Date() }).where(eq(builds.id, buildId))
     }
+    await recordBuildChange(tx, buildId)
   })
   await afterBuildChanged(buildId)
 }
@@ -194,6 +196,7 @@ export async function changeStatus(db: Database, shop: ShopRef, buildId: number,
     if (!rule.from.includes(build.status)) throw createError({ status: 409, message: `A listing that is ${build.status} cannot be asked to ${action}.` })
     if (action !== 'publish') {
       await tx.update(builds).set({ status: rule.to }).where(eq(builds.id, buildId))
+      await recordBuildChange(tx, buildId)
       return { status: rule.to, slug: build.slug }
     }
     const issues = publishIssues(build, await livePullCount(tx, buildId))
@@ -201,6 +204,7 @@ export async function changeStatus(db: Database, shop: ShopRef, buildId: number,
     const slug = build.publishedAt ? build.slug : await freeSlug(tx, buildId, build.title)
     await tx.update(builds).set({ status: 'published', slug, publishedAt: build.publishedAt ?? new Date() }).where(eq(builds.id, buildId))
     await refreshHeadline(tx, buildId)
+    await recordBuildChange(tx, buildId)
     return { status: 'published' as const, slug }
   })
   await afterBuildChanged(buildId)
@@ -230,6 +234,7 @@ export async function deleteBuild(db: Database, store: UploadStore, shop: ShopRe
       }
       throw error
     }
+    await recordBuildChange(tx, buildId)
     return deleteFileRows(tx, fileIds)
   })
   await discard(store, keys)

@@ -5,6 +5,7 @@ import type { Database } from '../database/types'
 import { inRetriedTransaction } from '../utils/transaction'
 import { afterBuildChanged, ownBuild, type ShopRef } from './listing-editor'
 import { deleteFileRows, discard, insertFileRow, vetUpload, withStagedFiles, type IncomingFile, type UploadStore } from './listing-files'
+import { recordBuildChange } from './search-feed'
 
 /** Most photos one listing shows. */
 export const MAX_PHOTOS = 12
@@ -19,6 +20,7 @@ export async function addPhoto(db: Database, store: UploadStore, shop: ShopRef, 
     if ((stats?.n ?? 0) >= MAX_PHOTOS) throw createError({ status: 409, message: `A listing shows at most ${MAX_PHOTOS} photos; remove one first.` })
     const fileId = await insertFileRow(tx, shop.userId, staged!)
     const [row] = await tx.insert(buildPhotos).values({ buildId, fileId, position: (stats?.last ?? -1) + 1, caption: input.caption }).$returningId()
+    await recordBuildChange(tx, buildId)
     return row!.id
   })
   await afterBuildChanged(buildId)
@@ -32,6 +34,7 @@ export async function removePhoto(db: Database, store: UploadStore, shop: ShopRe
     const [photo] = await tx.select().from(buildPhotos).where(and(eq(buildPhotos.id, photoId), eq(buildPhotos.buildId, buildId)))
     if (!photo) throw createError({ status: 404, message: 'That build has no such photo.' })
     await tx.delete(buildPhotos).where(eq(buildPhotos.id, photoId))
+    await recordBuildChange(tx, buildId)
     return deleteFileRows(tx, [photo.fileId])
   })
   await discard(store, keys)

@@ -7,6 +7,7 @@ import { auditLog, builderProfiles, builds, dynoPulls, users } from '../database
 import type { Database } from '../database/types'
 import { inRetriedTransaction } from '../utils/transaction'
 import { writeAudit } from './audit'
+import { recordBuildChange } from './search-feed'
 
 const likePattern = (text: string) => `%${text.replace(/[\\%_]/g, c => `\\${c}`)}%`
 
@@ -84,6 +85,7 @@ export async function unpublishListing(db: Database, input: { actorId: number, b
     })
     const [owner] = await tx.select({ email: users.email, name: users.name }).from(builderProfiles)
       .innerJoin(users, eq(users.id, builderProfiles.userId)).where(eq(builderProfiles.id, build.builderId))
+    await recordBuildChange(tx, build.id)
     return { buildId: build.id, buildSlug: build.slug, buildTitle: build.title, email: owner!.email, name: owner!.name }
   })
 }

@@ -7,6 +7,7 @@ import type { NotificationSettingsPatch, NotificationsQuery } from '../../shared
 import type { NotificationList } from '../../shared/types/notifications'
 import { dealEvents, notificationSettings, quoteRequests, users } from '../database/schema'
 import type { Database } from '../database/types'
+import { inRetriedTransaction } from '../utils/transaction'
 import type { DealActor, Executor } from './deal-context'
 import type { DealMail } from './mail-templates'
 
@@ -114,7 +115,8 @@ export async function unreadCount(db: Executor, actor: DealActor): Promise<numbe
 
 /** Switches groups of deal e-mail on or off for the actor; answers every switch as it now stands. */
 export async function updateEmailSwitches(db: Database, actor: DealActor, patch: NotificationSettingsPatch): Promise<{ email: Record<EmailGroup, boolean> }> {
-  const off = await db.transaction(async (tx) => {
+  // Safe to repeat: it applies the same switches to whatever is stored when it runs.
+  const off = await inRetriedTransaction(db, async (tx) => {
     // The user's row first (the house lock order), so two changes at once apply one after the other.
     await tx.select({ id: users.id }).from(users).where(eq(users.id, actor.id)).limit(1).for('update')
     const current = new Set((await settingsOf(tx, actor.id)).emailOff)

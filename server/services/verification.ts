@@ -16,6 +16,7 @@ import { writeAudit } from './audit'
 import { enqueueRendered } from './outbox'
 import { refreshHeadline } from './headline'
 import { pullFiguresFor } from './pull-figures'
+import { recordBuildChange } from './search-feed'
 
 type Tx = Parameters<Parameters<Database['transaction']>[0]>[0]
 /** Reads a stored file's text by its storage key (Nitro storage on the server, the uploads folder in tests). */
@@ -272,6 +273,7 @@ export async function approvePull(db: Database, input: { actorId: number, pullId
       const mail = adminEmails.pullVerified({ name: owner.name, pullLabel: pull.label, buildTitle: build!.title, buildUrl: `${input.siteUrl ?? ''}/builds/${build!.slug}` })
       await enqueueRendered(tx, owner.email, mail, `pull-verified:${pull.id}`)
     }
+    await recordBuildChange(tx, pull.buildId)
     return pull.buildId
   })
 }
@@ -301,6 +303,7 @@ export async function rejectPull(db: Database, input: { actorId: number, pullId:
     const [owner] = await tx.select({ email: users.email, name: users.name })
       .from(builderProfiles).innerJoin(users, eq(users.id, builderProfiles.userId))
       .where(eq(builderProfiles.id, build!.builderId))
+    await recordBuildChange(tx, pull.buildId)
     return { buildId: pull.buildId, buildSlug: build!.slug, buildTitle: build!.title, pullLabel: pull.label, email: owner!.email, name: owner!.name }
   })
 }

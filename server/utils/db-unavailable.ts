@@ -18,9 +18,15 @@ const UNAVAILABLE_CODES = new Set([
 /**
  * Server error numbers of the same (MariaDB error codes reference): 1040 too many connections,
  * 1053 server shutdown in progress, 1077 normal shutdown, 1079 shutdown complete, 1152 and 1184
- * aborted connection, 1203 too many connections for the user, 1927 connection killed (MariaDB's own).
+ * aborted connection, 1203 too many connections for the user, 1927 connection killed (MariaDB's own),
+ * and 1047, which a Galera node answers while it is not part of the primary component or still
+ * joining ("WSREP has not yet prepared node for application use", MariaDB's Galera documentation).
  */
-const UNAVAILABLE_ERRNOS = new Set([1040, 1053, 1077, 1079, 1152, 1184, 1203, 1927])
+const UNAVAILABLE_ERRNOS = new Set([1040, 1047, 1053, 1077, 1079, 1152, 1184, 1203, 1927])
+
+/** mysql2's error for a command on a connection it has already closed (a fatal error without a code, for example a rollback after the server went away). */
+const CLOSED_CONNECTION = /connection is in closed state/i
+export const CONNECTION_CLOSED = 'CONNECTION_CLOSED'
 
 interface CodedError { code?: unknown, errno?: unknown, cause?: unknown }
 
@@ -34,6 +40,7 @@ export function databaseUnavailableCode(error: unknown): string | null {
     const { code, errno, cause } = current as CodedError
     if (typeof code === 'string' && UNAVAILABLE_CODES.has(code)) return code
     if (typeof errno === 'number' && UNAVAILABLE_ERRNOS.has(errno)) return typeof code === 'string' ? code : `ERRNO_${errno}`
+    if ((current as { fatal?: unknown }).fatal === true && current instanceof Error && CLOSED_CONNECTION.test(current.message)) return CONNECTION_CLOSED
     current = cause
   }
   return null

@@ -25,6 +25,19 @@ describe('databaseUnavailableCode', () => {
     expect(databaseUnavailableCode(wrapped({ errno: 1927 }))).toBe('ERRNO_1927')
   })
 
+  // 1047 is what a Galera node answers before it has joined the primary component (MariaDB's Galera documentation).
+  it('reads a Galera node that is not ready yet (1047) as the database being away', () => {
+    expect(databaseUnavailableCode(wrapped({ code: 'ER_UNKNOWN_COM_ERROR', errno: 1047 }))).toBe('ER_UNKNOWN_COM_ERROR')
+  })
+
+  it('reads mysql2\'s fatal "connection is in closed state" (a rollback after the server went away) as the database being away', () => {
+    const closed = Object.assign(new Error('Can\'t add new command when connection is in closed state'), { fatal: true })
+    const rollback = Object.assign(new Error('wrapped'), { statusCode: 500, cause: new Error('Failed query: rollback', { cause: closed }) })
+    expect(databaseUnavailableCode(rollback)).toBe('CONNECTION_CLOSED')
+    // The same words without the driver's fatal mark are someone else's error.
+    expect(databaseUnavailableCode(wrapped({ message: 'connection is in closed state' }))).toBeNull()
+  })
+
   it.each([
     ['a duplicate key', { code: 'ER_DUP_ENTRY', errno: 1062 }],
     ['a syntax error', { code: 'ER_PARSE_ERROR', errno: 1064 }],
