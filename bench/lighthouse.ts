@@ -24,6 +24,11 @@ try {
     rows.push(`  ${page.name.padEnd(11)} ${score('performance')}  ${score('accessibility')}  ${score('best-practices')}   LCP ${ms('largest-contentful-paint').padStart(8)} · CLS ${(audits['cumulative-layout-shift']?.numericValue ?? 0).toFixed(3)} · TBT ${ms('total-blocking-time')}`)
     const failed = Object.values(audits).filter(a => a.score !== null && a.score < 1 && categories.accessibility?.auditRefs.some(r => r.id === a.id && r.weight > 0))
     if (failed.length) rows.push(`              accessibility audits not passed: ${failed.map(a => a.id).join(', ')}`)
+    // Which elements moved, when the page shifts more than the 0.05 the pages aim for.
+    const shifts = (audits['layout-shifts']?.details as { items?: { score?: number, node?: { selector?: string, nodeLabel?: string } }[] } | undefined)?.items ?? []
+    if ((audits['cumulative-layout-shift']?.numericValue ?? 0) > 0.05) {
+      for (const item of shifts.slice(0, 3)) rows.push(`              shift ${(item.score ?? 0).toFixed(3)}: ${item.node?.selector ?? '?'} (${(item.node?.nodeLabel ?? '').slice(0, 60)})`)
+    }
   }
 }
 finally {

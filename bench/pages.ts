@@ -7,6 +7,7 @@
  */
 import { spawn, type ChildProcess } from 'node:child_process'
 import { createHash } from 'node:crypto'
+import { get as httpGet } from 'node:http'
 import { existsSync, mkdirSync, readFileSync, rmSync, symlinkSync, writeFileSync } from 'node:fs'
 import { createRequire } from 'node:module'
 import { loadavg } from 'node:os'
@@ -180,6 +181,19 @@ export interface FirstLoad {
   served: string
 }
 
+/** The bytes the server sends for a URL, as they come (fetch would decode them), and their Content-Encoding. */
+function onTheWire(url: string, acceptEncoding: string): Promise<{ bytes: number, encoding: string | null }> {
+  return new Promise((resolveWire, reject) => {
+    httpGet(url, { headers: { 'accept-encoding': acceptEncoding } }, (res) => {
+      let bytes = 0
+      res.on('data', (chunk: Buffer) => {
+        bytes += chunk.length
+      })
+      res.on('end', () => resolveWire({ bytes, encoding: res.headers['content-encoding'] ?? null }))
+    }).on('error', reject)
+  })
+}
+
 /** First-load bytes of one page: raw and compressed (gzip -9, brotli 11) sizes of its HTML, scripts and styles. */
 export async function firstLoad(base: string, path: string): Promise<FirstLoad> {
   const res = await fetch(base + path, { headers: { 'accept-encoding': 'identity' } })
@@ -195,9 +209,8 @@ export async function firstLoad(base: string, path: string): Promise<FirstLoad> 
     }
     return out
   }
-  const asked = await fetch(base + path, { headers: { 'accept-encoding': 'br, gzip' } })
-  const sentBytes = (await asked.arrayBuffer()).byteLength
-  const served = `${asked.headers.get('content-encoding') ?? 'uncompressed'}${asked.headers.get('content-encoding') ? ` (${kb(Number(asked.headers.get('content-length') ?? 0) || sentBytes)} on the wire)` : ''}`
+  const asked = await onTheWire(base + path, 'br, gzip')
+  const served = asked.encoding ? `${asked.encoding}, ${kb(asked.bytes)} on the wire` : 'uncompressed'
   return { html: { raw: html.length, gzip: gz(html), brotli: br(html) }, scripts: await sum(assets.scripts), styles: await sum(assets.styles), served }
 }
 
