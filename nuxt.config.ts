@@ -20,7 +20,7 @@ export default defineNuxtConfig({
     },
   },
   // Manrope's latin subset in the weights the pages use (400 body, 600, 700, 800; 500 falls back to 400), font-display: swap.
-  css: ['@fontsource/manrope/latin-400.css', '@fontsource/manrope/latin-600.css', '@fontsource/manrope/latin-700.css', '@fontsource/manrope/latin-800.css', '~/assets/css/main.css'],
+  css: ['@fontsource/manrope/latin-400.css', '@fontsource/manrope/latin-600.css', '@fontsource/manrope/latin-700.css', '@fontsource/manrope/latin-800.css', '~/assets/css/font-fallback.css', '~/assets/css/main.css'],
   runtimeConfig: {
     databaseUrl: '',
     authSecret: '',
