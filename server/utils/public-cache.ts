@@ -1,5 +1,5 @@
-import { createHash } from 'node:crypto'
 import type { EventHandler, H3Event } from 'h3'
+import { hasAuthCookie, nextPublicCacheGeneration, publicCacheKey } from './public-cache-keys'
 
 /**
  * Nitro's handler cache for public answers every anonymous visitor gets the same way (published
@@ -11,26 +11,9 @@ import type { EventHandler, H3Event } from 'h3'
 export const PUBLIC_CACHE_SECONDS = 60
 const GROUP = 'public'
 
-// Bumped on every invalidation and part of every key: an answer computed before a change and
-// stored after it lands under an old generation that is never read again.
-let generation = 0
-
-/** Auth.js cookies (session, CSRF, callback URL) with or without the __Secure-/__Host- prefix. */
-const AUTH_COOKIE = /(?:^|;)\s*(?:__Secure-|__Host-)?(?:authjs|next-auth)\.[\w.-]+=/i
-
-/** Whether a request carries any Auth.js cookie: such requests are answered fresh and never stored. */
-export function hasAuthCookie(cookieHeader: string | undefined): boolean {
-  return !!cookieHeader && AUTH_COOKIE.test(cookieHeader)
-}
-
-/** The cache key of a request: the generation and a digest of the whole URL (path and query). */
-export function publicCacheKey(url: string, gen = generation): string {
-  return `g${gen}_${createHash('sha256').update(url).digest('hex').slice(0, 32)}`
-}
-
 /** Drops every cached public answer; the next request of each is computed again. */
 export async function invalidatePublicCache(): Promise<void> {
-  generation++
+  nextPublicCacheGeneration()
   const storage = useStorage()
   const keys = await storage.getKeys(`cache:${GROUP}`)
   await Promise.all(keys.map(k => storage.removeItem(k)))

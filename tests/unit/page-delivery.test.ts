@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import { firstLoadAssets } from '../../bench/pages'
 import { COMPRESS_MIN_BYTES, compressBody, isCompressible, pickCoding } from '../../server/utils/compression'
-import { hasAuthCookie, publicCacheKey } from '../../server/utils/public-cache'
+import { hasAuthCookie, publicCacheKey } from '../../server/utils/public-cache-keys'
 import { brotliDecompressSync, gunzipSync } from 'node:zlib'
 
 describe('pickCoding (Accept-Encoding, RFC 9110 section 12.5.3)', () => {
