@@ -121,6 +121,24 @@ describe('the public answer cache', () => {
     expect(list.items.find(i => i.slug === build.slug)?.title).toBe(edited)
   })
 
+  it('drops the cache when a shop renames itself: its listings show the new name at once', async () => {
+    const shopName = async () => {
+      const list = JSON.parse((await raw('/api/builds?perPage=100', 'identity')).text) as { items: { slug: string, builder: { shopName: string } }[] }
+      return list.items.find(i => i.slug === build.slug)?.builder.shopName
+    }
+    const before = await shopName()
+    expect(before).toBeTruthy()
+    const rename = (name: string) => fetch(`${baseUrl()}/api/builders/${BUILDER_SHOP}`, { method: 'PATCH', headers: { 'content-type': 'application/json', 'cookie': builder.header() }, body: JSON.stringify({ shopName: name }) })
+    try {
+      expect((await rename(`${before} Renamed`)).status).toBe(200)
+      expect(await shopName()).toBe(`${before} Renamed`)
+    }
+    finally {
+      expect((await rename(before!)).status).toBe(200)
+    }
+    expect(await shopName()).toBe(before)
+  })
+
   it('tells browsers to revalidate rather than keep a copy', async () => {
     const res = await raw(`/api/builds/${build.slug}`, 'identity')
     expect(res.headers.get('cache-control')).toBe('no-cache')
