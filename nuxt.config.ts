@@ -19,7 +19,8 @@ export default defineNuxtConfig({
       link: [{ rel: 'icon', type: 'image/svg+xml', href: '/favicon.svg' }],
     },
   },
-  css: ['@fontsource/manrope/400.css', '@fontsource/manrope/500.css', '@fontsource/manrope/600.css', '@fontsource/manrope/700.css', '@fontsource/manrope/800.css', '~/assets/css/main.css'],
+  // Manrope's latin subset in the weights the pages use (400 body, 600, 700, 800; 500 falls back to 400), font-display: swap.
+  css: ['@fontsource/manrope/latin-400.css', '@fontsource/manrope/latin-600.css', '@fontsource/manrope/latin-700.css', '@fontsource/manrope/latin-800.css', '~/assets/css/font-fallback.css', '~/assets/css/main.css'],
   runtimeConfig: {
     databaseUrl: '',
     authSecret: '',
@@ -53,6 +54,8 @@ export default defineNuxtConfig({
   compatibilityDate: '2026-11-01',
   nitro: {
     storage: {},
+    // Every public asset also as .gz and .br, served as the client's Accept-Encoding allows (pages and JSON: server/plugins/compression.ts).
+    compressPublicAssets: { gzip: true, brotli: true },
     experimental: { tasks: false },
     // server/error.ts shapes every error (503 for a database away, real 4xx messages) and answers none itself;
     // Nuxt's handler then renders the error page, and Nitro's own answers JSON after both.

@@ -12,7 +12,7 @@ export default {
   theme: {
     extend: {
       fontFamily: {
-        sans: ['Manrope', 'ui-sans-serif', 'system-ui', 'sans-serif'],
+        sans: ['Manrope', 'Manrope Fallback', 'ui-sans-serif', 'system-ui', 'sans-serif'],
       },
       colors: {
         paper: { DEFAULT: '#f5f3ee', deep: '#ebe7de' },

@@ -1,6 +1,6 @@
 import { defineStore } from 'pinia'
 import type { LocationQuery, LocationQueryRaw } from 'vue-router'
-import { BAND_RPM, SEARCH_ASPIRATIONS, SEARCH_FUELS, SEARCH_SORTS, SEARCH_USES } from '#shared/schemas/search'
+import { BAND_RPM, SEARCH_ASPIRATIONS, SEARCH_FUELS, SEARCH_SORTS, SEARCH_USES } from '#shared/search/values'
 
 /** The filters of the search page; the URL holds the same names as GET /api/search. */
 export interface SearchFilters {

@@ -1,5 +1,5 @@
 import { defineStore } from 'pinia'
-import { UNIT_SYSTEMS, type UnitSystem } from '#shared/schemas/auth'
+import { UNIT_SYSTEMS, type UnitSystem } from '#shared/units/systems'
 
 export const UNITS_STORAGE_KEY = 'torquewright.units'
 

@@ -1,12 +1,12 @@
 import { z } from 'zod'
+import { UNIT_SYSTEMS } from '../units/systems'
 
 /** Request shapes of sign-up, sign-in and the account page: the forms and the server validate with these same schemas. */
 
 export const ROLES = ['racer', 'builder', 'admin'] as const
 export type Role = typeof ROLES[number]
 
-export const UNIT_SYSTEMS = ['imperial', 'metric'] as const
-export type UnitSystem = typeof UNIT_SYSTEMS[number]
+export { UNIT_SYSTEMS, type UnitSystem } from '../units/systems'
 
 /** Passwords: at least 10 characters (NIST SP 800-63B asks for 8 or more; 10 is our own floor), at most 128 so hashing stays bounded. */
 export const PASSWORD_MIN = 10
@@ -72,6 +72,9 @@ export const linkRequestSchema = z.object({ email: emailSchema, next: nextPathSc
 export const linkTokenSchema = z.object({
   token: z.string({ error: 'The link is incomplete' }).regex(/^[A-Za-z0-9_-]{43}$/, 'The link is incomplete: open it again from the e-mail'),
 })
+
+/** The account page's name form: the name alone (the route itself takes profilePatchSchema). */
+export const profileNameSchema = z.object({ name: nameSchema })
 
 export const profilePatchSchema = z.object({
   name: nameSchema.optional(),

@@ -114,6 +114,8 @@ export const alternativeSchema = z.object({
   camshaft: required(160, 'The camshaft'),
   note: text(500, 'The note').default(''),
 })
+/** Bore, stroke and cylinders of an alternative: what the composer needs to show its displacement. */
+export const alternativeGeometrySchema = alternativeSchema.pick({ boreIn: true, strokeIn: true, cylinders: true })
 export type QuoteAlternative = z.infer<typeof alternativeSchema>
 
 /** A quote's fields one by one. The route reads these; the money limit over the whole is the service's 422. */

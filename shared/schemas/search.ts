@@ -1,15 +1,11 @@
 import { z } from 'zod'
+import { BAND_RPM, SEARCH_ASPIRATIONS, SEARCH_FUELS, SEARCH_SORTS, SEARCH_USES } from '../search/values'
 
 /**
  * The search parameters of GET /api/search, shared by the route and the search page (which reads
  * the same names from its URL). Every rule here answers a person: a 400 says which one failed.
  */
-export const SEARCH_ASPIRATIONS = ['na', 'turbo', 'supercharged', 'nitrous'] as const
-export const SEARCH_FUELS = ['pump_gas', 'race_gas', 'e85', 'methanol'] as const
-export const SEARCH_USES = ['drag', 'road_course', 'street_strip', 'off_road', 'marine', 'street'] as const
-export const SEARCH_SORTS = ['relevance', 'target', 'band', 'newest', 'price'] as const
-/** The rpm range band queries may ask about (the index's curve grid). */
-export const BAND_RPM = { min: 1000, max: 12000 } as const
+export { BAND_RPM, SEARCH_ASPIRATIONS, SEARCH_FUELS, SEARCH_SORTS, SEARCH_USES } from '../search/values'
 export const MAX_RESULT_WINDOW = 10_000
 
 /** An absent or empty parameter is no filter. */

@@ -164,14 +164,24 @@ type KeysOf<F extends readonly ToolField[]> = F[number]['key']
 export type DisplacementKey = KeysOf<typeof displacementFields>
 export type CompressionKey = KeysOf<typeof compressionFields>
 
-export const displacementSchema = (system: UnitSystem) => rodReachesCrank(toolSchema(displacementFields, system), displacementFields)
-export const compressionSchema = (system: UnitSystem) => rodReachesCrank(toolSchema(compressionFields, system), compressionFields)
-export const camSchema = (system: UnitSystem) => toolSchema(camFields, system)
-export const powerSchema = (system: UnitSystem) => toolSchema(powerFields, system)
-export const pistonSchema = (system: UnitSystem) => rodReachesCrank(toolSchema(pistonFields, system), pistonFields)
-export const airflowSchema = (system: UnitSystem) => toolSchema(airflowFields, system)
-export const fuelSchema = (system: UnitSystem) => toolSchema(fuelFields, system)
-export const correctionSchema = (system: UnitSystem) => toolSchema(correctionFields, system)
+/** One schema per unit system, built on first use and kept: building a zod schema costs far more than parsing with it. */
+function perSystem<S>(make: (system: UnitSystem) => S): (system: UnitSystem) => S {
+  const made = new Map<UnitSystem, S>()
+  return (system) => {
+    let schema = made.get(system)
+    if (!schema) made.set(system, schema = make(system))
+    return schema
+  }
+}
+
+export const displacementSchema = perSystem(system => rodReachesCrank(toolSchema(displacementFields, system), displacementFields))
+export const compressionSchema = perSystem(system => rodReachesCrank(toolSchema(compressionFields, system), compressionFields))
+export const camSchema = perSystem(system => toolSchema(camFields, system))
+export const powerSchema = perSystem(system => toolSchema(powerFields, system))
+export const pistonSchema = perSystem(system => rodReachesCrank(toolSchema(pistonFields, system), pistonFields))
+export const airflowSchema = perSystem(system => toolSchema(airflowFields, system))
+export const fuelSchema = perSystem(system => toolSchema(fuelFields, system))
+export const correctionSchema = perSystem(system => toolSchema(correctionFields, system))
 
 const timingBasisIds = VALVE_TIMING_BASES.map(b => b.id) as [ValveTimingBasis, ...ValveTimingBasis[]]
 /** Which lift the cam card quotes its durations and events at (0.050 in, or seat / advertised). */

@@ -9,5 +9,7 @@ export default defineEventHandler(async (event) => {
   const { shop } = await requireOwnShop(event, slug)
   const patch = await readValidatedBody(event, validator(shopPatchSchema))
   const updated = await updateShop(useDb(), shop.id, patch)
+  // The shop's name and region show on its public listings.
+  await invalidatePublicCache()
   return { slug: updated.slug, shopName: updated.shopName, region: updated.region, bio: updated.bio }
 })

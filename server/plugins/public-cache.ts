@@ -1,0 +1,7 @@
+import { onBuildChanged } from '../services/listing-editor'
+
+// Every committed change of a build or its pulls (listing writes, evidence decisions, moderation)
+// drops the cached public answers before the write's own answer goes out (server/utils/public-cache.ts).
+export default defineNitroPlugin(() => {
+  onBuildChanged(() => invalidatePublicCache())
+})
