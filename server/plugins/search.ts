@@ -63,7 +63,12 @@ export default defineNitroPlugin((nitroApp) => {
     try {
       // When the first build failed the feed starts at the head now; the consistency check fills the gap.
       if (!feed && !building) feed = createFeedReader(db, await feedStart(db))
-      if (feed) for (const buildId of await feed.poll()) await bringInStep(buildId)
+      if (feed) {
+        const changed = await feed.poll()
+        // Another instance's change also drops this instance's cached public answers (server/utils/public-cache.ts).
+        if (changed.length > 0) await invalidatePublicCache()
+        for (const buildId of changed) await bringInStep(buildId)
+      }
     }
     catch (err) {
       if (!noteDatabaseOutage(err, 'search: reading the change feed')) console.error('search: reading the change feed failed', err)

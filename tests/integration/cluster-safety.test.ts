@@ -134,6 +134,23 @@ describe('the change feed', () => {
     await other.db.transaction(tx => recordBuildChange(tx, build.buildId))
     await eventually('the archived build out of the server\'s search', async () => (await searchFor(tag)).body?.total === 0, 5000)
   })
+
+  it('drops this server\'s cached public answer for a build another instance changed (the feed alone, no hook)', async () => {
+    const tag = `zc${randomBytes(3).toString('hex')}`
+    const build = await makeBuildAwaitingCheck(ctx.db, { title: `Cache probe ${tag}` })
+    const titleOf = async () => {
+      const res = await api(`/api/builds/${build.slug}`)
+      expect(res.status).toBe(200)
+      return (res.body as { title: string }).title
+    }
+    // Anonymous answers are cached (server/utils/public-cache.ts): a write this server never hears of stays unseen...
+    expect(await titleOf()).toBe(`Cache probe ${tag}`)
+    await ctx.db.update(schema.builds).set({ title: `Cache probe ${tag} renamed` }).where(eq(schema.builds.id, build.buildId))
+    expect(await titleOf()).toBe(`Cache probe ${tag}`)
+    // ...until another instance's feed row reaches it. The bound guards against a hang (the feed is read every 250 ms; the cache lives 60 s).
+    await other.db.transaction(tx => recordBuildChange(tx, build.buildId))
+    await eventually('the renamed build in the anonymous answer', async () => (await titleOf()) === `Cache probe ${tag} renamed` || undefined, 5000)
+  })
 })
 
 describe('a saved-search alert with several instances', () => {
