@@ -1,4 +1,5 @@
 /** Display helpers for the admin pages. */
+import { AUTO_CHECKS } from '#shared/vocabulary'
 
 /** "3 h", "2 days", "just now": how long something has waited. */
 export function formatAge(hours: number | null | undefined): string {
@@ -18,16 +19,8 @@ export function hoursSince(iso: string, now = Date.now()): number {
   return (now - Date.parse(iso)) / 3_600_000
 }
 
-export const CHECK_LABELS: Record<string, string> = {
-  'rpm-order': 'rpm order',
-  'rpm-spacing': 'rpm sampling',
-  'power-torque-agreement': 'Power and torque agree',
-  'declared-peaks': 'Declared peaks',
-  'correction-factor': 'Correction factor',
-  'bmep': 'BMEP',
-  'piston-speed': 'Piston speed',
-  'duplicate-curve': 'Same curve elsewhere',
-}
+/** Each automatic check's name, the same words the shop sees (shared/vocabulary.ts). */
+export const CHECK_LABELS: Record<string, string> = AUTO_CHECKS.titles
 
 export const OUTCOME_TONE: Record<string, string> = {
   pass: 'bg-spruce-wash text-spruce',
