@@ -62,9 +62,10 @@ export const CARD_LABELS = {
   peakPower: 'Peak power',
   peakTorque: 'Peak torque',
   displacement: 'Displacement',
-  fuel: 'Fuel',
-  /** The price on a card: what the shop charges to build one like it. */
-  price: 'Built for you from',
+  /** The power averaged across the racer's rpm band. */
+  band: 'In your band',
+  /** The listed price: what this engine cost as built (parts and labour); a shop quotes a new one. */
+  price: 'As-built price',
 } as const
 
 /** Paging words, one pattern for every list. */
