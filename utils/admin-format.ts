@@ -10,9 +10,12 @@ export function formatAge(hours: number | null | undefined): string {
 }
 
 /** A date and time in UTC, the same for every admin wherever they sit. */
+const when = new Intl.DateTimeFormat('en-US', { year: 'numeric', month: 'short', day: 'numeric', hour: 'numeric', minute: '2-digit', timeZone: 'UTC' })
+
+/** "Mar 4, 2026, 5:06 AM UTC": the deal pages' date style, in UTC so admins in any zone read the same record. */
 export function formatWhen(iso: string | null | undefined): string {
   if (!iso) return '—'
-  return `${new Date(iso).toISOString().slice(0, 16).replace('T', ' ')} UTC`
+  return `${when.format(new Date(iso))} UTC`
 }
 
 export function hoursSince(iso: string, now = Date.now()): number {
