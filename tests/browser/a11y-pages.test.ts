@@ -152,9 +152,13 @@ describe('keyboard paths', () => {
     const query = await page.inputValue('[data-test="search-q"]')
     expect(query).toBe('small block')
     await page.locator('[data-test="field-bandFrom"]').fill('4600')
+    await page.locator('[data-test="field-bandTo"]').fill('')
     await page.locator('[data-test="field-bandTo"]').click()
-    await page.keyboard.type('7000')
     const apply = page.locator('[data-test="band-keep"]')
+    expect(await apply.isDisabled()).toBe(true)
+    // Enabled while the shift is typed, before the field loses focus.
+    await page.keyboard.type('7000')
+    expect(await page.locator('[data-test="field-bandTo"]').evaluate(el => el === document.activeElement)).toBe(true)
     expect(await apply.isEnabled()).toBe(true)
     // The next Tab from the shift field is the enabled button.
     await page.keyboard.press('Tab')
@@ -169,7 +173,9 @@ describe('keyboard paths', () => {
   it('never wipes the search when Enter is pressed in a band field', async () => {
     await become('visitor')
     await page.goto(`${baseUrl()}/search?q=small+block`, { waitUntil: 'networkidle' })
+    // The band the previous test kept in this browser comes back; the fields are cleared and typed afresh.
     await page.locator('[data-test="field-bandFrom"]').fill('4400')
+    await page.locator('[data-test="field-bandTo"]').fill('')
     await page.locator('[data-test="field-bandTo"]').click()
     await page.keyboard.type('6800')
     await page.keyboard.press('Enter')
