@@ -1,4 +1,5 @@
 /** Display helpers for the admin pages. */
+import { AUTO_CHECKS } from '#shared/vocabulary'
 
 /** "3 h", "2 days", "just now": how long something has waited. */
 export function formatAge(hours: number | null | undefined): string {
@@ -9,25 +10,20 @@ export function formatAge(hours: number | null | undefined): string {
 }
 
 /** A date and time in UTC, the same for every admin wherever they sit. */
+const when = new Intl.DateTimeFormat('en-US', { year: 'numeric', month: 'short', day: 'numeric', hour: 'numeric', minute: '2-digit', timeZone: 'UTC' })
+
+/** "Mar 4, 2026, 5:06 AM UTC": the deal pages' date style, in UTC so admins in any zone read the same record. */
 export function formatWhen(iso: string | null | undefined): string {
   if (!iso) return '—'
-  return `${new Date(iso).toISOString().slice(0, 16).replace('T', ' ')} UTC`
+  return `${when.format(new Date(iso))} UTC`
 }
 
 export function hoursSince(iso: string, now = Date.now()): number {
   return (now - Date.parse(iso)) / 3_600_000
 }
 
-export const CHECK_LABELS: Record<string, string> = {
-  'rpm-order': 'rpm order',
-  'rpm-spacing': 'rpm sampling',
-  'power-torque-agreement': 'Power and torque agree',
-  'declared-peaks': 'Declared peaks',
-  'correction-factor': 'Correction factor',
-  'bmep': 'BMEP',
-  'piston-speed': 'Piston speed',
-  'duplicate-curve': 'Same curve elsewhere',
-}
+/** Each automatic check's name, the same words the shop sees (shared/vocabulary.ts). */
+export const CHECK_LABELS: Record<string, string> = AUTO_CHECKS.titles
 
 export const OUTCOME_TONE: Record<string, string> = {
   pass: 'bg-spruce-wash text-spruce',

@@ -194,11 +194,11 @@ export function makeCurve(r: Random, opts: { peakHpTarget: number, redline: numb
 }
 
 const HEADS: Record<FamilyKey, string[]> = {
-  small_block: ['Aluminium 23° heads, CNC-ported', 'Aluminium 18° heads, hand-finished runners', 'Cast-iron 23° heads, bowl-blended'],
-  big_block: ['Aluminium rectangle-port heads, CNC-ported', 'Aluminium oval-port heads, street porting'],
-  tall_deck: ['Aluminium raised-runner heads, CNC-ported', 'Billet-capped spread-port heads'],
+  small_block: ['Aluminum 23° heads, CNC-ported', 'Aluminum 18° heads, hand-finished runners', 'Cast-iron 23° heads, bowl-blended'],
+  big_block: ['Aluminum rectangle-port heads, CNC-ported', 'Aluminum oval-port heads, street porting'],
+  tall_deck: ['Aluminum raised-runner heads, CNC-ported', 'Billet-capped spread-port heads'],
   dohc_v8: ['Four-valve heads, CNC-ported, stock valve sizes', 'Four-valve heads, oversize valves, ported'],
-  inline_six: ['Crossflow aluminium head, ported', 'Single-cam head, bowl work and 1 mm oversize valves'],
+  inline_six: ['Crossflow aluminum head, ported', 'Single-cam head, bowl work and 1 mm oversize valves'],
 }
 
 const INTAKES: Record<Aspiration, string[]> = {
@@ -208,7 +208,7 @@ const INTAKES: Record<Aspiration, string[]> = {
   nitrous: ['Single-plane intake with plate system', 'Direct-port nitrous on a sheet-metal intake'],
 }
 
-const MANAGEMENT = ['Standalone sequential EFI, wideband closed loop', 'Standalone EFI with boost control', 'Throttle-body EFI, self-learning', 'Carburettor with electronic ignition']
+const MANAGEMENT = ['Standalone sequential EFI, wideband closed loop', 'Standalone EFI with boost control', 'Throttle-body EFI, self-learning', 'Carburetor with electronic ignition']
 
 const USE_FOR: Record<string, Use[]> = {
   'Drag': ['drag', 'street_strip'], 'Marine': ['marine'], 'Off-road': ['off_road'], 'Road course': ['road_course'],
@@ -221,29 +221,36 @@ const ASPIRATION_WORDS: Record<Aspiration, string> = { na: 'naturally aspirated'
 const USE_WORDS: Record<Use, string> = { drag: 'drag', road_course: 'road course', street_strip: 'street/strip', off_road: 'off-road', marine: 'marine', street: 'street' }
 const FUEL_WORDS: Record<Fuel, string> = { pump_gas: 'pump gas', race_gas: 'race gas', e85: 'E85', methanol: 'methanol' }
 
-/** A listing's price from its parts list: the parts and labour times the shop's margin, rounded up to whole hundreds of dollars. */
+/**
+ * A listing's price from its parts list: the parts and labor times the shop's margin, rounded up to whole
+ * hundreds of dollars. The labor line carries the margin, so the parts list adds up to the price exactly.
+ */
 function priced(margin: number, publishedDaysAgo: number, parts: DemoBuild['parts']) {
   const partsCents = parts.reduce((sum, p) => sum + p.quantity * p.unitPriceCents, 0)
-  return { priceCents: Math.ceil((partsCents * margin) / 10_000) * 10_000, publishedDaysAgo, parts }
+  const priceCents = Math.ceil((partsCents * margin) / 10_000) * 10_000
+  const labor = parts.find(p => p.category === 'Labor')!
+  labor.unitPriceCents += priceCents - partsCents
+  return { priceCents, publishedDaysAgo, parts }
 }
 
-function partsList(r: Random, b: { family: FamilyKey, aspiration: Aspiration, fuel: Fuel, strokeIn: number, rodLengthIn: number, shopCode: string, injectors: number | null }) {
+function partsList(r: Random, b: { family: FamilyKey, aspiration: Aspiration, fuel: Fuel, strokeIn: number, rodLengthIn: number, shopCode: string, injectors: number | null, heads: string, intake: string }) {
   const code = (cat: string, n: number) => `${b.shopCode}-${cat}-${String(n).padStart(3, '0')}`
   const c = (dollars: number) => Math.round(dollars * r.between(0.9, 1.15)) * 100
   const rows = [
-    { category: 'Block', part: b.family === 'inline_six' ? 'Iron inline-six block, align-honed, decked' : 'Aluminium V8 block, sleeved, four-bolt mains', partNumber: code('BK', r.int(1, 99)), quantity: 1, unitPriceCents: c(b.family === 'inline_six' ? 1800 : 4200) },
+    { category: 'Block', part: b.family === 'inline_six' ? 'Iron inline-six block, align-honed, decked' : 'Aluminum V8 block, sleeved, four-bolt mains', partNumber: code('BK', r.int(1, 99)), quantity: 1, unitPriceCents: c(b.family === 'inline_six' ? 1800 : 4200) },
     { category: 'Rotating assembly', part: `Forged 4340 crankshaft, ${b.strokeIn.toFixed(3)} in stroke`, partNumber: code('CR', r.int(1, 99)), quantity: 1, unitPriceCents: c(1900) },
     { category: 'Rotating assembly', part: `H-beam connecting rods, ${b.rodLengthIn.toFixed(3)} in`, partNumber: code('RD', r.int(1, 99)), quantity: 1, unitPriceCents: c(1250) },
     { category: 'Rotating assembly', part: b.aspiration === 'na' ? 'Forged pistons, gas-ported, 1.0 mm top ring' : 'Forged pistons, thick crown for boost', partNumber: code('PS', r.int(1, 99)), quantity: 1, unitPriceCents: c(1100) },
     { category: 'Rotating assembly', part: 'Ring set, file-fit', partNumber: code('RG', r.int(1, 99)), quantity: 1, unitPriceCents: c(240) },
-    { category: 'Cylinder heads', part: r.pick(HEADS[b.family]), partNumber: code('HD', r.int(1, 99)), quantity: b.family === 'inline_six' ? 1 : 2, unitPriceCents: c(1700) },
+    // The draws stay (the scenario is the same on every run); the parts list names the listing's own heads and intake.
+    { category: 'Cylinder heads', part: (r.pick(HEADS[b.family]), b.heads), partNumber: code('HD', r.int(1, 99)), quantity: b.family === 'inline_six' ? 1 : 2, unitPriceCents: c(1700) },
     { category: 'Camshaft and valvetrain', part: 'Roller camshaft, custom grind', partNumber: code('CM', r.int(1, 99)), quantity: 1, unitPriceCents: c(650) },
     { category: 'Camshaft and valvetrain', part: 'Roller lifters and pushrods, measured length', partNumber: code('VT', r.int(1, 99)), quantity: 1, unitPriceCents: c(900) },
-    { category: 'Induction', part: r.pick(INTAKES[b.aspiration]), partNumber: code('IN', r.int(1, 99)), quantity: 1, unitPriceCents: c(b.aspiration === 'supercharged' ? 5200 : 900) },
-    { category: 'Fuel system', part: b.injectors ? `High-impedance injectors (set of ${b.injectors})` : 'Carburettor, blow-through ready', partNumber: code('FS', r.int(1, 99)), quantity: 1, unitPriceCents: c(850) },
+    { category: 'Induction', part: (r.pick(INTAKES[b.aspiration]), b.intake), partNumber: code('IN', r.int(1, 99)), quantity: 1, unitPriceCents: c(b.aspiration === 'supercharged' ? 5200 : 900) },
+    { category: 'Fuel system', part: b.injectors ? `High-impedance injectors (set of ${b.injectors})` : 'Carburetor, blow-through ready', partNumber: code('FS', r.int(1, 99)), quantity: 1, unitPriceCents: c(850) },
     { category: 'Oiling', part: 'Wet-sump pan, baffled, with high-volume pump', partNumber: code('OL', r.int(1, 99)), quantity: 1, unitPriceCents: c(700) },
     { category: 'Gaskets and fasteners', part: 'Multi-layer steel head gaskets, head studs', partNumber: code('GS', r.int(1, 99)), quantity: 1, unitPriceCents: c(520) },
-    { category: 'Labour', part: 'Machining, balancing, assembly and dyno time', partNumber: code('LB', 1), quantity: 1, unitPriceCents: c(4800) },
+    { category: 'Labor', part: 'Machining, balancing, assembly and dyno time', partNumber: code('LB', 1), quantity: 1, unitPriceCents: c(4800) },
   ]
   if (b.aspiration === 'turbo') rows.splice(9, 0, { category: 'Induction', part: 'Turbochargers, 76 mm compressor, with wastegates', partNumber: code('TB', r.int(1, 99)), quantity: 2, unitPriceCents: c(1900) })
   if (b.aspiration === 'nitrous') rows.splice(9, 0, { category: 'Induction', part: 'Nitrous plate kit with purge and window switch', partNumber: code('NX', r.int(1, 99)), quantity: 1, unitPriceCents: c(1400) })
@@ -319,11 +326,11 @@ export function demoBuilds(): DemoBuild[] {
         final.changeNote = change.note
         pulls.push({ ...final, label: change.baseline, comparisonRole: 'baseline', changeKind: undefined, changeNote: undefined, weather: weather(), points: baselineOf(final.points, change) })
       }
-      out.push({
+      const build: Omit<DemoBuild, 'priceCents' | 'publishedDaysAgo' | 'parts'> = {
         shopSlug: shop.slug,
         slug,
         title: title.charAt(0).toUpperCase() + title.slice(1),
-        summary: `${litres.toFixed(1)} litre ${family.label.toLowerCase()} built by ${shop.shopName} for ${USE_WORDS[use]} use on ${FUEL_WORDS[fuel]}. ${aspiration === 'na' ? 'No power adder. ' : ''}Dyno-proven before delivery, with the raw pull file attached.`,
+        summary: `${litres.toFixed(1)}-liter ${family.label.toLowerCase()} built by ${shop.shopName} for ${USE_WORDS[use]} use on ${FUEL_WORDS[fuel]}. ${aspiration === 'na' ? 'No power adder. ' : ''}Dyno-proven before delivery, with the raw pull file attached.`,
         engineFamily: family.label,
         cylinders: family.cylinders,
         boreIn,
@@ -349,10 +356,12 @@ export function demoBuilds(): DemoBuild[] {
         aspiration,
         engineManagement: r.pick(boosted ? MANAGEMENT.slice(0, 2) : [MANAGEMENT[0]!, ...MANAGEMENT.slice(2)]),
         intendedUse: use,
-        // The as-built price is the parts and labour with the shop's margin, rounded up to $100.
-        ...priced(r.between(1.12, 1.6), r.int(1, 420), partsList(r, { family: familyKey, aspiration, fuel, strokeIn, rodLengthIn, shopCode, injectors })),
         pulls,
-      })
+      }
+      // The as-built price is the parts and labor with the shop's margin, rounded up to $100.
+      const margin = r.between(1.12, 1.6)
+      const daysAgo = r.int(1, 420)
+      out.push({ ...build, ...priced(margin, daysAgo, partsList(r, { family: familyKey, aspiration, fuel, strokeIn, rodLengthIn, shopCode, injectors, heads: build.cylinderHeads, intake: build.intakeManifold })) })
     }
   })
   // One submitted pull on a later shop's build re-uses an earlier build's curve, rescaled and at another rpm step:

@@ -1,14 +1,15 @@
+import { VERIFICATION } from '#shared/vocabulary'
 import { compose, type MailBody } from '../auth/messages'
 
 /** The e-mails an admin's decision sends, as plain text with a simple HTML twin. */
 export const adminEmails = {
   pullRejected: (m: { name: string, pullLabel: string, buildTitle: string, reason: string, dashboardUrl: string }): MailBody => compose(
-    `Dyno pull not accepted: ${m.pullLabel}`,
+    `Dyno pull ${VERIFICATION.rejected.toLowerCase()}: ${m.pullLabel}`,
     `Hello ${m.name},`,
     [
-      `We checked the pull "${m.pullLabel}" on your listing "${m.buildTitle}" and could not accept it as evidence. The reason:`,
+      `An admin reviewed the pull "${m.pullLabel}" on your listing "${m.buildTitle}" and could not verify it as evidence. The reason:`,
       m.reason,
-      'The pull no longer counts towards the listing. Upload a corrected pull (the raw file from the dyno, with the weather of the day) from your shop dashboard; a new upload is checked afresh.',
+      'The pull no longer counts towards the listing. Upload a corrected pull (the raw file from the dyno, with the weather of the day) from your shop dashboard; a new upload runs the automatic checks and awaits verification afresh.',
     ],
     { label: 'Open your shop dashboard', url: m.dashboardUrl },
   ),
@@ -16,8 +17,8 @@ export const adminEmails = {
     `Dyno pull verified: ${m.pullLabel}`,
     `Hello ${m.name},`,
     [
-      `We checked the pull "${m.pullLabel}" on your listing "${m.buildTitle}" against its raw file, weather and correction standard, and verified it.`,
-      'The listing carries the checked mark, and its figures now count in search and in your shop\'s record. Racers who saved a search this build matches are told about it.',
+      `An admin compared the pull "${m.pullLabel}" on your listing "${m.buildTitle}" with its raw file, weather and correction standard, and verified it.`,
+      'The listing carries the verified mark, and its figures now count in search and in your shop\'s record. Racers who saved a search this build matches are told about it.',
     ],
     { label: 'Open the listing', url: m.buildUrl },
   ),

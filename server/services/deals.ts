@@ -329,6 +329,7 @@ export async function getDashboard(ctx: DealContext, actor: DealActor): Promise<
       nextMilestone: next ? { id: next.id, title: next.title, state: next.state, amountCents: next.amountCents } : null,
       milestonesDone: list.filter(m => m.state === 'released').length,
       milestonesTotal: list.length,
+      unread: unreadOf.get(r.request.id) ?? 0,
     }
   })
   return { side, requests, quotes: quoted, orders: ordersOut, unreadTotal: unread.total }

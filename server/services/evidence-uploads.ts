@@ -83,7 +83,7 @@ export async function previewPull(db: Database, shop: ShopRef, buildId: number, 
 /**
  * Saves a pull: the file (and sheet) checked before anything is stored, then stored, then the file
  * rows and the pull row in one transaction (the stored files are removed if it fails). The pull
- * starts as submitted, awaiting an admin's check. Returns the new pull's id and its report.
+ * starts as submitted, awaiting an admin's verification. Returns the new pull's id and its report.
  */
 export async function savePull(db: Database, store: UploadStore, shop: ShopRef, buildId: number, upload: PullUpload) {
   const build = await ownBuild(db, shop, buildId)

@@ -1,5 +1,6 @@
 // The deal e-mails, in Torquewright's own words, each as plain text and simple HTML.
 import { formatCents } from '../../shared/money'
+import { VERIFICATION } from '../../shared/vocabulary'
 
 export interface RenderedMail {
   subject: string
@@ -162,9 +163,10 @@ export function renderSavedSearchMail(mail: SavedSearchMail): RenderedMail {
   const power = mail.peakHp !== null
     ? `${figure(mail.peakHp)} hp peak${mail.peakHpRpm !== null ? ` at ${mail.peakHpRpm.toLocaleString('en-US')} rpm` : ''} under SAE J1349 (2004), recomputed from the shop's raw dyno pull`
     : 'no peak power on file yet'
-  return { subject: `New verified build for "${mail.searchName}": ${mail.buildTitle}`, ...layout([
+  const verified = VERIFICATION.verified.toLowerCase()
+  return { subject: `New ${verified} build for "${mail.searchName}": ${mail.buildTitle}`, ...layout([
     `Hello ${mail.recipientName},`,
-    `A build that matches your saved search "${mail.searchName}" now carries verified dyno evidence:`,
+    `A build that matches your saved search "${mail.searchName}" now carries ${verified} dyno evidence:`,
     `${mail.buildTitle}, by ${mail.shopName}. ${figure(mail.displacementCi)} ci (${litres} L), ${power}.`,
   ], { label: 'See the build', link: mail.buildLink }, {
     text: 'You get this e-mail because you saved this search with e-mail on. Rename it, turn its e-mail off or delete it on your account page.',

@@ -14,7 +14,7 @@ export type MilestoneStateName = (typeof MILESTONE_STATES)[number]
 
 /** How each milestone state reads on the tracker. */
 export const MILESTONE_STATE_LABELS: Record<MilestoneStateName, string> = {
-  awaiting_payment: 'Waiting for the deposit',
+  awaiting_payment: 'Deposit due',
   funded: 'Deposit held',
   submitted: 'Work submitted',
   approved: 'Approved, releasing',
@@ -22,6 +22,16 @@ export const MILESTONE_STATE_LABELS: Record<MilestoneStateName, string> = {
   disputed: 'In dispute',
   refunded: 'Refunded',
   cancelled: 'Cancelled',
+}
+
+/** A milestone awaiting payment that is not the next one to pay: its deposit is asked for after the one before it. */
+export const MILESTONE_NOT_YET_DUE = 'Not yet due'
+
+/** Quote, payment and change-order statuses as people read them (the stored words are for the code). */
+export const DEAL_STATUS_LABELS: Record<string, string> = {
+  sent: 'Awaiting an answer', accepted: 'Accepted', declined: 'Declined', withdrawn: 'Withdrawn',
+  open: 'Started', succeeded: 'Paid', failed: 'Failed', expired: 'Expired',
+  proposed: 'Awaiting an answer', active: 'In progress', completed: 'Completed', cancelled: 'Cancelled',
 }
 
 /** The milestone states in which money is held by the platform for the racer. */

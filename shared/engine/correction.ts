@@ -119,7 +119,7 @@ export interface StandardLimits {
 export const PUBLISHED_TEMP_BAND_C = { min: 283.2 - 273.15, max: 318.2 - 273.15 } as const
 
 const PUBLISHED = 'Air temperature 283.2–318.2 K (10.05–45.05 °C): EU Regulation 134/2014, Annex I, Appendix 2.2'
-const OWN_BANDS = 'factor 0.93–1.07 and dry-air pressure 80–110 kPa: Torquewright\'s own plausibility bands'
+const OWN_BANDS = 'factor 0.93–1.07 and dry-air pressure 80–110 kPa: Torquewright\'s own plausibility bands (common practice, not from a standard)'
 
 /**
  * Allowed ranges. The temperature band is the published one for ISO 1585 / ECE R85 (see
@@ -131,8 +131,8 @@ export const STANDARD_LIMITS: Record<Exclude<CorrectionStandard, 'UNCORRECTED'>,
   SAE_J1349_2004: { factorMin: 0.93, factorMax: 1.07, tempMinC: PUBLISHED_TEMP_BAND_C.min, tempMaxC: PUBLISHED_TEMP_BAND_C.max, dryPressureMinKpa: 80, dryPressureMaxKpa: 110, source: `${PUBLISHED} (SAE J1349's own band not held, so the published ISO 1585 band is applied); ${OWN_BANDS}` },
   SAE_J1349_1990: { factorMin: 0.93, factorMax: 1.07, tempMinC: PUBLISHED_TEMP_BAND_C.min, tempMaxC: PUBLISHED_TEMP_BAND_C.max, dryPressureMinKpa: 80, dryPressureMaxKpa: 110, source: `${PUBLISHED} (SAE J1349's own band not held, so the published ISO 1585 band is applied); ${OWN_BANDS}` },
   ISO_1585: { factorMin: 0.93, factorMax: 1.07, tempMinC: PUBLISHED_TEMP_BAND_C.min, tempMaxC: PUBLISHED_TEMP_BAND_C.max, dryPressureMinKpa: 80, dryPressureMaxKpa: 110, source: `${PUBLISHED}; ${OWN_BANDS}` },
-  DIN_70020: { factorMin: 0.9, factorMax: 1.1, tempMinC: null, tempMaxC: null, dryPressureMinKpa: null, dryPressureMaxKpa: null, source: 'Factor 0.90–1.10: Torquewright\'s own sanity band (no published band applied)' },
-  SAE_J607: { factorMin: 0.9, factorMax: 1.1, tempMinC: null, tempMaxC: null, dryPressureMinKpa: null, dryPressureMaxKpa: null, source: 'Factor 0.90–1.10: Torquewright\'s own sanity band (no published band applied)' },
+  DIN_70020: { factorMin: 0.9, factorMax: 1.1, tempMinC: null, tempMaxC: null, dryPressureMinKpa: null, dryPressureMaxKpa: null, source: 'Factor 0.90–1.10: Torquewright\'s own sanity band (common practice; no published band applied)' },
+  SAE_J607: { factorMin: 0.9, factorMax: 1.1, tempMinC: null, tempMaxC: null, dryPressureMinKpa: null, dryPressureMaxKpa: null, source: 'Factor 0.90–1.10: Torquewright\'s own sanity band (common practice; no published band applied)' },
 }
 
 export interface CorrectionValidity {

@@ -104,7 +104,7 @@ function rpmOrder(points: PullPoint[]): EvidenceCheck {
   if (backward === 0) return check('rpm-order', 'pass', `rpm rises on every point, ${n0(first.rpm)} to ${n0(last.rpm)} rpm.`, base)
   const at = points[firstBad] as PullPoint
   const before = points[firstBad - 1] as PullPoint
-  return check('rpm-order', 'fail', `rpm falls or repeats ${backward} time(s), first at point ${firstBad + 1} (${n0(at.rpm)} after ${n0(before.rpm)} rpm). Ask the shop for the pull in rising rpm order.`, { ...base, firstBadPoint: firstBad + 1 })
+  return check('rpm-order', 'fail', `rpm falls or repeats ${backward} ${backward === 1 ? 'time' : 'times'}, first at point ${firstBad + 1} (${n0(at.rpm)} after ${n0(before.rpm)} rpm). Ask the shop for the pull in rising rpm order.`, { ...base, firstBadPoint: firstBad + 1 })
 }
 
 function rpmSpacing(points: PullPoint[]): EvidenceCheck {
@@ -358,15 +358,11 @@ function duplicate(context: EvidenceContext, points: PullPoint[]): EvidenceCheck
   const nearestId = Number(nearest.buildId)
   const linkable = closest <= 2 * FINGERPRINT_TOLERANCE && Number.isSafeInteger(nearestId) && nearestId > 0
   const values = { comparedCurves: others.length, matches: matches.length, closestDistance: closest, tolerance: FINGERPRINT_TOLERANCE, closestBuildId: linkable ? nearestId : null }
-  if (matches.length > 0) {
-    const ids = matches.map(m => String(m.buildId)).join(', ')
-    return check('duplicate-curve', 'fail', `The same curve is already attached to build(s) ${ids} (allowing for resampling and correction). Ask the shop which build it belongs to.`, values)
-  }
-  if (close.length > 0) {
-    const ids = close.map(m => String(m.buildId)).join(', ')
-    return check('duplicate-curve', 'warn', `The curve is very close in shape to build(s) ${ids}; compare the two pulls side by side.`, values)
-  }
-  return check('duplicate-curve', 'pass', `Unlike the ${others.length} other curve(s) on file.`, values)
+  // Counted, never listed by id: the shop reads this report too, and the admin's review links the builds themselves.
+  const builds = (n: number) => (n === 1 ? 'another build' : `${n} other builds`)
+  if (matches.length > 0) return check('duplicate-curve', 'fail', `The same curve is already attached to ${builds(matches.length)} (allowing for resampling and correction). Ask the shop which build it belongs to.`, values)
+  if (close.length > 0) return check('duplicate-curve', 'warn', `The curve is very close in shape to ${builds(close.length)}; compare the pulls side by side.`, values)
+  return check('duplicate-curve', 'pass', `Unlike the ${others.length} other ${others.length === 1 ? 'curve' : 'curves'} on file.`, values)
 }
 
 /** Runs every check on a pull; never throws (a check that cannot run fails with the reason). */

@@ -173,7 +173,7 @@ export const disputeSchema = z.object({
 })
 
 export const cancelOrderSchema = z.object({
-  reason: required(1000, 'The reason for cancelling'),
+  reason: required(1000, 'The reason for canceling'),
 })
 
 /** The fields sent with a delivery pull's file (multipart form values arrive as text). */

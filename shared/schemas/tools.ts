@@ -107,7 +107,7 @@ function rodReachesCrank<K extends string>(schema: ReturnType<typeof toolSchema<
 
 const bore: ToolField<'boreIn'> = { key: 'boreIn', label: 'Bore', quantity: 'length', range: { imperial: [1, 8], metric: [25, 200] }, digits: { imperial: 3, metric: 2 } }
 const stroke: ToolField<'strokeIn'> = { key: 'strokeIn', label: 'Stroke', quantity: 'length', range: { imperial: [1, 8], metric: [25, 200] }, digits: { imperial: 3, metric: 2 } }
-const rod: ToolField<'rodLengthIn'> = { key: 'rodLengthIn', label: 'Rod length', quantity: 'length', range: { imperial: [2, 12], metric: [50, 300] }, digits: { imperial: 3, metric: 2 }, hint: 'Centre to centre' }
+const rod: ToolField<'rodLengthIn'> = { key: 'rodLengthIn', label: 'Rod length', quantity: 'length', range: { imperial: [2, 12], metric: [50, 300] }, digits: { imperial: 3, metric: 2 }, hint: 'Center to center' }
 const rpm: ToolField<'rpm'> = { key: 'rpm', label: 'Engine speed', unit: 'rpm', range: same(100, 20000), digits: both(0) }
 const displacement: ToolField<'displacementCi'> = { key: 'displacementCi', label: 'Displacement', quantity: 'displacement', range: { imperial: [10, 1200], metric: [0.2, 20] }, digits: { imperial: 1, metric: 3 } }
 

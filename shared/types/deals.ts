@@ -237,6 +237,8 @@ export interface DashboardOrderRow {
   nextMilestone: { id: number, title: string, state: MilestoneStateName, amountCents: number } | null
   milestonesDone: number
   milestonesTotal: number
+  /** Unread messages in the order's thread, so the list shows where the navigation's count comes from. */
+  unread: number
 }
 
 export interface DashboardView {

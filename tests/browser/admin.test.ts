@@ -36,7 +36,7 @@ async function openReview(pullId: number) {
 }
 
 describe('the admin desk in Chromium', () => {
-  it('an admin verifies a pull, and the checked mark appears on the build page, in the build lists and in search results', async () => {
+  it('an admin verifies a pull, and the verified mark appears on the build page, in the build lists and in search results', async () => {
     const owner = await makeAccount({ role: 'builder' })
     const { db, close } = await testDb()
     const { pullId, slug, title, pullLabel } = await makeBuildAwaitingCheck(db, { shopId: (await shopOf(db, owner.id)).id })
@@ -95,7 +95,7 @@ describe('the admin desk in Chromium', () => {
     expect(mail.text).toContain('Hello Petra Linwood')
     expect(mail.text).toContain(reason)
   })
-  it('the review of a rejected pull on a verified build says the pull was rejected, not that it carries the checked mark', async () => {
+  it('the review of a rejected pull on a verified build says the pull was rejected, not that it carries the verified mark', async () => {
     const { db, close } = await testDb()
     const [seeded] = await db.select({ slug: schema.builds.slug }).from(schema.builds)
       .where(and(eq(schema.builds.status, 'published'), isNotNull(schema.builds.verifiedAt))).limit(1)

@@ -7,6 +7,7 @@ import { loadConfig } from '../../scripts/lib/config'
 import { baseUrl, schema, testDb } from '../support/context'
 import { makeBuildAwaitingCheck } from '../support/fixtures'
 import { headlinePull } from '../../shared/pulls/headline'
+import { PULL_STATUS_WORDS } from '../../shared/vocabulary'
 import { isLocal, openBrowser } from '../support/browser'
 
 let browser: Awaited<ReturnType<typeof openBrowser>>
@@ -54,7 +55,7 @@ describe('build page in Chromium', () => {
     await page.waitForFunction(() => document.querySelector('[data-test="figures-standard"]')?.textContent?.includes('DIN 70020'))
     // The label follows the URL at once; the figures follow when the curves under the new standard arrive.
     await expect.poll(shown).toBeCloseTo(expectedPeak('DIN_70020'), 1)
-    expect(await page.locator('[data-test="pull-status"]').first().innerText()).toMatch(/Checked|Awaiting/)
+    expect([PULL_STATUS_WORDS.verified, PULL_STATUS_WORDS.submitted]).toContain(await page.locator('[data-test="pull-status"]').first().innerText())
 
     // Uncorrected is a choice: the shop gave the weather, so no "no weather" note appears.
     await page.locator('[data-test="standard-picker"]').selectOption('UNCORRECTED')

@@ -3,6 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { bmepPsi, ciToLitres, convertCurve, displacementCi, hpToKw, parsePull, peaks, type CorrectionStandard } from '../../shared/engine'
 import { evaluatePull } from '../../shared/pulls/evaluate'
 import { partsTotalCents } from '../../shared/schemas/build'
+import { PULL_STATUS_WORDS } from '../../shared/vocabulary'
 import { DEMO_PASSWORD, PERSONAS } from '../support/auth'
 import { isLocal, openBrowser } from '../support/browser'
 import { baseUrl, testDb } from '../support/context'
@@ -121,7 +122,7 @@ describe('the listing editor in Chromium', () => {
 
     await page.click('[data-test="pull-save"]')
     await page.waitForSelector('[data-test="editor-pull"]')
-    expect(await page.locator('[data-test="editor-pull-status"]').innerText()).toBe('Awaiting check')
+    expect(await page.locator('[data-test="editor-pull-status"]').innerText()).toBe(PULL_STATUS_WORDS.submitted)
     await page.waitForSelector('[data-test="editor-chart"] canvas')
     expect(await page.locator('[data-test="editor-evidence"] [data-test="check-report"] li').count()).toBe(8)
     await expect.poll(async () => num(await page.locator('[data-test="figure-bmep"]').innerText())).toBeCloseTo(Math.round(bmepPsi(evaluation.summary.peakTq, ci)), 0)
@@ -142,7 +143,7 @@ describe('the listing editor in Chromium', () => {
     const shown = async () => num(await page.locator('[data-test="peak-hp"]').innerText())
     expect(await shown()).toBeCloseTo(modulePeakHp('SAE_J1349_2004'), 1)
     expect(await page.locator('[data-test="figures-standard"]').innerText()).toContain('SAE J1349 (2004)')
-    expect(await page.locator('[data-test="pull-status"]').first().innerText()).toBe('Awaiting check')
+    expect(await page.locator('[data-test="pull-status"]').first().innerText()).toBe(PULL_STATUS_WORDS.submitted)
     expect(await page.locator('[data-test="parts-table"] tbody tr').count()).toBe(2)
     expect(await page.locator('[data-test="build-photo"]').evaluate(img => (img as HTMLImageElement).naturalWidth)).toBe(1)
 

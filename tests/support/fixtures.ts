@@ -44,7 +44,7 @@ export async function makeSubmittedPull(db: Db, buildSlug?: string) {
 }
 
 /**
- * A new published listing without the checked mark, with one submitted pull (a copy of a seeded
+ * A new published listing without the verified mark, with one submitted pull (a copy of a seeded
  * verified build's first pull, its fingerprint left out so it matches no other build), owned by
  * `shopId` or by the seeded build's shop.
  */
@@ -56,7 +56,7 @@ export async function makeBuildAwaitingCheck(db: Db, opts: { shopId?: number, ti
   const shopId = opts.shopId ?? source!.builderId
   const [shop] = await db.select().from(schema.builderProfiles).where(eq(schema.builderProfiles.id, shopId))
   const { id: _id, createdAt: _c, updatedAt: _u, ...columns } = source!
-  const title = opts.title ?? `Awaiting check ${tag}`
+  const title = opts.title ?? `Awaiting verification ${tag}`
   const slug = `awaiting-check-${tag}`
   // Published long ago, so the test listings never lead the newest-first lists that other tests open.
   const [build] = await db.insert(schema.builds).values({ ...columns, builderId: shopId, slug, title, publishedAt: new Date(Date.now() - 3 * 365 * 86_400_000), verifiedAt: null }).$returningId()

@@ -11,7 +11,7 @@ describe('admin display helpers', () => {
   })
 
   it('writes times in UTC so every admin reads the same moment', () => {
-    expect(formatWhen('2026-03-04T05:06:07.890Z')).toBe('2026-03-04 05:06 UTC')
+    expect(formatWhen('2026-03-04T05:06:07.890Z')).toBe('Mar 4, 2026, 5:06 AM UTC')
     expect(formatWhen(null)).toBe('—')
   })
 

@@ -21,11 +21,20 @@ describe('the invented demo scenario', () => {
     expect(new Set(builds.map(b => b.engineFamily)).size).toBeGreaterThanOrEqual(4)
   })
 
-  it('prices every build at or above its parts and labour (common practice: a shop does not sell below cost)', () => {
+  it('prices every build at exactly its parts and labor, in whole hundreds of dollars', () => {
     for (const b of builds) {
       const partsCents = b.parts.reduce((sum, p) => sum + p.quantity * p.unitPriceCents, 0)
-      expect(b.priceCents).toBeGreaterThanOrEqual(partsCents)
+      expect(partsCents, b.slug).toBe(b.priceCents)
       expect(b.priceCents % 10_000).toBe(0)
+      // The margin sits in the labor line, never below the shop's cost (common practice: a shop does not sell below cost).
+      expect(b.parts.find(p => p.category === 'Labor')!.unitPriceCents).toBeGreaterThan(0)
+    }
+  })
+
+  it('names the same heads and intake in the description and in the parts list', () => {
+    for (const b of builds) {
+      expect(b.parts.find(p => p.category === 'Cylinder heads')?.part, b.slug).toBe(b.cylinderHeads)
+      expect(b.parts.filter(p => p.category === 'Induction').map(p => p.part), b.slug).toContain(b.intakeManifold)
     }
   })
 

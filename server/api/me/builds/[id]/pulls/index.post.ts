@@ -4,7 +4,7 @@ import { savePull } from '../../../../../services/evidence-uploads'
 import { ownBuild } from '../../../../../services/listing-editor'
 
 /**
- * Saves a pull (file, optional sheet, metadata) as submitted, awaiting an admin's check. Nothing is
+ * Saves a pull (file, optional sheet, metadata) as submitted, awaiting an admin's verification. Nothing is
  * stored when the upload is too large (413), the wrong type (415) or does not parse (422).
  */
 export default defineEventHandler(async (event) => {
