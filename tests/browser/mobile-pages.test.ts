@@ -36,7 +36,7 @@ function pageFiles(dir = resolve(import.meta.dirname, '..', '..', 'pages')): str
     .sort()
 }
 
-interface Ids { build: string, buildId: number, shop: string, requestId: number, openRequestId: number, orderId: number, milestoneId: number, pullId: number }
+interface Ids { build: string, other: string, buildId: number, shop: string, requestId: number, openRequestId: number, orderId: number, milestoneId: number, pullId: number }
 let ids: Ids
 let seededBuilds: Set<number>
 
@@ -44,7 +44,7 @@ let seededBuilds: Set<number>
 const PAGES: Record<string, { role: Role, url: (i: Ids) => string }> = {
   'index': { role: 'visitor', url: () => '/' },
   'search': { role: 'visitor', url: () => '/search' },
-  'compare': { role: 'visitor', url: i => `/compare?builds=${i.build},harrow-362-na-race-gas-1` },
+  'compare': { role: 'visitor', url: i => `/compare?builds=${i.build},${i.other}` },
   'tools': { role: 'visitor', url: () => '/tools' },
   'sign-up': { role: 'visitor', url: () => '/sign-up' },
   'sign-in/index': { role: 'visitor', url: () => '/sign-in' },
@@ -136,15 +136,15 @@ async function actAs(role: Role) {
 
 beforeAll(async () => {
   const { ctx, db, close } = await dealTestContext()
-  const [build] = await db.select({ slug: schema.builds.slug, id: schema.builds.id }).from(schema.builds)
+  const [build, other] = await db.select({ slug: schema.builds.slug, id: schema.builds.id }).from(schema.builds)
     .innerJoin(schema.builderProfiles, eq(schema.builderProfiles.id, schema.builds.builderId))
-    .where(and(eq(schema.builderProfiles.slug, BUILDER_SHOP), eq(schema.builds.status, 'published'))).orderBy(asc(schema.builds.id)).limit(1)
+    .where(and(eq(schema.builderProfiles.slug, BUILDER_SHOP), eq(schema.builds.status, 'published'))).orderBy(asc(schema.builds.id)).limit(2)
   const dispute = await makeDispute(ctx, { title: `Phone check ${Date.now().toString(36)}` })
   const racer = await actorByEmail(db, PEOPLE.racer)
   const open = await createRequest(ctx, racer, requestInput({ title: 'Phone check, open request' }))
   const { pullId } = await makeSubmittedPull(db, build!.slug)
   seededBuilds = await buildIds(db)
-  ids = { build: build!.slug, buildId: build!.id, shop: BUILDER_SHOP, requestId: dispute.requestId, openRequestId: open.id, orderId: dispute.orderId, milestoneId: dispute.milestone.id, pullId }
+  ids = { build: build!.slug, other: other!.slug, buildId: build!.id, shop: BUILDER_SHOP, requestId: dispute.requestId, openRequestId: open.id, orderId: dispute.orderId, milestoneId: dispute.milestone.id, pullId }
   await close()
   browser = await openBrowser()
   page = browser.page
@@ -188,7 +188,11 @@ describe('every page on a 390 px phone', () => {
       if (found.small.length) failures.push(`${file}: small controls ${found.small.join('; ')}`)
       if (SHOTS) {
         const shot = file.replace(/[/[\]]/g, '_')
-        await page.screenshot({ path: join(SHOTS, `${shot}-390.png`), fullPage: true })
+        // The phone page in screen-high slices (a whole tall page shrinks past reading), then the desktop.
+        const height = await page.evaluate(() => document.documentElement.scrollHeight)
+        for (let y = 0, n = 0; y < height && n < 4; y += 1300, n++) {
+          await page.screenshot({ path: join(SHOTS, `${shot}-390-${n}.png`), fullPage: true, clip: { x: 0, y, width: PHONE.width, height: Math.min(1300, height - y) } })
+        }
         await page.setViewportSize(DESK)
         await page.screenshot({ path: join(SHOTS, `${shot}-1366.png`), fullPage: true })
       }
@@ -356,6 +360,8 @@ describe('the whole job on a phone', () => {
     }
     await page.click('[data-test="part-add"]')
     await page.locator('[data-test="part-row"]').first().getByLabel('Category, part 1').fill('Block')
+    // The pull's checks read the saved combination: wait for the draft to be saved.
+    await expect.poll(() => page.locator('[data-test="save-state"]').innerText(), { timeout: 10_000 }).toMatch(/Saved/)
     await page.fill('[data-test="pull-label"]', 'Final pull')
     await page.selectOption('[data-test="pull-standard"]', 'SAE_J1349_2004')
     await page.fill('[data-test="pull-baroInHg"]', '29.92')
@@ -363,7 +369,8 @@ describe('the whole job on a phone', () => {
     await page.fill('[data-test="pull-humidityPct"]', '20')
     await page.setInputFiles('[data-test="pull-file"]', { name: 'final-pull.csv', mimeType: 'text/csv', buffer: Buffer.from(inventedPullCsv(390, 520)) })
     await page.click('[data-test="pull-preview-button"]')
-    await page.waitForSelector('[data-test="pull-preview"]')
+    await page.locator('[data-test="pull-preview"], [data-test="pull-message"]').first().waitFor()
+    expect(await page.locator('[data-test="pull-message"]').allInnerTexts()).toEqual([])
     await page.click('[data-test="pull-save"]')
     await page.waitForSelector('[data-test="editor-pull"]')
     expect(await page.locator('[data-test="editor-pull-status"]').innerText()).toBe('Awaiting check')
