@@ -174,8 +174,6 @@ describe('every page on a 390 px phone', () => {
     const order: Role[] = ['visitor', 'racer', 'shop', 'admin']
     const entries = Object.entries(PAGES).sort(([, a], [, b]) => order.indexOf(a.role) - order.indexOf(b.role))
     for (const [file, { role, url }] of entries) {
-      // Signing in waits for the desktop header's account link, so sign in at desktop width.
-      await page.setViewportSize(DESK)
       await actAs(role)
       await page.setViewportSize(PHONE)
       const res = await page.goto(`${baseUrl()}${url(ids)}`, { waitUntil: 'networkidle' })
@@ -203,7 +201,6 @@ describe('every page on a 390 px phone', () => {
 
 describe('the keyboard on a phone', () => {
   it('the header menu opens with Enter, Escape closes it and focus returns to its button', async () => {
-    await page.setViewportSize(DESK)
     await actAs('racer')
     await page.setViewportSize(PHONE)
     await page.goto(`${baseUrl()}/search`, { waitUntil: 'networkidle' })
@@ -231,7 +228,6 @@ describe('the keyboard on a phone', () => {
   })
 
   it('"+ Add a line" and "+ Add a milestone" put the keyboard in the new row, named with its number', async () => {
-    await page.setViewportSize(DESK)
     await actAs('shop')
     await page.setViewportSize(PHONE)
     await page.goto(`${baseUrl()}/deals/requests/${ids.openRequestId}/quote`, { waitUntil: 'networkidle' })
@@ -254,7 +250,6 @@ describe('the whole job on a phone', () => {
   it('a racer requests, the shop quotes, the racer pays, the shop submits, the racer approves; the shop lists a build with a pull', async () => {
     const title = `Phone deal ${Date.now().toString(36)}`
     // The racer asks for a quote from a build page.
-    await page.setViewportSize(DESK)
     await actAs('racer')
     await page.setViewportSize(PHONE)
     await page.goto(`${baseUrl()}/builds/${ids.build}`, { waitUntil: 'networkidle' })
@@ -277,7 +272,6 @@ describe('the whole job on a phone', () => {
     const requestUrl = page.url()
 
     // The shop quotes it: two lines, two milestones split 30 / 70 %.
-    await page.setViewportSize(DESK)
     await actAs('shop')
     await page.setViewportSize(PHONE)
     await page.goto(requestUrl, { waitUntil: 'networkidle' })
@@ -299,7 +293,6 @@ describe('the whole job on a phone', () => {
     await page.locator('[data-test="quote-panel"]').waitFor()
 
     // The racer accepts and pays the first deposit on the payments fake's page.
-    await page.setViewportSize(DESK)
     await actAs('racer')
     await page.setViewportSize(PHONE)
     await page.goto(requestUrl, { waitUntil: 'networkidle' })
@@ -320,7 +313,6 @@ describe('the whole job on a phone', () => {
     await page.locator('[data-test="payment-return"][data-confirmed="true"]').waitFor({ timeout: 20_000 })
 
     // The shop marks the first milestone done with notes.
-    await page.setViewportSize(DESK)
     await actAs('shop')
     await page.setViewportSize(PHONE)
     await page.goto(orderUrl, { waitUntil: 'networkidle' })
@@ -333,7 +325,6 @@ describe('the whole job on a phone', () => {
     expect(await scrollWidth()).toBeLessThanOrEqual(PHONE.width)
 
     // The racer approves it.
-    await page.setViewportSize(DESK)
     await actAs('racer')
     await page.setViewportSize(PHONE)
     await page.goto(orderUrl, { waitUntil: 'networkidle' })
@@ -342,7 +333,6 @@ describe('the whole job on a phone', () => {
     await expect.poll(() => first.getAttribute('data-state'), { timeout: 15_000 }).toBe('released')
 
     // The shop starts a listing and uploads a pull.
-    await page.setViewportSize(DESK)
     await actAs('shop')
     await page.setViewportSize(PHONE)
     await page.goto(`${baseUrl()}/dashboard`, { waitUntil: 'networkidle' })
