@@ -246,6 +246,32 @@ describe('the keyboard on a phone', () => {
   })
 })
 
+describe('the charts without a mouse', () => {
+  it('name each canvas, toggle a line from the key with the keyboard, and show the figures as a table', async () => {
+    await actAs('visitor')
+    await page.setViewportSize(PHONE)
+    await page.goto(`${baseUrl()}/builds/${ids.build}`, { waitUntil: 'networkidle' })
+    const canvas = page.locator('[data-test="curves-chart"] canvas').first()
+    await canvas.waitFor()
+    expect(await canvas.getAttribute('role')).toBe('img')
+    expect(await canvas.getAttribute('aria-label')).toMatch(/^Power and torque against engine speed, \d+ curves?\. Pull 1 \(.+\): peak [\d,.]+ hp at [\d,]+ rpm, peak [\d,.]+ lb·ft at [\d,]+ rpm/)
+    // Short names in the key: "Pull 1 · power", the full title beside it.
+    const toggles = page.locator('[data-test="chart-key-toggle"]')
+    expect((await toggles.allInnerTexts()).slice(0, 2).map(t => t.trim())).toEqual(['Pull 1 · power', 'Pull 1 · torque'])
+    await toggles.first().focus()
+    await page.keyboard.press('Space')
+    expect(await toggles.first().getAttribute('aria-pressed')).toBe('false')
+    await page.keyboard.press('Enter')
+    expect(await toggles.first().getAttribute('aria-pressed')).toBe('true')
+    const figures = page.locator('[data-test="chart-figures"]').first()
+    await figures.locator('summary').focus()
+    await page.keyboard.press('Enter')
+    expect(await figures.evaluate(el => (el as HTMLDetailsElement).open)).toBe(true)
+    expect(await figures.locator('table').first().locator('tbody tr').count()).toBeGreaterThan(10)
+    expect(await scrollWidth()).toBeLessThanOrEqual(PHONE.width)
+  })
+})
+
 describe('the whole job on a phone', () => {
   it('a racer requests, the shop quotes, the racer pays, the shop submits, the racer approves; the shop lists a build with a pull', async () => {
     const title = `Phone deal ${Date.now().toString(36)}`
