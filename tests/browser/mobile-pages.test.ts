@@ -216,6 +216,12 @@ describe('the keyboard on a phone', () => {
     expect(await nav.isVisible()).toBe(true)
     await page.keyboard.press('Tab')
     expect(await page.evaluate(() => document.activeElement?.closest('[data-test="main-nav"]') !== null)).toBe(true)
+    if (SHOTS) await page.screenshot({ path: join(SHOTS, 'header-menu-open-390.png') })
+    // The open panel lies over the page: a tap anywhere on one of its controls lands on the panel.
+    expect(await nav.evaluate(el => [...el.querySelectorAll('a, button')].flatMap((c) => {
+      const r = c.getBoundingClientRect()
+      return [[r.x + r.width / 2, r.y + 3], [r.x + r.width / 2, r.bottom - 3]].filter(([x, y]) => !el.contains(document.elementFromPoint(x!, y!))).map(() => c.textContent?.trim())
+    }))).toEqual([])
     await page.keyboard.press('Escape')
     expect(await menu.getAttribute('aria-expanded')).toBe('false')
     expect(await nav.isVisible()).toBe(false)
