@@ -8,6 +8,7 @@ export default {
     './pages/**/*.vue',
     './app.vue',
     './error.vue',
+    './utils/**/*.ts',
   ],
   theme: {
     extend: {

@@ -37,11 +37,14 @@ export function isLocal(url: string): boolean {
   return host === '127.0.0.1' || host === 'localhost' || host === '[::1]'
 }
 
-/** Signs in through the sign-in page's password form, as a person does, and waits for the signed-in header. */
+/**
+ * Signs in through the sign-in page's password form, as a person does, and waits for the signed-in
+ * header. On a phone the account link sits in the closed header menu, so it waits for it to exist.
+ */
 export async function signInPage(page: Page, email: string, password = DEMO_PASSWORD): Promise<void> {
   await page.goto(`${baseUrl()}/sign-in`, { waitUntil: 'networkidle' })
   await page.fill('#field-email', email)
   await page.fill('#field-password', password)
   await page.click('[data-test="password-form"] button[type="submit"]')
-  await page.locator('[data-test="nav-account"]').waitFor()
+  await page.locator('[data-test="nav-account"]').waitFor({ state: 'attached' })
 }
