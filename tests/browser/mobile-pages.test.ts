@@ -71,6 +71,9 @@ const PAGES: Record<string, { role: Role, url: (i: Ids) => string }> = {
   'admin/evidence/[id]': { role: 'admin', url: i => `/admin/evidence/${i.pullId}` },
   'admin/disputes/index': { role: 'admin', url: () => '/admin/disputes' },
   'admin/disputes/[id]': { role: 'admin', url: i => `/admin/disputes/${i.milestoneId}` },
+  'admin/reviews': { role: 'admin', url: () => '/admin/reviews' },
+  'swaps': { role: 'visitor', url: () => '/swaps?change=camshaft' },
+  'track-record/[slug]/[figure]': { role: 'visitor', url: i => `/track-record/${i.shop}/on-time` },
 }
 
 interface Finding { scrollWidth: number, wide: string[], scrollers: string[], small: string[] }
