@@ -14,6 +14,7 @@ import { createRequest } from '../../server/services/deals'
 import { makeSubmittedPull } from '../support/fixtures'
 import { buildIds, COMPLETE_COMBINATION, inventedPullCsv, removeBuildsSince } from '../support/listings'
 import { CARDS } from '../support/payments'
+import { VERIFICATION } from '../../shared/vocabulary'
 
 /** An iPhone 12–15's viewport in CSS px (the product's phone width). */
 const PHONE = { width: 390, height: 844 }
@@ -398,7 +399,7 @@ describe('the whole job on a phone', () => {
     expect(await page.locator('[data-test="pull-message"]').allInnerTexts()).toEqual([])
     await page.click('[data-test="pull-save"]')
     await page.waitForSelector('[data-test="editor-pull"]')
-    expect(await page.locator('[data-test="editor-pull-status"]').innerText()).toBe('Awaiting check')
+    expect(await page.locator('[data-test="editor-pull-status"]').innerText()).toBe(VERIFICATION.awaiting)
     await page.waitForSelector('[data-test="editor-chart"] canvas')
     expect(await scrollWidth()).toBeLessThanOrEqual(PHONE.width)
   }, 180_000)
