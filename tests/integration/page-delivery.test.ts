@@ -71,6 +71,16 @@ describe('compressed answers', () => {
     expect(JSON.parse(plain.body.toString('utf8')).items.length).toBeGreaterThan(0)
   })
 
+  it('sends an error page whole to a client that accepts brotli: a missing build and a racer on the shop dashboard', async () => {
+    const racer = await signedIn(PERSONAS.racer)
+    for (const [path, cookie, status] of [['/builds/no-such-build-anywhere', '', 404], ['/dashboard', racer.header(), 403]] as const) {
+      // undici decodes by the Content-Encoding header: a body that does not match it fails here.
+      const res = await fetch(`${baseUrl()}${path}`, { headers: { 'accept-encoding': 'br, gzip', 'accept': 'text/html', ...(cookie ? { cookie } : {}) }, redirect: 'manual' })
+      expect(res.status, path).toBe(status)
+      expect(await res.text(), path).toContain('</html>')
+    }
+  })
+
   it('sends JSON compressed with its JSON type', async () => {
     const res = await raw(`/api/builds/${build.slug}`, 'gzip')
     expect(res.status).toBe(200)
