@@ -131,6 +131,17 @@ describe('the HTML page cache', () => {
     expect(gzNonces.header).not.toBe(nonces(hit).header)
   })
 
+  it('shows a listing edit on a cached search page at once', async () => {
+    const word = `Zq${Date.now().toString(36)}`
+    const path = `/search?q=${word}`
+    expect((await page(path)).html).not.toContain(`${build.title} ${word}`)
+    expect((await page(path)).html).not.toContain(`${build.title} ${word}`)
+    await editTitle(`${build.title} ${word}`)
+    expect((await page(path)).html).toContain(`${build.title} ${word}`)
+    await editTitle(build.title)
+    expect((await page(path)).html).not.toContain(`${build.title} ${word}`)
+  })
+
   it('never stores an answer that sets a cookie', async () => {
     await rename(`${shopName} E`)
     // Test mode sets a cookie on a page answer when asked (server/plugins/testing-cookie.ts).
