@@ -6,9 +6,9 @@ export default defineNitroPlugin((nitroApp) => {
   nitroApp.hooks.hook('beforeResponse', async (event, response) => {
     const res = event.node.res
     if (res.headersSent || event.method === 'HEAD' || res.statusCode === 204 || res.statusCode === 304) return
-    // Nuxt renders an error page through an internal request and copies its body as text and its
-    // headers into the answer it sends itself: that inner answer must stay uncompressed.
-    if (getRequestHeader(event, 'x-nuxt-error')) return
+    // Nuxt renders an error page through an internal request and reads its body as text, copying its
+    // headers: that inner answer stays plain (the outer one is the answer the client gets).
+    if (event.path.startsWith('/__nuxt_error') || getRequestHeader(event, 'x-nuxt-error')) return
     const body = response.body
     let text: string
     if (typeof body === 'string') {

@@ -30,6 +30,9 @@ export default defineNitroPlugin((nitroApp) => {
   // try: one writes it and queues the mail, the others find it written.
   const bringInStep = async (buildId: number) => {
     await syncBuild(db, buildId)
+    // The search page renders from this index: a page rendered and cached while it was still catching
+    // up (after the first drop, before this sync) goes now (server/plugins/page-cache.ts).
+    await invalidatePublicCache()
     try {
       await announceBuild(db, await useSearchIndex(), buildId, siteOrigin())
     }

@@ -9,6 +9,11 @@ export function nextPublicCacheGeneration(): void {
   generation++
 }
 
+/** The generation in force: the page cache (server/plugins/page-cache.ts) stores it with each entry. */
+export function publicCacheGeneration(): number {
+  return generation
+}
+
 /** Auth.js cookies (session, CSRF, callback URL) with or without the __Secure-/__Host- prefix. */
 const AUTH_COOKIE = /(?:^|;)\s*(?:__Secure-|__Host-)?(?:authjs|next-auth)\.[\w.-]+=/i
 

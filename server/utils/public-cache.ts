@@ -1,5 +1,6 @@
 import type { EventHandler, H3Event } from 'h3'
 import { hasAuthCookie, nextPublicCacheGeneration, publicCacheKey } from './public-cache-keys'
+import { clearPageCache } from './page-cache-rules'
 
 /**
  * Nitro's handler cache for public answers every anonymous visitor gets the same way (published
@@ -11,9 +12,10 @@ import { hasAuthCookie, nextPublicCacheGeneration, publicCacheKey } from './publ
 export const PUBLIC_CACHE_SECONDS = 60
 const GROUP = 'public'
 
-/** Drops every cached public answer; the next request of each is computed again. */
+/** Drops every cached public answer and page (server/plugins/page-cache.ts); the next request of each is computed again. */
 export async function invalidatePublicCache(): Promise<void> {
   nextPublicCacheGeneration()
+  clearPageCache()
   const storage = useStorage()
   const keys = await storage.getKeys(`cache:${GROUP}`)
   await Promise.all(keys.map(k => storage.removeItem(k)))

@@ -73,6 +73,27 @@ describe('pages under the CSP in Chromium', () => {
     expect(problems).toEqual([])
   })
 
+  it('hydrates a page served from the HTML page cache, with its fresh nonce, without a CSP violation', async () => {
+    // Anonymous, with no Auth.js cookie at all (the sign-in page above set its housekeeping cookies).
+    await browser.context.clearCookies()
+    const shop = 'tallgrass-racing-engines'
+    const [row] = await db.select({ shopName: schema.builderProfiles.shopName }).from(schema.builderProfiles).where(eq(schema.builderProfiles.slug, shop))
+    await visit(`/builders/${shop}`, '[data-test="track-record"]')
+    const first = await page.evaluate(() => document.querySelector('script[nonce]') ? (document.querySelector('script[nonce]') as HTMLScriptElement).nonce : '')
+    // A rename written straight to MariaDB (no hook): a page that still shows the old name came from the cache.
+    await db.update(schema.builderProfiles).set({ shopName: `${row!.shopName} (round the app)` }).where(eq(schema.builderProfiles.slug, shop))
+    try {
+      await visit(`/builders/${shop}`, '[data-test="track-record"]')
+      await expect.poll(() => page.locator('[data-test="shop-name"]').textContent()).toBe(row!.shopName)
+      const second = await page.evaluate(() => (document.querySelector('script[nonce]') as HTMLScriptElement | null)?.nonce ?? '')
+      expect(second).toMatch(/^[A-Za-z0-9+/]{24}$/)
+      expect(second).not.toBe(first)
+    }
+    finally {
+      await db.update(schema.builderProfiles).set({ shopName: row!.shopName }).where(eq(schema.builderProfiles.slug, shop))
+    }
+  })
+
   it('signs in through the form and opens the deal pages without a violation; its own writes pass the origin check', async () => {
     await signInAsRacer()
 

@@ -81,6 +81,21 @@ describe('compressed answers', () => {
     }
   })
 
+  it('sends a missing page\'s error page readable to a client that asks for gzip', async () => {
+    const { request } = await import('node:http')
+    const res = await new Promise<{ status: number, enc: string | undefined, body: Buffer }>((resolve, reject) => {
+      request(`${baseUrl()}/no-such-page-here`, { headers: { 'accept': 'text/html', 'accept-encoding': 'gzip' } }, (r) => {
+        const chunks: Buffer[] = []
+        r.on('data', c => chunks.push(c))
+        r.on('end', () => resolve({ status: r.statusCode!, enc: r.headers['content-encoding'], body: Buffer.concat(chunks) }))
+      }).on('error', reject).end()
+    })
+    expect(res.status).toBe(404)
+    const html = res.enc === 'gzip' ? gunzipSync(res.body).toString('utf8') : res.body.toString('utf8')
+    expect(res.enc === undefined || res.enc === 'gzip').toBe(true)
+    expect(html).toContain('<html')
+  })
+
   it('sends JSON compressed with its JSON type', async () => {
     const res = await raw(`/api/builds/${build.slug}`, 'gzip')
     expect(res.status).toBe(200)

@@ -9,5 +9,7 @@ export default defineEventHandler(async (event) => {
   const { id } = await getValidatedRouterParams(event, validator(idParams))
   const { body } = await readValidatedBody(event, validator(reviewAnswerSchema))
   await answerReview(useDb(), actor, id, body)
+  // Reviews show on the build and shop pages: the cached public pages go at once.
+  await invalidatePublicCache()
   return { ok: true }
 })

@@ -8,5 +8,7 @@ export default defineEventHandler(async (event) => {
   const { id } = await getValidatedRouterParams(event, validator(idParams))
   const { reason } = await readValidatedBody(event, validator(hideReviewSchema))
   await hideReview(useDb(), admin.id, id, reason)
+  // Reviews show on the build and shop pages: the cached public pages go at once.
+  await invalidatePublicCache()
   return { ok: true }
 })
