@@ -176,7 +176,7 @@ describe('while MariaDB is away', () => {
         expect(JSON.stringify({ ...res.body, url: undefined }), path).not.toMatch(driverText)
       }
 
-      const page = await call(`/builds/${slug}`, { headers: { accept: 'text/html' } })
+      const page = await call(`/builds/${slug}`, { headers: { accept: 'text/html', ...fresh.headers } })
       expect(page.status).toBe(503)
       expect(Number(page.headers.get('retry-after'))).toBeGreaterThan(0)
       expect(page.headers.get('content-type')).toContain('text/html')
