@@ -11,7 +11,8 @@ import { create, insertMultiple, search as oramaSearch } from '@orama/orama'
 import FlexSearch from 'flexsearch'
 import MiniSearch from 'minisearch'
 import { createSearchIndex, type SearchDocument } from '../search/index'
-import { seeded, syntheticDocuments } from '../search/synthetic'
+import { seededRandom } from '../shared/random'
+import { syntheticDocuments } from '../search/synthetic'
 import { termsOf } from '../search/text'
 
 setFlagsFromString('--expose-gc')
@@ -33,7 +34,7 @@ type Engine = {
 const body = (d: SearchDocument) => [d.summary, ...d.parts, d.heads, d.camshaft, d.intake, d.builder.name].join(' ')
 
 function makeQueries(docs: SearchDocument[]): Queries {
-  const r = seeded(77)
+  const r = seededRandom(77)
   const words = [...new Set(docs.slice(0, 2000).flatMap(d => termsOf(`${d.title} ${d.summary} ${d.builder.name}`)))].filter(w => w.length >= 5 && /^[a-z]+$/.test(w))
   const typo = (w: string) => {
     const i = r.int(1, w.length - 2)

@@ -14,7 +14,8 @@ import { loadConfig } from '../scripts/lib/config'
 import { ensureDatabase, startMariadb, stopMariadb } from '../scripts/lib/mariadb'
 import { waitFor } from '../scripts/lib/process'
 import { createSearchIndex, type SearchDocument, type SearchQuery } from '../search/index'
-import { seeded, syntheticDocuments } from '../search/synthetic'
+import { seededRandom } from '../shared/random'
+import { syntheticDocuments } from '../search/synthetic'
 import { termsOf } from '../search/text'
 
 export const LISTINGS = 100_000
@@ -53,7 +54,7 @@ const both = (m: { wall: number, cpu: number }[]) => `${fmtSummary(summary(m.map
 
 /** The query mix, seeded: each category from the listings' own values and words. */
 export function queryMix(docs: SearchDocument[], perCategory = PER_CATEGORY): Record<string, SearchQuery[]> {
-  const r = seeded(31337)
+  const r = seededRandom(31337)
   const words = [...new Set(docs.slice(0, 3000).flatMap(d => termsOf(`${d.title} ${d.summary} ${d.heads} ${d.intake} ${d.builder.name}`)))].filter(w => w.length >= 5 && /^[a-z]+$/.test(w))
   const families = [...new Set(docs.map(d => d.family))]
   const range = () => {
@@ -118,7 +119,7 @@ function inProcess(docs: SearchDocument[], mix: Record<string, SearchQuery[]>): 
   }
   rows.push({ name: 'in-process query: whole mix', figure: both(all), target: 'p95 < 5 ms' })
 
-  const r = seeded(5)
+  const r = seededRandom(5)
   const updates = Array.from({ length: 400 }, () => {
     const d = docs[r.int(0, docs.length - 1)] as SearchDocument
     const doc = { ...d, title: `${d.title} rev`, displacementCi: d.displacementCi + r.between(-20, 20), priceCents: d.priceCents + 100 }

@@ -1,28 +1,11 @@
 import type { z } from 'zod'
 import { fieldErrors } from '#shared/schemas/auth'
 
-type Issue = { path: string, message: string }
-
-/** validator()'s per-field issues, wherever h3 nested them in the answer. */
-function issuesIn(body: unknown): Issue[] {
-  let node = body as { issues?: Issue[], data?: unknown } | undefined
-  for (let depth = 0; node && depth < 4; depth++) {
-    if (Array.isArray(node.issues)) return node.issues
-    node = node.data as typeof node
-  }
-  return []
-}
-
-/** The server's 4xx answer: a message, and per-field issues when validator() or fieldError() made it. */
+/** The server's 4xx answer: per-field issues when validator() or fieldError() made it, else its message. */
 function serverErrors(err: unknown): Record<string, string> {
-  const data = (err as { data?: { message?: string } }).data
-  const out: Record<string, string> = {}
-  for (const issue of issuesIn(data)) {
-    const key = issue.path.split('.')[0] || '_form'
-    out[key] ??= issue.message
-  }
-  if (!Object.keys(out).length) out._form = data?.message ?? 'Something went wrong: try again.'
-  return out
+  const { message, fields } = apiError(err)
+  if (Object.keys(fields).length) return fields
+  return { _form: message ?? 'Something went wrong: try again.' }
 }
 
 /**

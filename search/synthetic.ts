@@ -3,26 +3,8 @@
  * of search documents with formulaic titles, a long tail of invented shop and part words, and
  * smooth parametric power curves on the index's rpm grid.
  */
+import { seededRandom, type Random } from '../shared/random'
 import { ASPIRATIONS, CURVE_STEP_RPM, FUELS, USES, type Aspiration, type Fuel, type SearchDocument, type Use } from './types'
-
-/** mulberry32: a small seeded generator, so every run sees the same listings. */
-export function seeded(seed: number) {
-  let a = seed >>> 0
-  const next = () => {
-    a = (a + 0x6D2B79F5) >>> 0
-    let t = a
-    t = Math.imul(t ^ (t >>> 15), t | 1)
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61)
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296
-  }
-  return {
-    next,
-    between: (min: number, max: number) => min + (max - min) * next(),
-    int: (min: number, max: number) => Math.floor(min + (max - min + 1) * next()),
-    pick: <T>(items: readonly T[]): T => items[Math.floor(next() * items.length)] as T,
-  }
-}
-type Random = ReturnType<typeof seeded>
 
 const FAMILIES = [
   { label: 'Pushrod V8, small block', cylinders: 8, bore: [3.9, 4.165], stroke: [3.25, 4.0], redline: [6600, 8000] },
@@ -56,7 +38,7 @@ function inventedWord(r: Random): string {
 
 /** Deterministic invented shops: name, slug and region. */
 export function syntheticShops(count: number, seed = 7) {
-  const r = seeded(seed)
+  const r = seededRandom(seed)
   const regions = Array.from({ length: 40 }, () => `${cap(inventedWord(r))} ${r.pick(['Basin', 'Ridge', 'Shore', 'Valley', 'Mesa', 'Plains', 'Hollow', 'Coast'])}`)
   return Array.from({ length: count }, (_, i) => {
     const name = `${cap(inventedWord(r))} ${cap(inventedWord(r))} ${r.pick(SHOP_KINDS)}`
@@ -93,7 +75,7 @@ function curve(r: Random, peakHpTarget: number, redline: number, boosted: boolea
 
 /** `count` invented listings from `shops` shops, the same for the same arguments. */
 export function syntheticDocuments(count: number, opts: { seed?: number, shops?: number } = {}): SearchDocument[] {
-  const r = seeded(opts.seed ?? 20261201)
+  const r = seededRandom(opts.seed ?? 20261201)
   const shops = syntheticShops(opts.shops ?? Math.max(8, Math.round(count / 60)), (opts.seed ?? 20261201) + 1)
   const epoch = Date.UTC(2026, 0, 1)
   const out: SearchDocument[] = new Array(count)

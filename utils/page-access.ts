@@ -13,8 +13,8 @@ export function pageAccess(to: RouteLocationNormalized, roles?: Role[]) {
   if (roles && !roles.includes(user.value.role)) {
     const allowed = roles.map(r => FOR[r]).join(' and ')
     return abortNavigation(createError({
-      statusCode: 403,
-      statusMessage: `This page is for ${allowed}. You are signed in as a ${user.value.role}.`,
+      status: 403,
+      message: `This page is for ${allowed}. You are signed in as a ${user.value.role}.`,
     }))
   }
 }

@@ -1,6 +1,6 @@
 // The invented demo scenario: shops, people, builds and dyno curves that exist nowhere else.
 // Every curve comes from a smooth parametric torque model with a little noise.
-import { seededRandom, type Random } from './random'
+import { seededRandom, type Random } from '../../shared/random'
 
 export const DEMO_PASSWORD = 'torque-demo-2026'
 

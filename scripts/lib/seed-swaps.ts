@@ -2,7 +2,7 @@
 // and after one change, made by the demo's parametric curve model. Kept apart from the main scenario
 // so the two can grow independently; every comparison here is verified, so it counts.
 import { makeCurve, type DemoBuild, type DemoPull } from './demo-data'
-import { seededRandom } from './random'
+import { seededRandom } from '../../shared/random'
 
 type SwapKind = 'heads' | 'camshaft' | 'intake'
 

@@ -1,7 +1,6 @@
 // The fake's own hosted payment page: a plain form that takes the test cards and nothing else.
 import type { FakeSession } from './objects'
-
-const escape = (s: string) => s.replace(/[&<>"']/g, c => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', '\'': '&#39;' })[c]!)
+import { escapeHtml } from '../../shared/text/html'
 
 /** Minor units as a display amount, with integer arithmetic only. */
 export function displayAmount(minor: number, currency: string): string {
@@ -37,14 +36,14 @@ export function paymentPage(session: FakeSession, state: PageState = {}): string
   const currency = session.currency ?? 'usd'
   const total = displayAmount(session.amount_total ?? 0, currency)
   const open = session.status === 'open'
-  const rows = session._lineItems.map(i => `<tr><td>${escape(i.name)}${i.quantity > 1 ? ` × ${i.quantity}` : ''}</td><td class="num">${displayAmount(i.unitAmount * i.quantity, currency)}</td></tr>`).join('')
+  const rows = session._lineItems.map(i => `<tr><td>${escapeHtml(i.name)}${i.quantity > 1 ? ` × ${i.quantity}` : ''}</td><td class="num">${displayAmount(i.unitAmount * i.quantity, currency)}</td></tr>`).join('')
   const message = state.message
-    ? `<p class="msg ${state.message.kind}" role="alert" data-test="fake-message">${escape(state.message.text)}</p>`
+    ? `<p class="msg ${state.message.kind}" role="alert" data-test="fake-message">${escapeHtml(state.message.text)}</p>`
     : ''
   const form = open
-    ? `<form method="post" action="/pay/${escape(session.id)}" autocomplete="off">
-  <label>E-mail<input name="email" type="email" value="${escape(state.values?.email ?? session.customer_email ?? '')}" required></label>
-  <label>Name on card<input name="name" value="${escape(state.values?.name ?? '')}" required></label>
+    ? `<form method="post" action="/pay/${escapeHtml(session.id)}" autocomplete="off">
+  <label>E-mail<input name="email" type="email" value="${escapeHtml(state.values?.email ?? session.customer_email ?? '')}" required></label>
+  <label>Name on card<input name="name" value="${escapeHtml(state.values?.name ?? '')}" required></label>
   <label>Card number<input name="cardNumber" inputmode="numeric" placeholder="4242 4242 4242 4242" required></label>
   <div class="pair">
     <label>Expiry (MM/YY)<input name="expiry" placeholder="12/34" required></label>
@@ -52,8 +51,8 @@ export function paymentPage(session: FakeSession, state: PageState = {}): string
   </div>
   <button type="submit" data-test="fake-pay">Pay ${total}</button>
 </form>`
-    : `<p class="msg info">This payment is ${escape(session.status ?? 'closed')}.</p>`
-  const cancel = session.cancel_url && open ? `<p><a href="${escape(session.cancel_url)}" data-test="fake-cancel">Cancel and go back</a></p>` : ''
+    : `<p class="msg info">This payment is ${escapeHtml(session.status ?? 'closed')}.</p>`
+  const cancel = session.cancel_url && open ? `<p><a href="${escapeHtml(session.cancel_url)}" data-test="fake-cancel">Cancel and go back</a></p>` : ''
   return `<!doctype html>
 <html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1">
 <title>Test payment · ${total}</title>

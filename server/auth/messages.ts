@@ -1,11 +1,11 @@
+import { escapeHtml } from '../../shared/text/html'
+
 /** The e-mails of sign-up and sign-in, as plain text with a simple HTML twin. */
 export interface MailBody {
   subject: string
   text: string
   html: string
 }
-
-const escapeHtml = (s: string) => s.replace(/[&<>"']/g, c => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', '\'': '&#39;' })[c]!)
 
 export function compose(subject: string, greeting: string, paragraphs: string[], action?: { label: string, url: string }, footer?: string): MailBody {
   const text = [greeting, '', ...paragraphs.flatMap(p => [p, '']), ...(action ? [`${action.label}: ${action.url}`, ''] : []), footer ?? '', '— Torquewright'].join('\n')

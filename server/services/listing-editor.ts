@@ -3,6 +3,7 @@ import { createError } from 'h3'
 import { and, asc, count, eq, inArray, like, ne } from 'drizzle-orm'
 import { buildDraftPatch, MAX_PARTS, publishProblems, REQUIRED_FOR_PUBLISH, type BuildDraftPatch } from '#shared/schemas/build'
 import type { EditorBuild, EditorFields, PublishIssue } from '#shared/types/editor'
+import { firstFreeSlug, slugify } from '#shared/text/slug'
 import { buildParts, buildPhotos, builds, dynoPulls, type Build } from '../database/schema'
 import type { Database } from '../database/types'
 import { inRetriedTransaction } from '../utils/transaction'
@@ -45,11 +46,9 @@ export async function afterBuildChanged(buildId: number): Promise<void> {
 
 const EDITABLE_COLUMNS = ['title', ...REQUIRED_FOR_PUBLISH, 'injectorSizeLbHr', 'injectorCount'] as const satisfies (keyof EditorFields)[]
 
-/** Plain words for a slug: lower case, digits and single hyphens, at most 120 characters. */
-export function slugify(title: string): string {
-  const slug = title.normalize('NFKD').replace(/[\u0300-\u036F]/g, '').toLowerCase()
-    .replace(/[^a-z0-9]+/g, '-').replace(/^-+|-+$/g, '').slice(0, 120).replace(/-+$/, '')
-  return slug || 'build'
+/** A build's address from its title: the shared slug rules with `&` dropped, or `build` when no word is left. */
+export function buildSlug(title: string): string {
+  return slugify(title, 120, { ampersand: 'drop' }) || 'build'
 }
 
 const draftSlug = () => `draft-${randomBytes(6).toString('hex')}`
@@ -170,11 +169,9 @@ export async function updateBuild(db: Database, shop: ShopRef, buildId: number, 
 
 /** A slug for a first publish: the title's words, with -2, -3… when another build has them. */
 async function freeSlug(tx: Tx, buildId: number, title: string): Promise<string> {
-  const base = slugify(title)
+  const base = buildSlug(title)
   const taken = new Set((await tx.select({ slug: builds.slug }).from(builds).where(and(like(builds.slug, `${base}%`), ne(builds.id, buildId)))).map(r => r.slug))
-  if (!taken.has(base)) return base
-  for (let n = 2; n < 1000; n++) if (!taken.has(`${base}-${n}`)) return `${base}-${n}`
-  return `${base}-${randomBytes(3).toString('hex')}`
+  return firstFreeSlug(base, taken)
 }
 
 const TRANSITIONS: Record<'publish' | 'unpublish' | 'archive' | 'restore', { from: Build['status'][], to: Build['status'] }> = {

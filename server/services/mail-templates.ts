@@ -1,6 +1,7 @@
 // The deal e-mails, in Torquewright's own words, each as plain text and simple HTML.
 import { formatCents } from '../../shared/money'
 import { VERIFICATION } from '../../shared/vocabulary'
+import { escapeHtml } from '../../shared/text/html'
 
 export interface RenderedMail {
   subject: string
@@ -27,8 +28,6 @@ const INK = '#1d2230'
 const PAPER = '#f5f3ee'
 const COPPER = '#a0461f'
 
-const escape = (s: string) => s.replace(/[&<>"']/g, c => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', '\'': '&#39;' })[c]!)
-
 const DEAL_FOOTER = { text: 'You get this e-mail because you are a party to this deal.' }
 
 /** The note under the signature: why the reader gets this mail, with a link where they can change it. */
@@ -40,14 +39,14 @@ interface Footer {
 function layout(paragraphs: string[], action: { label: string, link: string }, footer: Footer = DEAL_FOOTER): { text: string, html: string } {
   const footerText = footer.link ? `${footer.text}\n${footer.link.label}: ${footer.link.href}` : footer.text
   const footerHtml = footer.link
-    ? `${escape(footer.text)} <a href="${escape(footer.link.href)}" style="color:${INK}">${escape(footer.link.label)}</a>`
-    : escape(footer.text)
+    ? `${escapeHtml(footer.text)} <a href="${escapeHtml(footer.link.href)}" style="color:${INK}">${escapeHtml(footer.link.label)}</a>`
+    : escapeHtml(footer.text)
   const text = `${paragraphs.join('\n\n')}\n\n${action.label}: ${action.link}\n\n— Torquewright\n${footerText}`
   const html = `<!doctype html><html><body style="margin:0;background:${PAPER};font-family:Manrope,Arial,sans-serif;color:${INK}">
 <div style="max-width:560px;margin:0 auto;padding:28px 24px">
 <p style="font-weight:800;font-size:18px;margin:0 0 18px">Torquewright</p>
-${paragraphs.map(p => `<p style="font-size:15px;line-height:1.55;margin:0 0 14px">${escape(p)}</p>`).join('\n')}
-<p style="margin:22px 0"><a href="${escape(action.link)}" style="background:${COPPER};color:white;padding:10px 18px;border-radius:999px;text-decoration:none;font-weight:700">${escape(action.label)}</a></p>
+${paragraphs.map(p => `<p style="font-size:15px;line-height:1.55;margin:0 0 14px">${escapeHtml(p)}</p>`).join('\n')}
+<p style="margin:22px 0"><a href="${escapeHtml(action.link)}" style="background:${COPPER};color:white;padding:10px 18px;border-radius:999px;text-decoration:none;font-weight:700">${escapeHtml(action.label)}</a></p>
 <p style="font-size:12px;color:${INK};opacity:.6">${footerHtml}</p>
 </div></body></html>`
   return { text, html }

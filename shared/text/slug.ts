@@ -1,10 +1,14 @@
-/** A URL slug from a name: lower-case ASCII letters and digits joined by single hyphens, at most `max` characters. */
-export function slugify(name: string, max = 120): string {
-  const slug = name
+/**
+ * A URL slug from a name: lower-case ASCII letters and digits joined by single hyphens, at most `max`
+ * characters. A shop's name spells `&` as "and"; a build's title drops it (`{ ampersand: 'drop' }`),
+ * as every published build's address always has.
+ */
+export function slugify(name: string, max = 120, opts: { ampersand?: 'and' | 'drop' } = {}): string {
+  const folded = name
     .normalize('NFKD')
     .replace(/[\u0300-\u036f]/g, '')
     .toLowerCase()
-    .replace(/&/g, ' and ')
+  const slug = (opts.ampersand === 'drop' ? folded : folded.replace(/&/g, ' and '))
     .replace(/[^a-z0-9]+/g, '-')
     .replace(/^-+|-+$/g, '')
     .slice(0, max)

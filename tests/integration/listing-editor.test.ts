@@ -1,6 +1,6 @@
 import { eq, inArray } from 'drizzle-orm'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { changeStatus, createDraft, deleteBuild, editorBuild, slugify, updateBuild } from '../../server/services/listing-editor'
+import { buildSlug as slugify, changeStatus, createDraft, deleteBuild, editorBuild, updateBuild } from '../../server/services/listing-editor'
 import { listOwnBuilds } from '../../server/services/shops'
 import { savePull } from '../../server/services/evidence-uploads'
 import { addPhoto } from '../../server/services/listing-photos'

@@ -5,7 +5,7 @@ import { packCurves, unpackCurves } from '../../shared/listings/curve-payload'
 import { curveUnder, declaredStandardOf, derivePullFigures, weatherOf } from '../../shared/pulls/figures'
 import type { BuildCurves } from '../../shared/types/listings'
 import { makeCurve } from '../../scripts/lib/demo-data'
-import { seededRandom } from '../../scripts/lib/random'
+import { seededRandom } from '../../shared/random'
 
 /** An invented pull (the demo's parametric model), every `stepRpm` from 2,000 rpm to 7,000 rpm. */
 const pull = (seed: number, stepRpm = 100): PullPoint[] => makeCurve(seededRandom(seed), { peakHpTarget: 540, redline: 7000, boosted: false, stepRpm })

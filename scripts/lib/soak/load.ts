@@ -1,5 +1,5 @@
 import { DEMO_PASSWORD, DEMO_RACERS, DEMO_SHOPS } from '../demo-data'
-import { seededRandom, type Random } from '../random'
+import { seededRandom, type Random } from '../../../shared/random'
 import type { Client, Answer } from './http'
 import { CookieJar, json, signIn } from './http'
 import type { Sample } from './stats'

@@ -1,6 +1,7 @@
 /** Invented curves and small helpers for the engine-math tests (no real engine's data). */
 import { create, all } from 'mathjs'
 import type { PullPoint } from '../../../shared/engine'
+import { seededRandom } from '../../../shared/random'
 
 /** A private mathjs instance (general-purpose units reference) with inHg added from its mmHg. */
 export const math = create(all!, {})
@@ -23,16 +24,9 @@ export interface CurveShape {
   seed?: number
 }
 
-/** A deterministic pseudo-random stream (mulberry32). */
+/** A deterministic pseudo-random stream: the demo's seeded generator. */
 export function rng(seed: number): () => number {
-  let a = seed >>> 0
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0
-    let t = a
-    t = Math.imul(t ^ (t >>> 15), t | 1)
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61)
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296
-  }
+  return seededRandom(seed).next
 }
 
 /** An invented smooth pull: a parabolic torque curve with hp = tq × rpm / 5252.11. */

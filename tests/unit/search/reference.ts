@@ -5,7 +5,7 @@
 import { averagePower } from '../../../shared/engine/curves'
 import type { SearchDocument, SearchFacets, SearchQuery } from '../../../search/index'
 import { ASPIRATIONS, FUELS } from '../../../search/index'
-import { seeded } from '../../../search/synthetic'
+import { seededRandom } from '../../../shared/random'
 
 export function referenceFilter(docs: SearchDocument[], q: SearchQuery): SearchDocument[] {
   const tolerance = q.hpTolerance ?? (q.hpTarget === undefined ? 0 : 0.1 * q.hpTarget)
@@ -71,7 +71,7 @@ export function referenceFacets(docs: SearchDocument[]): Pick<SearchFacets, 'asp
 
 /** A fixed, seeded set of filter-only queries over the documents' own values. */
 export function seededFilterQueries(docs: SearchDocument[], count: number, seed = 99): SearchQuery[] {
-  const r = seeded(seed)
+  const r = seededRandom(seed)
   const families = [...new Set(docs.map(d => d.family))]
   const regions = [...new Set(docs.map(d => d.region))]
   const sorts = ['newest', 'price', 'target', undefined] as const
