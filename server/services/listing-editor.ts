@@ -7,6 +7,7 @@ import { buildParts, buildPhotos, builds, dynoPulls, type Build } from '../datab
 import type { Database } from '../database/types'
 import { inRetriedTransaction } from '../utils/transaction'
 import { refreshHeadline } from './headline'
+import { afterBuildChanged } from './build-events'
 import { recordBuildChange } from './search-feed'
 import { deleteFileRows, discard, type Tx, type UploadStore } from './listing-files'
 
@@ -16,32 +17,9 @@ export interface ShopRef {
   userId: number
 }
 
-type BuildListener = (buildId: number) => Promise<unknown>
-const listeners: BuildListener[] = []
-
 /** The combination fields the evidence checks read: a change to any of them makes a report, and a verification, stale. */
 export const CHECKED_COMBINATION_FIELDS = ['aspiration', 'boreIn', 'strokeIn', 'cylinders'] as const
 const COMBINATION_FIELD_WORDS: Record<(typeof CHECKED_COMBINATION_FIELDS)[number], string> = { aspiration: 'aspiration', boreIn: 'bore', strokeIn: 'stroke', cylinders: 'cylinder count' }
-
-/** Registers work to run after a build changes (the search plugin keeps the index in step through it). */
-export function onBuildChanged(listener: BuildListener): void {
-  listeners.push(listener)
-}
-
-/**
- * Called after every write that changes a build or its pulls, once the transaction has committed.
- * A listener's failure is logged, never passed on: the write itself has already succeeded.
- */
-export async function afterBuildChanged(buildId: number): Promise<void> {
-  for (const listener of listeners) {
-    try {
-      await listener(buildId)
-    }
-    catch (err) {
-      console.error(`after change of build ${buildId}:`, err)
-    }
-  }
-}
 
 const EDITABLE_COLUMNS = ['title', ...REQUIRED_FOR_PUBLISH, 'injectorSizeLbHr', 'injectorCount'] as const satisfies (keyof EditorFields)[]
 

@@ -88,7 +88,7 @@ export async function requireRole(event: H3Event, ...roles: Role[]): Promise<Ses
 }
 
 /** The signed-in builder and their shop: every route that acts for a shop starts here. */
-export async function requireBuilderProfile(event: H3Event): Promise<{ user: SessionUser, shop: BuilderProfile }> {
+export async function requireCallerShop(event: H3Event): Promise<{ user: SessionUser, shop: BuilderProfile }> {
   const user = await requireRole(event, 'builder')
   const [shop] = await useDb().select().from(builderProfiles).where(eq(builderProfiles.userId, user.id)).limit(1)
   if (!shop) throw createError({ status: 403, message: 'This builder account has no shop profile yet.' })

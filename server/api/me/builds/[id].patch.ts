@@ -5,7 +5,7 @@ import { CHECKED_COMBINATION_FIELDS, editorBuild, updateBuild } from '../../../s
 
 /** An autosave of some fields and/or the whole parts list; answers the updated owner's view. */
 export default defineEventHandler(async (event) => {
-  const { shop } = await requireBuilderProfile(event)
+  const { shop } = await requireCallerShop(event)
   const { id } = await getValidatedRouterParams(event, validator(idParams))
   const patch = await readValidatedBody(event, validator(buildDraftPatch))
   const db = useDb()

@@ -6,7 +6,7 @@ import { ownBuild } from '../../../../services/listing-editor'
 
 /** The curves of one of the caller's builds (drafts included) under `?standard=`, for the editor's chart. */
 export default defineEventHandler(async (event) => {
-  const { shop } = await requireBuilderProfile(event)
+  const { shop } = await requireCallerShop(event)
   const { id } = await getValidatedRouterParams(event, validator(idParams))
   const { standard } = await getValidatedQuery(event, validator(standardQuery))
   const db = useDb()

@@ -7,7 +7,7 @@ const caption = z.string().trim().max(160, 'A caption is at most 160 characters'
 
 /** Adds a photo (PNG, JPEG or WebP, sniffed; size-limited) to one of the caller's builds. */
 export default defineEventHandler(async (event) => {
-  const { shop } = await requireBuilderProfile(event)
+  const { shop } = await requireCallerShop(event)
   const { id } = await getValidatedRouterParams(event, validator(idParams))
   // Only the owner's upload is read at all.
   await ownBuild(useDb(), shop, id)

@@ -8,7 +8,7 @@ import { ownBuild } from '../../../../../services/listing-editor'
  * stored when the upload is too large (413), the wrong type (415) or does not parse (422).
  */
 export default defineEventHandler(async (event) => {
-  const { shop } = await requireBuilderProfile(event)
+  const { shop } = await requireCallerShop(event)
   const { id } = await getValidatedRouterParams(event, validator(idParams))
   // Only the owner's upload is read at all.
   await ownBuild(useDb(), shop, id)

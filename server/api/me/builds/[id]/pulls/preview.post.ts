@@ -5,7 +5,7 @@ import { ownBuild } from '../../../../../services/listing-editor'
 
 /** Parses a pull file and runs the evidence checks without saving: 413 too large, 415 not text, 422 errors by row. */
 export default defineEventHandler(async (event) => {
-  const { shop } = await requireBuilderProfile(event)
+  const { shop } = await requireCallerShop(event)
   const { id } = await getValidatedRouterParams(event, validator(idParams))
   // Only the owner's upload is read at all.
   await ownBuild(useDb(), shop, id)
