@@ -1,4 +1,3 @@
-import type { CorrectionStandard } from '#shared/engine'
 import { idParams } from '#shared/schemas/common'
 import { standardQuery } from '#shared/schemas/curves'
 import { curvesForBuild } from '../../../../services/curves'
@@ -11,5 +10,5 @@ export default defineEventHandler(async (event) => {
   const { standard } = await getValidatedQuery(event, validator(standardQuery))
   const db = useDb()
   const build = await ownBuild(db, shop, id)
-  return curvesForBuild(db, readUploadText, build.id, build.slug, standard as CorrectionStandard)
+  return curvesForBuild(db, readUploadText, build.id, build.slug, standard)
 })
