@@ -4,7 +4,7 @@ import { buildPhotos, builds, files } from '../database/schema'
 import type { Database } from '../database/types'
 import { inRetriedTransaction } from '../utils/transaction'
 import { afterBuildChanged } from './build-events'
-import { ownBuild, type ShopRef } from './listing-editor'
+import { ownBuild, type ShopRef } from './own-build'
 import { deleteFileRows, discard, insertFileRow, vetUpload, withStagedFiles, type IncomingFile, type UploadStore } from './listing-files'
 import { recordBuildChange } from './search-feed'
 

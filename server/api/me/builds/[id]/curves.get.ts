@@ -1,7 +1,7 @@
 import { idParams } from '#shared/schemas/common'
 import { standardQuery } from '#shared/schemas/curves'
 import { curvesForBuild } from '../../../../services/curves'
-import { ownBuild } from '../../../../services/listing-editor'
+import { ownBuild } from '../../../../services/own-build'
 
 /** The curves of one of the caller's builds (drafts included) under `?standard=`, for the editor's chart. */
 export default defineEventHandler(async (event) => {

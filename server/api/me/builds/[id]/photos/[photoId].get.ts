@@ -1,6 +1,6 @@
 import { z } from 'zod'
 import { idSchema } from '#shared/schemas/common'
-import { ownBuild } from '../../../../../services/listing-editor'
+import { ownBuild } from '../../../../../services/own-build'
 import { photoFile } from '../../../../../services/listing-photos'
 
 const params = z.object({ id: idSchema, photoId: idSchema })

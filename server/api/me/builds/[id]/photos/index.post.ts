@@ -1,7 +1,7 @@
 import { z } from 'zod'
 import { idParams } from '#shared/schemas/common'
 import { addPhoto } from '../../../../../services/listing-photos'
-import { ownBuild } from '../../../../../services/listing-editor'
+import { ownBuild } from '../../../../../services/own-build'
 
 const caption = z.string().trim().max(160, 'A caption is at most 160 characters').default('')
 

@@ -1,7 +1,7 @@
 import { pullMetaSchema } from '#shared/schemas/build'
 import { idParams } from '#shared/schemas/common'
 import { savePull } from '../../../../../services/evidence-uploads'
-import { ownBuild } from '../../../../../services/listing-editor'
+import { ownBuild } from '../../../../../services/own-build'
 
 /**
  * Saves a pull (file, optional sheet, metadata) as submitted, awaiting an admin's verification. Nothing is
