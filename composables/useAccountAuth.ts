@@ -1,4 +1,4 @@
-import type { Role } from '#shared/schemas/auth'
+import type { Role } from '#shared/domain'
 
 export type SignInResult = { ok: true } | { ok: false, code: string }
 

@@ -1,15 +1,12 @@
 /** The shapes of the search index: documents in, queries in, results out. Pure, no I/O. */
 
-import { SEARCH_ASPIRATIONS, SEARCH_FUELS, SEARCH_SORTS, SEARCH_USES } from '../shared/schemas/search'
+import { SEARCH_SORTS } from '../shared/schemas/search'
 
-export const ASPIRATIONS = SEARCH_ASPIRATIONS
-export const FUELS = SEARCH_FUELS
-export const USES = SEARCH_USES
+import type { Aspiration, Fuel, Use } from '../shared/domain'
+
+export { ASPIRATIONS, FUELS, USES, type Aspiration, type Fuel, type Use } from '../shared/domain'
 export const SORTS = SEARCH_SORTS
 
-export type Aspiration = (typeof ASPIRATIONS)[number]
-export type Fuel = (typeof FUELS)[number]
-export type Use = (typeof USES)[number]
 export type SearchSort = (typeof SORTS)[number]
 
 /** The fixed rpm grid every power curve is resampled onto for band queries. */

@@ -1,6 +1,7 @@
 import { defineStore } from 'pinia'
 import type { LocationQuery, LocationQueryRaw } from 'vue-router'
-import { BAND_RPM, SEARCH_ASPIRATIONS, SEARCH_FUELS, SEARCH_SORTS, SEARCH_USES } from '#shared/search/values'
+import { ASPIRATIONS, FUELS, USES } from '#shared/domain'
+import { BAND_RPM, SEARCH_SORTS } from '#shared/search/values'
 
 /** The filters of the search page; the URL holds the same names as GET /api/search. */
 export interface SearchFilters {
@@ -28,7 +29,7 @@ export interface RacerBand {
 
 const BAND_KEY = 'torquewright.band'
 const NUMBERS = ['ciMin', 'ciMax', 'hpTarget', 'hpTolerance', 'priceMax'] as const
-const LISTS = { aspiration: SEARCH_ASPIRATIONS, fuel: SEARCH_FUELS, use: SEARCH_USES, family: null, region: null } as const
+const LISTS = { aspiration: ASPIRATIONS, fuel: FUELS, use: USES, family: null, region: null } as const
 
 const blank = (): SearchFilters => ({
   q: '', ciMin: null, ciMax: null, hpTarget: null, hpTolerance: null,

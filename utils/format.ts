@@ -22,14 +22,4 @@ export function formatNumber(value: number | null | undefined, digits = 0): stri
   return numberFormat(digits).format(value)
 }
 
-export const ASPIRATION_LABELS: Record<string, string> = {
-  na: 'Naturally aspirated', turbo: 'Turbocharged', supercharged: 'Supercharged', nitrous: 'Nitrous',
-}
-
-export const FUEL_LABELS: Record<string, string> = {
-  pump_gas: 'Pump gas', race_gas: 'Race gas', e85: 'E85', methanol: 'Methanol',
-}
-
-export const USE_LABELS: Record<string, string> = {
-  drag: 'Drag', road_course: 'Road course', street_strip: 'Street/strip', off_road: 'Off-road', marine: 'Marine', street: 'Street',
-}
+export { ASPIRATION_LABELS, FUEL_LABELS, USE_LABELS } from '#shared/domain'

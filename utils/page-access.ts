@@ -1,5 +1,5 @@
 import type { RouteLocationNormalized } from 'vue-router'
-import type { Role } from '#shared/schemas/auth'
+import type { Role } from '#shared/domain'
 
 const FOR: Record<Role, string> = { racer: 'racer accounts', builder: 'shop (builder) accounts', admin: 'admins' }
 

@@ -1,4 +1,4 @@
-import { averagePower, type CorrectionStandard } from '#shared/engine'
+import { averagePower } from '#shared/engine'
 import { compareQuery } from '#shared/schemas/curves'
 import type { CompareRow } from '#shared/types/listings'
 import { curvesForBuild, publishedBuildId } from '../services/curves'
@@ -17,7 +17,7 @@ export default defineEventHandler(async (event) => {
     const id = await publishedBuildId(db, slug)
     const build = id ? await getPublishedBuild(db, slug) : null
     if (!id || !build) throw createError({ status: 404, message: `No published build has the address "${slug}".` })
-    const curves = await curvesForBuild(db, readUploadText, id, slug, standard as CorrectionStandard)
+    const curves = await curvesForBuild(db, readUploadText, id, slug, standard)
     const pull = curves.pulls.find(p => p.id === curves.headlineId) ?? null
     let bandAvgHp: number | null = null
     if (pull && bandFrom !== undefined && bandTo !== undefined && pull.points[0]!.rpm <= bandFrom && pull.points.at(-1)!.rpm >= bandTo) {

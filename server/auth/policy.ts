@@ -1,5 +1,6 @@
 import { createError } from 'h3'
-import type { Role, UnitSystem } from '../../shared/schemas/auth'
+import type { Role } from '../../shared/domain'
+import type { UnitSystem } from '../../shared/schemas/auth'
 import type { SessionUser } from '../../shared/types/auth'
 
 /**

@@ -2,9 +2,11 @@ import { sql } from 'drizzle-orm'
 import {
   bigint, boolean, char, check, customType, date, datetime, decimal, double, index, int, json, mysqlEnum, mysqlTable, text, uniqueIndex, varchar,
 } from 'drizzle-orm/mysql-core'
+import { ASPIRATIONS, FUELS, ROLES, USES } from '../../shared/domain'
 import { REQUIRED_FOR_PUBLISH } from '../../shared/schemas/build'
 import type { CorrectionStandard, EvidenceCheck } from '../../shared/engine/types'
 import { MILESTONE_STATES, TRANSMISSIONS } from '../../shared/deals/constants'
+import type { DeliveryEvaluation } from '../../shared/deals/delivery'
 import type { PullSummaryFigures } from '../../shared/pulls/summary'
 import type { StandardFigures, StoredCurvePoint } from '../../shared/pulls/figures'
 import type { SearchFilterParams } from '../../shared/schemas/search'
@@ -21,10 +23,6 @@ const cc = (name: string) => decimal(name, { precision: 7, scale: 2, mode: 'numb
 const degrees = (name: string) => decimal(name, { precision: 5, scale: 1, mode: 'number' })
 const figure = (name: string) => decimal(name, { precision: 8, scale: 1, mode: 'number' })
 
-export const roles = ['racer', 'builder', 'admin'] as const
-export const aspirations = ['na', 'turbo', 'supercharged', 'nitrous'] as const
-export const fuels = ['pump_gas', 'race_gas', 'e85', 'methanol'] as const
-export const uses = ['drag', 'road_course', 'street_strip', 'off_road', 'marine', 'street'] as const
 export const buildStatuses = ['draft', 'published', 'archived'] as const
 export const pullStatuses = ['submitted', 'verified', 'rejected'] as const
 export const fileKinds = ['pull', 'sheet', 'photo', 'attachment', 'proof'] as const
@@ -37,7 +35,7 @@ export const users = mysqlTable('users', {
   email: varchar('email', { length: 254 }).notNull(),
   name: varchar('name', { length: 120 }).notNull(),
   passwordHash: varchar('password_hash', { length: 255 }),
-  role: mysqlEnum('role', roles).notNull(),
+  role: mysqlEnum('role', ROLES).notNull(),
   unitPreference: mysqlEnum('unit_preference', ['imperial', 'metric']).notNull().default('imperial'),
   emailVerifiedAt: datetime('email_verified_at', { mode: 'date', fsp: 3 }),
   suspendedAt: datetime('suspended_at', { mode: 'date', fsp: 3 }),
@@ -92,10 +90,10 @@ export const builds = mysqlTable('builds', {
   throttleBody: varchar('throttle_body', { length: 80 }),
   injectorSizeLbHr: decimal('injector_size_lb_hr', { precision: 6, scale: 1, mode: 'number' }),
   injectorCount: int('injector_count'),
-  fuel: mysqlEnum('fuel', fuels),
-  aspiration: mysqlEnum('aspiration', aspirations),
+  fuel: mysqlEnum('fuel', FUELS),
+  aspiration: mysqlEnum('aspiration', ASPIRATIONS),
   engineManagement: varchar('engine_management', { length: 120 }),
-  intendedUse: mysqlEnum('intended_use', uses),
+  intendedUse: mysqlEnum('intended_use', USES),
   priceCents: bigint('price_cents', { mode: 'number', unsigned: true }),
   status: mysqlEnum('status', buildStatuses).notNull().default('draft'),
   publishedAt: datetime('published_at', { mode: 'date', fsp: 3 }),
@@ -151,7 +149,7 @@ export const dynoPulls = mysqlTable('dyno_pulls', {
   fileId: ref('file_id').notNull().references(() => files.id),
   sheetFileId: ref('sheet_file_id').references(() => files.id),
   dynoKind: mysqlEnum('dyno_kind', dynoKinds).notNull(),
-  declaredStandard: varchar('declared_standard', { length: 20 }).notNull(),
+  declaredStandard: varchar('declared_standard', { length: 20 }).$type<CorrectionStandard>().notNull(),
   declaredFactor: decimal('declared_factor', { precision: 6, scale: 4, mode: 'number' }),
   baroInHg: decimal('baro_in_hg', { precision: 5, scale: 2, mode: 'number' }),
   airTempF: decimal('air_temp_f', { precision: 5, scale: 1, mode: 'number' }),
@@ -293,9 +291,9 @@ export const quoteRequests = mysqlTable('quote_requests', {
   targetTq: figure('target_tq'),
   targetStandard: varchar('target_standard', { length: 20 }).notNull(),
   displacementCapCi: decimal('displacement_cap_ci', { precision: 6, scale: 1, mode: 'number' }),
-  fuel: mysqlEnum('fuel', fuels).notNull(),
-  aspiration: mysqlEnum('aspiration', aspirations).notNull(),
-  intendedUse: mysqlEnum('intended_use', uses).notNull(),
+  fuel: mysqlEnum('fuel', FUELS).notNull(),
+  aspiration: mysqlEnum('aspiration', ASPIRATIONS).notNull(),
+  intendedUse: mysqlEnum('intended_use', USES).notNull(),
   transmission: mysqlEnum('transmission', transmissions).notNull(),
   stallRpm: int('stall_rpm', { unsigned: true }),
   shiftRpm: int('shift_rpm', { unsigned: true }),
@@ -477,7 +475,7 @@ export const deliveryPulls = mysqlTable('delivery_pulls', {
   id: id(),
   milestoneId: ref('milestone_id').notNull().references(() => milestones.id, { onDelete: 'cascade' }),
   fileId: ref('file_id').notNull().references(() => files.id),
-  declaredStandard: varchar('declared_standard', { length: 20 }).notNull(),
+  declaredStandard: varchar('declared_standard', { length: 20 }).$type<CorrectionStandard>().notNull(),
   baroInHg: decimal('baro_in_hg', { precision: 5, scale: 2, mode: 'number' }),
   airTempF: decimal('air_temp_f', { precision: 5, scale: 1, mode: 'number' }),
   humidityPct: decimal('humidity_pct', { precision: 4, scale: 1, mode: 'number' }),
@@ -566,20 +564,8 @@ export const mailOutbox = mysqlTable('mail_outbox', {
   index('mail_outbox_due_idx').on(t.sentAt, t.nextAttemptAt),
 ])
 
-/** What the server found in a delivery pull: figures under the quoted standard and the evidence checks. */
-export interface DeliveryReport {
-  standard: string
-  peakHp: number
-  peakHpRpm: number
-  peakTq: number
-  peakTqRpm: number
-  uncorrected: boolean
-  displacementCi: number
-  targetHp: number | null
-  minimumHp: number | null
-  checks: { id: string, outcome: 'pass' | 'warn' | 'fail', message: string }[]
-  reasons: string[]
-}
+/** What the server found in a delivery pull, as stored: the evaluation less the chart curve and the verdicts. */
+export type DeliveryReport = Omit<DeliveryEvaluation, 'curve' | 'status' | 'meetsTarget'>
 
 export type QuoteRequest = typeof quoteRequests.$inferSelect
 export type RequestMessage = typeof requestMessages.$inferSelect

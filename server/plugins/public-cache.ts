@@ -1,4 +1,4 @@
-import { onBuildChanged } from '../services/listing-editor'
+import { onBuildChanged } from '../services/build-events'
 
 // Every committed change of a build or its pulls (listing writes, evidence decisions, moderation)
 // drops the cached public answers before the write's own answer goes out (server/utils/public-cache.ts).

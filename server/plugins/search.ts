@@ -1,4 +1,4 @@
-import { onBuildChanged } from '../services/listing-editor'
+import { onBuildChanged } from '../services/build-events'
 import { announceBuild } from '../services/saved-searches'
 import { checkIndex, loadSyntheticIndex, rebuildIndex, syncBuild, useSearchIndex } from '../services/search'
 import { createFeedReader, feedStart, pruneFeed, type FeedReader } from '../services/search-feed'
@@ -29,7 +29,7 @@ export default defineNitroPlugin((nitroApp) => {
   // The announcement row is unique per search and build, so every instance that sees the change may
   // try: one writes it and queues the mail, the others find it written.
   const bringInStep = async (buildId: number) => {
-    await syncBuild(db, buildId)
+    await syncBuild(db, readUploadText, buildId)
     // The search page renders from this index: a page rendered and cached while it was still catching
     // up (after the first drop, before this sync) goes now (server/plugins/page-cache.ts).
     await invalidatePublicCache()
@@ -46,7 +46,7 @@ export default defineNitroPlugin((nitroApp) => {
   let building = true
   const startFeed = async () => {
     const head = await feedStart(db)
-    return { head, built: await rebuildIndex(db) }
+    return { head, built: await rebuildIndex(db, readUploadText) }
   }
   startFeed().then(
     ({ head, built }) => {
@@ -86,7 +86,7 @@ export default defineNitroPlugin((nitroApp) => {
     feedTimer.unref()
   }
   const timer = setInterval(() => {
-    checkIndex(db).then((r) => {
+    checkIndex(db, readUploadText).then((r) => {
       if (r.added + r.updated + r.removed > 0) console.warn(`search: repaired drift (${r.added} added, ${r.updated} updated, ${r.removed} removed)`)
     }, (err) => {
       if (!noteDatabaseOutage(err, 'search: the consistency check')) console.error('search: consistency check failed', err)

@@ -4,7 +4,7 @@ import { builds } from '../database/schema'
 import type { Database } from '../database/types'
 import type { OutgoingMail } from '../utils/mail'
 import { adminEmails } from './admin-mail'
-import { reindexBuildAfterAdminChange } from './build-index'
+import { reindexBuildAfterAdminChange } from './build-events'
 import { unpublishListing } from './moderation'
 import { approvePull, rejectPull } from './verification'
 
@@ -30,7 +30,7 @@ async function tell(ctx: AdminContext, mail: OutgoingMail): Promise<boolean> {
 /** Verifies a pull (its e-mail to the shop goes through the outbox with the decision), then brings the search index in step. */
 export async function approveEvidence(ctx: AdminContext, actorId: number, pullId: number, note?: string): Promise<DecisionResult> {
   const buildId = await approvePull(ctx.db, { actorId, pullId, note: note || null, siteUrl: ctx.siteUrl })
-  await reindexBuildAfterAdminChange(ctx.db, buildId)
+  await reindexBuildAfterAdminChange(buildId)
   const [build] = await ctx.db.select({ slug: builds.slug }).from(builds).where(eq(builds.id, buildId))
   return { pullId, status: 'verified', buildSlug: build?.slug ?? '', mailed: null }
 }
@@ -38,7 +38,7 @@ export async function approveEvidence(ctx: AdminContext, actorId: number, pullId
 /** Rejects a pull, e-mails the reason to the shop, and brings the search index in step. */
 export async function rejectEvidence(ctx: AdminContext, actorId: number, pullId: number, reason: string): Promise<DecisionResult> {
   const r = await rejectPull(ctx.db, { actorId, pullId, reason })
-  await reindexBuildAfterAdminChange(ctx.db, r.buildId)
+  await reindexBuildAfterAdminChange(r.buildId)
   const body = adminEmails.pullRejected({ name: r.name, pullLabel: r.pullLabel, buildTitle: r.buildTitle, reason, dashboardUrl: `${ctx.siteUrl}/dashboard` })
   const mailed = await tell(ctx, { to: r.email, ...body })
   return { pullId, status: 'rejected', buildSlug: r.buildSlug, mailed }
@@ -47,7 +47,7 @@ export async function rejectEvidence(ctx: AdminContext, actorId: number, pullId:
 /** Takes a listing down, e-mails the reason to the shop, and takes it out of search. */
 export async function takeDownListing(ctx: AdminContext, actorId: number, buildId: number, reason: string): Promise<{ buildId: number, status: 'draft', mailed: boolean }> {
   const r = await unpublishListing(ctx.db, { actorId, buildId, reason })
-  await reindexBuildAfterAdminChange(ctx.db, buildId)
+  await reindexBuildAfterAdminChange(buildId)
   const body = adminEmails.listingUnpublished({ name: r.name, buildTitle: r.buildTitle, reason, dashboardUrl: `${ctx.siteUrl}/dashboard` })
   const mailed = await tell(ctx, { to: r.email, ...body })
   return { buildId, status: 'draft', mailed }

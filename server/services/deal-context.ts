@@ -4,6 +4,7 @@
 import { eq, or, sql, type SQL } from 'drizzle-orm'
 import { createError } from 'h3'
 import type Stripe from 'stripe'
+import type { Role } from '../../shared/domain'
 import { builderProfiles, dealEvents, quoteRequests, users } from '../database/schema'
 import type { Database } from '../database/types'
 
@@ -25,8 +26,6 @@ export interface DealContext {
   config: DealConfig
   now: () => Date
 }
-
-export type Role = 'racer' | 'builder' | 'admin'
 
 /** The signed-in user as the deal services see them: their id, role and, for a builder, their shop. */
 export interface DealActor {

@@ -1,6 +1,6 @@
 import { createError } from 'h3'
 import { and, eq, inArray, isNotNull, ne } from 'drizzle-orm'
-import { torqueAt, type CorrectionStandard, type DeclaredFigures } from '#shared/engine'
+import { torqueAt, type DeclaredFigures } from '#shared/engine'
 import { evaluatePull, type PullBuildContext } from '#shared/pulls/evaluate'
 import { declaredOf, weatherOf } from '#shared/pulls/figures'
 import type { PullMeta } from '#shared/schemas/build'
@@ -10,7 +10,8 @@ import type { Database } from '../database/types'
 import { inRetriedTransaction } from '../utils/transaction'
 import type { ReadStoredText } from './curves'
 import { refreshHeadline } from './headline'
-import { afterBuildChanged, ownBuild, type ShopRef } from './listing-editor'
+import { afterBuildChanged } from './build-events'
+import { ownBuild, type ShopRef } from './own-build'
 import { storePullFigures } from './pull-figures'
 import { deleteFileRows, discard, insertFileRow, vetUpload, withStagedFiles, type IncomingFile, type UploadStore } from './listing-files'
 import { recordBuildChange } from './search-feed'
@@ -34,7 +35,7 @@ function contextOf(build: Build): PullBuildContext {
 
 function declaredOfMeta(meta: PullMeta): DeclaredFigures {
   return {
-    standard: meta.declaredStandard as CorrectionStandard,
+    standard: meta.declaredStandard,
     correctionFactor: meta.declaredFactor,
     peakHp: meta.declaredPeakHp,
     peakHpRpm: meta.declaredPeakHpRpm,

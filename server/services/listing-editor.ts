@@ -1,48 +1,23 @@
 import { randomBytes } from 'node:crypto'
 import { createError } from 'h3'
 import { and, asc, count, eq, inArray, like, ne } from 'drizzle-orm'
-import { buildDraftPatch, MAX_PARTS, publishProblems, REQUIRED_FOR_PUBLISH, type BuildDraftPatch } from '#shared/schemas/build'
+import { MAX_PARTS, publishProblems, REQUIRED_FOR_PUBLISH, type BuildDraftPatch } from '#shared/schemas/build'
 import type { EditorBuild, EditorFields, PublishIssue } from '#shared/types/editor'
 import { firstFreeSlug, slugify } from '#shared/text/slug'
 import { buildParts, buildPhotos, builds, dynoPulls, type Build } from '../database/schema'
 import type { Database } from '../database/types'
 import { inRetriedTransaction } from '../utils/transaction'
 import { refreshHeadline } from './headline'
+import { afterBuildChanged } from './build-events'
 import { recordBuildChange } from './search-feed'
+import type { ReadStoredText } from './curves'
+import { recheckSubmittedPulls } from './evidence-uploads'
 import { deleteFileRows, discard, type Tx, type UploadStore } from './listing-files'
-
-/** The caller's shop, as the builder guard returns it. */
-export interface ShopRef {
-  id: number
-  userId: number
-}
-
-type BuildListener = (buildId: number) => Promise<unknown>
-const listeners: BuildListener[] = []
+import { ownBuild, type ShopRef } from './own-build'
 
 /** The combination fields the evidence checks read: a change to any of them makes a report, and a verification, stale. */
-export const CHECKED_COMBINATION_FIELDS = ['aspiration', 'boreIn', 'strokeIn', 'cylinders'] as const
+const CHECKED_COMBINATION_FIELDS = ['aspiration', 'boreIn', 'strokeIn', 'cylinders'] as const
 const COMBINATION_FIELD_WORDS: Record<(typeof CHECKED_COMBINATION_FIELDS)[number], string> = { aspiration: 'aspiration', boreIn: 'bore', strokeIn: 'stroke', cylinders: 'cylinder count' }
-
-/** Registers work to run after a build changes (the search plugin keeps the index in step through it). */
-export function onBuildChanged(listener: BuildListener): void {
-  listeners.push(listener)
-}
-
-/**
- * Called after every write that changes a build or its pulls, once the transaction has committed.
- * A listener's failure is logged, never passed on: the write itself has already succeeded.
- */
-export async function afterBuildChanged(buildId: number): Promise<void> {
-  for (const listener of listeners) {
-    try {
-      await listener(buildId)
-    }
-    catch (err) {
-      console.error(`after change of build ${buildId}:`, err)
-    }
-  }
-}
 
 const EDITABLE_COLUMNS = ['title', ...REQUIRED_FOR_PUBLISH, 'injectorSizeLbHr', 'injectorCount'] as const satisfies (keyof EditorFields)[]
 
@@ -52,20 +27,6 @@ export function buildSlug(title: string): string {
 }
 
 const draftSlug = () => `draft-${randomBytes(6).toString('hex')}`
-
-/**
- * The caller's own build, locked for update inside a transaction when `tx` is one.
- * Ownership is in the WHERE clause; a miss answers 403 when the build is another shop's published
- * listing (visible to everyone) and 404 otherwise (drafts and archived listings stay unseen).
- */
-export async function ownBuild(db: Database | Tx, shop: ShopRef, buildId: number, lock = false): Promise<Build> {
-  const query = db.select().from(builds).where(and(eq(builds.id, buildId), eq(builds.builderId, shop.id))).limit(1)
-  const [row] = lock ? await query.for('update') : await query
-  if (row) return row
-  const [other] = await db.select({ status: builds.status }).from(builds).where(eq(builds.id, buildId)).limit(1)
-  if (other?.status === 'published') throw createError({ status: 403, message: 'That listing belongs to another shop; only its builder can change it.' })
-  throw createError({ status: 404, message: 'You have no build with that id.' })
-}
 
 /** The publish check over a stored row: the same zod schema the editor page runs. */
 export function publishIssues(build: Build, livePulls: number): PublishIssue[] {
@@ -130,12 +91,12 @@ export async function editorBuild(db: Database, shop: ShopRef, buildId: number):
 /**
  * An autosave: the fields sent replace the stored ones, a parts list replaces the whole list, in one
  * transaction. A published listing stays publishable: a change that would break the publish check
- * answers 422 and nothing is written.
+ * answers 422 and nothing is written. The patch is the validated `buildDraftPatch`. A change to the
+ * checked combination sends verified pulls back to the queue; given the stored-file reader, the
+ * reports of the pulls awaiting review are then re-run against the new combination.
  */
-export async function updateBuild(db: Database, shop: ShopRef, buildId: number, input: BuildDraftPatch): Promise<void> {
-  const parsed = buildDraftPatch.safeParse(input)
-  if (!parsed.success) throw createError({ status: 400, message: parsed.error.issues.map(i => `${i.path.join('.')}: ${i.message}`).join('; ') })
-  const { parts, ...columns } = parsed.data
+export async function updateBuild(db: Database, shop: ShopRef, buildId: number, patch: BuildDraftPatch, read?: ReadStoredText): Promise<void> {
+  const { parts, ...columns } = patch
   await inRetriedTransaction(db, async (tx) => {
     const build = await ownBuild(tx, shop, buildId, true)
     if (build.status === 'published') {
@@ -165,6 +126,8 @@ export async function updateBuild(db: Database, shop: ShopRef, buildId: number, 
     await recordBuildChange(tx, buildId)
   })
   await afterBuildChanged(buildId)
+  // The evidence reports of pulls awaiting review follow the combination they are checked against.
+  if (read && CHECKED_COMBINATION_FIELDS.some(field => field in patch)) await recheckSubmittedPulls(db, buildId, read)
 }
 
 /** A slug for a first publish: the title's words, with -2, -3… when another build has them. */

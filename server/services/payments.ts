@@ -3,7 +3,7 @@
 // confirm them. A milestone is marked funded only here, from a verified `checkout.session.completed`.
 import { and, asc, desc, eq } from 'drizzle-orm'
 import { createError } from 'h3'
-import Stripe from 'stripe'
+import type Stripe from 'stripe'
 import { CURRENCY } from '../../shared/money'
 import {
   builderProfiles, milestones, orders, payments, payoutAccounts, stripeEvents, users, type Milestone, type Order, type Payment,
@@ -16,23 +16,6 @@ import {
 import { postEvent } from './deals'
 import { writeAudit } from './audit'
 import { enqueueMail } from './outbox'
-
-export interface StripeSettings {
-  secretKey: string
-  /** Set to reach the local payments fake; left empty, the SDK talks to Stripe itself. */
-  apiHost?: string
-  apiPort?: string | number
-  apiProtocol?: string
-}
-
-/** The SDK client, pointed at the fake when a host is configured, with telemetry off. */
-export function createStripeClient(settings: StripeSettings): Stripe {
-  if (!settings.secretKey) throw createError({ status: 503, message: 'Payments are not configured (set NUXT_STRIPE_SECRET_KEY).' })
-  const override = settings.apiHost
-    ? { host: settings.apiHost, port: settings.apiPort ? Number(settings.apiPort) : undefined, protocol: settings.apiProtocol === 'http' ? 'http' as const : 'https' as const }
-    : {}
-  return new Stripe(settings.secretKey, { ...override, maxNetworkRetries: 2, timeout: 20_000, telemetry: false })
-}
 
 /** The idempotency key of a milestone's n-th Checkout attempt: a double click sends the same one. */
 export const checkoutKey = (milestoneId: number, attempt: number) => `milestone-${milestoneId}-checkout-${attempt}`

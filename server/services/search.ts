@@ -7,7 +7,6 @@ import { createSearchIndex, type SearchDocument, type SearchIndex } from '../../
 import { syntheticDocuments } from '../../search/synthetic'
 import { builderProfiles, buildParts, builds, dynoPulls, type Build, type BuilderProfile, type DynoPull } from '../database/schema'
 import type { Database } from '../database/types'
-import { readUploadText } from '../utils/storage'
 import type { ReadStoredText } from './curves'
 import { asPublished } from './listings'
 import { pullFiguresFor } from './pull-figures'
@@ -54,7 +53,7 @@ async function publishedStamps(db: Database, ids?: number[]): Promise<Map<number
 type Figures = Pick<SearchDocument, 'peakHp' | 'peakHpRpm' | 'peakTq' | 'peakTqRpm' | 'curve'>
 
 /** The headline pull's peaks and grid curve under the listing standard, as stored with the pull; its summary alone when no figures are stored. */
-function figuresOf(pull: DynoPull | undefined, stored: DerivedPullFigures | undefined): Figures {
+function headlineFiguresOf(pull: DynoPull | undefined, stored: DerivedPullFigures | undefined): Figures {
   if (!pull) return { peakHp: null, peakHpRpm: null, peakTq: null, peakTqRpm: null, curve: null }
   if (!stored) return { peakHp: pull.summary.peakHp, peakHpRpm: pull.summary.peakHpRpm, peakTq: pull.summary.peakTq, peakTqRpm: pull.summary.peakTqRpm, curve: null }
   const under = stored.standards[LISTING_STANDARD]
@@ -94,7 +93,7 @@ function documentOf(row: Build, shop: BuilderProfile, parts: string[], figures: 
 }
 
 /** Search documents of the published builds (all, or the given ids), read from MariaDB with each headline pull's stored figures. */
-export async function loadSearchDocuments(db: Database, ids?: number[], read: ReadStoredText = readUploadText): Promise<SearchDocument[]> {
+export async function loadSearchDocuments(db: Database, read: ReadStoredText, ids?: number[]): Promise<SearchDocument[]> {
   if (ids && ids.length === 0) return []
   const published = eq(builds.status, 'published')
   const where = ids ? and(published, inArray(builds.id, ids)) : published
@@ -124,22 +123,22 @@ export async function loadSearchDocuments(db: Database, ids?: number[], read: Re
   const docs: SearchDocument[] = []
   for (const { build, shop } of rows) {
     const pull = headlines.get(build.id)
-    docs.push(documentOf(build, shop, partsOf.get(build.id) ?? [], figuresOf(pull, pull ? stored.get(pull.id) : undefined), stamps.get(build.id) ?? ''))
+    docs.push(documentOf(build, shop, partsOf.get(build.id) ?? [], headlineFiguresOf(pull, pull ? stored.get(pull.id) : undefined), stamps.get(build.id) ?? ''))
   }
   return docs
 }
 
 /** One build's search document, or null when the build is not published (drafts, archived, deleted). */
-export async function buildSearchDocument(db: Database, buildId: number, read: ReadStoredText = readUploadText): Promise<SearchDocument | null> {
-  const [doc] = await loadSearchDocuments(db, [buildId], read)
+export async function buildSearchDocument(db: Database, read: ReadStoredText, buildId: number): Promise<SearchDocument | null> {
+  const [doc] = await loadSearchDocuments(db, read, [buildId])
   return doc ?? null
 }
 
 /** Builds a fresh index from MariaDB and swaps it in; queries keep using the old one until it is ready. */
-export function rebuildIndex(db: Database): Promise<{ documents: number, ms: number }> {
+export function rebuildIndex(db: Database, read: ReadStoredText): Promise<{ documents: number, ms: number }> {
   const work = exclusive(async () => {
     const t0 = performance.now()
-    const docs = await loadSearchDocuments(db)
+    const docs = await loadSearchDocuments(db, read)
     const fresh = createSearchIndex()
     fresh.build(docs)
     current = fresh
@@ -150,9 +149,9 @@ export function rebuildIndex(db: Database): Promise<{ documents: number, ms: num
 }
 
 /** Brings one build's entry in step with MariaDB: call after any write that changes a build, its shop or its pulls. */
-export function syncBuild(db: Database, buildId: number): Promise<'indexed' | 'removed' | 'absent'> {
+export function syncBuild(db: Database, read: ReadStoredText, buildId: number): Promise<'indexed' | 'removed' | 'absent'> {
   return exclusive(async () => {
-    const doc = await buildSearchDocument(db, buildId)
+    const doc = await buildSearchDocument(db, read, buildId)
     if (doc) {
       current.upsert(doc)
       return 'indexed'
@@ -169,7 +168,7 @@ export interface IndexCheck {
 }
 
 /** Compares the index with MariaDB (ids and stamps) and repairs whatever drifted. */
-export function checkIndex(db: Database): Promise<IndexCheck> {
+export function checkIndex(db: Database, read: ReadStoredText): Promise<IndexCheck> {
   return exclusive(async () => {
     const [truth, held] = [await publishedStamps(db), current.stamps()]
     const missing: number[] = []
@@ -183,7 +182,7 @@ export function checkIndex(db: Database): Promise<IndexCheck> {
     for (const id of held.keys()) if (!truth.has(id) && current.remove(id)) removed++
     const ids = [...missing, ...stale]
     for (let i = 0; i < ids.length; i += 500) {
-      for (const doc of await loadSearchDocuments(db, ids.slice(i, i + 500))) current.upsert(doc)
+      for (const doc of await loadSearchDocuments(db, read, ids.slice(i, i + 500))) current.upsert(doc)
     }
     return { checked: truth.size, added: missing.length, updated: stale.length, removed }
   })

@@ -240,7 +240,7 @@ async function lockSubmitted(tx: Tx, pullId: number) {
   return { pull, build: build! }
 }
 
-const figuresOf = (b: Pick<Build, 'peakHp' | 'peakHpRpm' | 'peakTq' | 'peakTqRpm'>): PeakFigures =>
+const listedPeaksOf = (b: Pick<Build, 'peakHp' | 'peakHpRpm' | 'peakTq' | 'peakTqRpm'>): PeakFigures =>
   ({ peakHp: b.peakHp, peakHpRpm: b.peakHpRpm, peakTq: b.peakTq, peakTqRpm: b.peakTqRpm })
 
 /**
@@ -260,7 +260,7 @@ export async function approvePull(db: Database, input: { actorId: number, pullId
       action: 'pull.verify',
       entityType: 'dyno_pull',
       entityId: pull.id,
-      before: { status: pull.status, buildId: pull.buildId, buildVerifiedAt: build!.verifiedAt?.toISOString() ?? null, buildFigures: figuresOf(build!) },
+      before: { status: pull.status, buildId: pull.buildId, buildVerifiedAt: build!.verifiedAt?.toISOString() ?? null, buildFigures: listedPeaksOf(build!) },
       after: { status: 'verified', buildId: pull.buildId, buildVerifiedAt: verifiedAt.toISOString(), buildFigures: figures },
       note: input.note ?? null,
       at: now,
@@ -289,13 +289,13 @@ export async function rejectPull(db: Database, input: { actorId: number, pullId:
     await tx.update(dynoPulls).set({ status: 'rejected', reviewNote: input.reason, reviewedAt: now }).where(eq(dynoPulls.id, pull.id))
     // The rejected pull leaves the headline; the one rule picks who speaks for the build now.
     const { pullId: _headlineId, basis: _basis, verifiedAt: _verifiedAt, ...headline } = await refreshHeadline(tx, build!.id, now)
-    const changed = JSON.stringify(headline) !== JSON.stringify(figuresOf(build!))
+    const changed = JSON.stringify(headline) !== JSON.stringify(listedPeaksOf(build!))
     await writeAudit(tx, {
       actorId: input.actorId,
       action: 'pull.reject',
       entityType: 'dyno_pull',
       entityId: pull.id,
-      before: { status: pull.status, buildId: pull.buildId, ...(changed ? { buildFigures: figuresOf(build!) } : {}) },
+      before: { status: pull.status, buildId: pull.buildId, ...(changed ? { buildFigures: listedPeaksOf(build!) } : {}) },
       after: { status: 'rejected', buildId: pull.buildId, ...(changed ? { buildFigures: headline } : {}) },
       note: input.reason,
       at: now,

@@ -2,7 +2,7 @@ import { encode, getToken, type JWT } from '@auth/core/jwt'
 import { verify } from '@node-rs/argon2'
 import { eq } from 'drizzle-orm'
 import type { H3Event } from 'h3'
-import type { Role } from '#shared/schemas/auth'
+import type { Role } from '#shared/domain'
 import type { SessionUser } from '#shared/types/auth'
 import { activeUser, assertOwner, assertRole, currentPasswordNeeded, SESSION_MAX_AGE_S, type AccountRow } from '../auth/policy'
 import { giveBackTokens, signInBuckets, takeTokens } from '../auth/rate-limit'
@@ -88,7 +88,7 @@ export async function requireRole(event: H3Event, ...roles: Role[]): Promise<Ses
 }
 
 /** The signed-in builder and their shop: every route that acts for a shop starts here. */
-export async function requireBuilderProfile(event: H3Event): Promise<{ user: SessionUser, shop: BuilderProfile }> {
+export async function requireCallerShop(event: H3Event): Promise<{ user: SessionUser, shop: BuilderProfile }> {
   const user = await requireRole(event, 'builder')
   const [shop] = await useDb().select().from(builderProfiles).where(eq(builderProfiles.userId, user.id)).limit(1)
   if (!shop) throw createError({ status: 403, message: 'This builder account has no shop profile yet.' })

@@ -1,6 +1,6 @@
 import type Stripe from 'stripe'
 import type { DealContext } from '../services/deal-context'
-import { createStripeClient } from '../services/payments'
+import { createStripeClient } from './stripe'
 
 let stripe: Stripe | undefined
 

@@ -1,8 +1,5 @@
 /** The words and states of a deal, shared by the schema, the server and the pages. */
 
-export const DEAL_FUELS = ['pump_gas', 'race_gas', 'e85', 'methanol'] as const
-export const DEAL_ASPIRATIONS = ['na', 'turbo', 'supercharged', 'nitrous'] as const
-export const DEAL_USES = ['drag', 'road_course', 'street_strip', 'off_road', 'marine', 'street'] as const
 export const TRANSMISSIONS = ['manual', 'automatic', 'sequential', 'none'] as const
 
 export const TRANSMISSION_LABELS: Record<(typeof TRANSMISSIONS)[number], string> = {

@@ -14,17 +14,21 @@ export interface Weather {
   humidityPct: number
 }
 
-/** The atmospheric correction standards Torquewright can compute, with labels in our own words. */
-export const CORRECTION_STANDARDS = [
-  { id: 'UNCORRECTED', label: 'Uncorrected (as observed)' },
-  { id: 'SAE_J1349_2004', label: 'SAE J1349 (2004)' },
-  { id: 'SAE_J1349_1990', label: 'SAE J1349 (1990)' },
-  { id: 'SAE_J607', label: 'SAE J607 (60 °F, 29.92 inHg dry)' },
-  { id: 'DIN_70020', label: 'DIN 70020 (20 °C, 1013 mbar)' },
-  { id: 'ISO_1585', label: 'ISO 1585 / ECE R85' },
-] as const
+/** The atmospheric correction standards Torquewright can compute, as a typed tuple: what `z.enum` takes. */
+export const CORRECTION_STANDARD_IDS = ['UNCORRECTED', 'SAE_J1349_2004', 'SAE_J1349_1990', 'SAE_J607', 'DIN_70020', 'ISO_1585'] as const
+export type CorrectionStandard = (typeof CORRECTION_STANDARD_IDS)[number]
 
-export type CorrectionStandard = (typeof CORRECTION_STANDARDS)[number]['id']
+const STANDARD_LABELS: Record<CorrectionStandard, string> = {
+  UNCORRECTED: 'Uncorrected (as observed)',
+  SAE_J1349_2004: 'SAE J1349 (2004)',
+  SAE_J1349_1990: 'SAE J1349 (1990)',
+  SAE_J607: 'SAE J607 (60 °F, 29.92 inHg dry)',
+  DIN_70020: 'DIN 70020 (20 °C, 1013 mbar)',
+  ISO_1585: 'ISO 1585 / ECE R85',
+}
+
+/** The standards with labels in our own words, in the tuple's order. */
+export const CORRECTION_STANDARDS: readonly { id: CorrectionStandard, label: string }[] = CORRECTION_STANDARD_IDS.map(id => ({ id, label: STANDARD_LABELS[id] }))
 
 /** A standard together with the weather it was applied under; no weather means no correction (factor 1). */
 export interface CorrectionSpec {
@@ -32,11 +36,15 @@ export interface CorrectionSpec {
   weather?: Weather | null
 }
 
-/** Where the engine's air comes from, which sets what BMEP is plausible. */
-export type Aspiration = 'na' | 'turbo' | 'supercharged' | 'nitrous'
+/** Where the engine's air comes from, which sets what BMEP is plausible (also a build's and a request's field, shared/domain.ts). */
+export const ASPIRATIONS = ['na', 'turbo', 'supercharged', 'nitrous'] as const
+export type Aspiration = (typeof ASPIRATIONS)[number]
 
+/** The fuels the fuel-system calculator knows (also a build's and a request's field, shared/domain.ts). */
+export const FUELS = ['pump_gas', 'race_gas', 'e85', 'methanol'] as const
+export type Fuel = (typeof FUELS)[number]
 /** Keys of the fuels the fuel-system calculator knows. */
-export type FuelKey = 'pump_gas' | 'race_gas' | 'e85' | 'methanol'
+export type FuelKey = Fuel
 
 export type TorqueUnit = 'lbft' | 'nm'
 export type PowerUnit = 'hp' | 'kw' | 'ps'

@@ -1,10 +1,8 @@
 import { z } from 'zod'
+import { ROLES } from '../domain'
 import { UNIT_SYSTEMS } from '../units/systems'
 
 /** Request shapes of sign-up, sign-in and the account page: the forms and the server validate with these same schemas. */
-
-export const ROLES = ['racer', 'builder', 'admin'] as const
-export type Role = typeof ROLES[number]
 
 export { UNIT_SYSTEMS, type UnitSystem } from '../units/systems'
 

@@ -1,7 +1,7 @@
 import { z } from 'zod'
 import { camEvents } from '../engine/cam'
 import { dynamicCompressionRatio, staticCompressionRatio } from '../engine/geometry'
-import { CORRECTION_STANDARDS } from '../engine/types'
+import { ASPIRATIONS, CORRECTION_STANDARD_IDS, FUELS, USES } from '../domain'
 
 /**
  * The listing editor's schemas, used by the editor page (field messages as the builder types) and by
@@ -9,9 +9,6 @@ import { CORRECTION_STANDARDS } from '../engine/types'
  * (common practice, values from memory): they catch a slipped decimal point, not an unusual build.
  */
 
-export const ASPIRATIONS = ['na', 'turbo', 'supercharged', 'nitrous'] as const
-export const FUELS = ['pump_gas', 'race_gas', 'e85', 'methanol'] as const
-export const USES = ['drag', 'road_course', 'street_strip', 'off_road', 'marine', 'street'] as const
 export const DYNO_KINDS = ['engine', 'chassis'] as const
 export const COMPARISON_ROLES = ['baseline', 'variant'] as const
 export const CHANGE_KINDS = ['heads', 'intake', 'camshaft', 'exhaust', 'tune', 'other'] as const
@@ -168,8 +165,6 @@ export const buildStatusAction = z.object({
 
 // ── Dyno evidence ──
 
-const standardIds = CORRECTION_STANDARDS.map(s => s.id) as unknown as [string, ...string[]]
-
 const optionalFigure = (label: string, min: number, max: number) => num(label, min, max).nullable().default(null)
 const optionalRpm = (label: string) => whole(label, 500, 20_000).nullable().default(null)
 
@@ -180,7 +175,7 @@ const optionalRpm = (label: string) => whole(label, 500, 20_000).nullable().defa
 export const pullMetaSchema = z.object({
   label: text('The label', 2, 120),
   dynoKind: choice('The dyno kind', DYNO_KINDS),
-  declaredStandard: z.enum(standardIds, { error: 'Pick the correction standard the dyno sheet used from the list' }),
+  declaredStandard: z.enum(CORRECTION_STANDARD_IDS, { error: 'Pick the correction standard the dyno sheet used from the list' }),
   declaredFactor: optionalFigure('The correction factor', 0.8, 1.25),
   weather: z.object({
     baroInHg: num('The barometer', 20, 32, 'inHg'),

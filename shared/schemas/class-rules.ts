@@ -1,5 +1,6 @@
 import { z } from 'zod'
-import { DEAL_ASPIRATIONS, DEAL_FUELS, TRANSMISSIONS } from '../deals/constants'
+import { TRANSMISSIONS } from '../deals/constants'
+import { ASPIRATIONS, FUELS } from '../domain'
 
 /**
  * A racer's class rules (PUT /api/me/class, the form on /account): the displacement cap, the allowed
@@ -10,8 +11,8 @@ import { DEAL_ASPIRATIONS, DEAL_FUELS, TRANSMISSIONS } from '../deals/constants'
 export const classRulesSchema = z.strictObject({
   className: z.string({ error: 'The class name is text' }).trim().max(80, 'The class name is at most 80 characters').default(''),
   displacementCapCi: z.number({ error: 'The displacement cap is a number' }).min(30, 'The displacement cap is at least 30 ci').max(1000, 'The displacement cap is at most 1,000 ci').nullable().default(null),
-  aspirations: z.array(z.enum(DEAL_ASPIRATIONS, { error: `Each aspiration is one of ${DEAL_ASPIRATIONS.join(', ')}` })).max(DEAL_ASPIRATIONS.length, 'Each aspiration at most once').default([]),
-  fuels: z.array(z.enum(DEAL_FUELS, { error: `Each fuel is one of ${DEAL_FUELS.join(', ')}` })).max(DEAL_FUELS.length, 'Each fuel at most once').default([]),
+  aspirations: z.array(z.enum(ASPIRATIONS, { error: `Each aspiration is one of ${ASPIRATIONS.join(', ')}` })).max(ASPIRATIONS.length, 'Each aspiration at most once').default([]),
+  fuels: z.array(z.enum(FUELS, { error: `Each fuel is one of ${FUELS.join(', ')}` })).max(FUELS.length, 'Each fuel at most once').default([]),
   raceWeightLb: z.number({ error: 'The race weight is a number' }).min(300, 'The race weight is at least 300 lb').max(10000, 'The race weight is at most 10,000 lb').nullable().default(null),
   minLbPerHp: z.number({ error: 'The minimum weight-to-power is a number' }).min(0.5, 'The minimum weight-to-power is at least 0.5 lb/hp').max(50, 'The minimum weight-to-power is at most 50 lb/hp').nullable().default(null),
   transmission: z.enum(TRANSMISSIONS, { error: 'Pick a transmission' }).nullable().default(null),

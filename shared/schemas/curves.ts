@@ -1,11 +1,9 @@
 import { z } from 'zod'
-import { CORRECTION_STANDARDS } from '../engine/types'
-
-const standardIds = CORRECTION_STANDARDS.map(s => s.id) as [string, ...string[]]
+import { CORRECTION_STANDARD_IDS } from '../domain'
 
 /** `?standard=` on every curve route; SAE J1349 (2004) when absent. */
 export const standardQuery = z.object({
-  standard: z.enum(standardIds, { error: `standard must be one of ${standardIds.join(', ')}` }).default('SAE_J1349_2004'),
+  standard: z.enum(CORRECTION_STANDARD_IDS, { error: `standard must be one of ${CORRECTION_STANDARD_IDS.join(', ')}` }).default('SAE_J1349_2004'),
 })
 
 const bandRpm = (name: string) => z.coerce.number({ error: `${name} is an rpm` })

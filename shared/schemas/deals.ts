@@ -1,13 +1,12 @@
 import { z } from 'zod'
-import { CORRECTION_STANDARDS } from '../engine/types'
-import { DEAL_ASPIRATIONS, DEAL_FUELS, DEAL_LIMITS, DEAL_USES, TRANSMISSIONS } from '../deals/constants'
+import { ASPIRATIONS, CORRECTION_STANDARD_IDS, FUELS, USES } from '../domain'
+import { DEAL_LIMITS, TRANSMISSIONS } from '../deals/constants'
 import { MAX_CENTS, formatCents } from '../money'
 import { idSchema, slugSchema } from './common'
 
 /** Request bodies of the deal routes; the pages validate their forms with the same schemas. */
 
-const standardIds = CORRECTION_STANDARDS.map(s => s.id) as [string, ...string[]]
-export const standardSchema = z.enum(standardIds, { error: 'Pick one of the correction standards in the list' })
+export const standardSchema = z.enum(CORRECTION_STANDARD_IDS, { error: 'Pick one of the correction standards in the list' })
 
 const isoDay = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'A date is written YYYY-MM-DD').refine(s => !Number.isNaN(Date.parse(`${s}T00:00:00Z`)) && new Date(`${s}T00:00:00Z`).toISOString().startsWith(s), 'That date does not exist')
 const centsSchema = z.number({ error: 'An amount is a whole number of cents' }).int('An amount is a whole number of cents').min(0, 'An amount cannot be negative').max(MAX_CENTS, 'That amount is too large')
@@ -23,9 +22,9 @@ export const quoteRequestSchema = z.object({
   targetTq: z.number({ error: 'The target torque is a number' }).min(50, 'The target torque is at least 50 lb·ft').max(5000, 'The target torque is at most 5,000 lb·ft').nullable().default(null),
   targetStandard: standardSchema,
   displacementCapCi: z.number({ error: 'The displacement cap is a number' }).min(30, 'The displacement cap is at least 30 ci').max(1000, 'The displacement cap is at most 1,000 ci').nullable().default(null),
-  fuel: z.enum(DEAL_FUELS, { error: 'Pick a fuel' }),
-  aspiration: z.enum(DEAL_ASPIRATIONS, { error: 'Pick how the engine breathes' }),
-  intendedUse: z.enum(DEAL_USES, { error: 'Pick the use' }),
+  fuel: z.enum(FUELS, { error: 'Pick a fuel' }),
+  aspiration: z.enum(ASPIRATIONS, { error: 'Pick how the engine breathes' }),
+  intendedUse: z.enum(USES, { error: 'Pick the use' }),
   transmission: z.enum(TRANSMISSIONS, { error: 'Pick a transmission' }),
   stallRpm: z.number().int('The stall speed is a whole number of rpm').min(1000, 'The stall speed is at least 1,000 rpm').max(9000, 'The stall speed is at most 9,000 rpm').nullable().default(null),
   shiftRpm: z.number().int('The shift rpm is a whole number').min(2000, 'The shift rpm is at least 2,000').max(12000, 'The shift rpm is at most 12,000').nullable().default(null),

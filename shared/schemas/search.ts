@@ -1,11 +1,12 @@
 import { z } from 'zod'
-import { BAND_RPM, SEARCH_ASPIRATIONS, SEARCH_FUELS, SEARCH_SORTS, SEARCH_USES } from '../search/values'
+import { ASPIRATIONS, FUELS, USES } from '../domain'
+import { BAND_RPM, SEARCH_SORTS } from '../search/values'
 
 /**
  * The search parameters of GET /api/search, shared by the route and the search page (which reads
  * the same names from its URL). Every rule here answers a person: a 400 says which one failed.
  */
-export { BAND_RPM, SEARCH_ASPIRATIONS, SEARCH_FUELS, SEARCH_SORTS, SEARCH_USES } from '../search/values'
+export { BAND_RPM, SEARCH_SORTS } from '../search/values'
 export const MAX_RESULT_WINDOW = 10_000
 
 /** An absent or empty parameter is no filter. */
@@ -45,10 +46,10 @@ const filterShape = {
   hpTolerance: numberParam('hpTolerance', 0, 5000, ' hp'),
   tqMin: numberParam('tqMin', 0, 20000, ' lb·ft'),
   tqMax: numberParam('tqMax', 0, 20000, ' lb·ft'),
-  aspiration: listParam('aspiration', enumItem('aspiration', SEARCH_ASPIRATIONS)),
-  fuel: listParam('fuel', enumItem('fuel', SEARCH_FUELS)),
+  aspiration: listParam('aspiration', enumItem('aspiration', ASPIRATIONS)),
+  fuel: listParam('fuel', enumItem('fuel', FUELS)),
   family: listParam('family', text('family', 60)),
-  use: listParam('use', enumItem('use', SEARCH_USES)),
+  use: listParam('use', enumItem('use', USES)),
   region: listParam('region', text('region', 80)),
   // A stored (already validated) query carries a boolean; a URL carries the word.
   verified: z.preprocess(v => (typeof v === 'boolean' ? String(v) : blankToUndefined(v)), z.enum(['true', 'false'], { error: () => 'verified is true or false' }).optional())
@@ -98,8 +99,8 @@ export const forTargetQuery = z.strictObject({
   ciMin: numberParam('ciMin', 0, 2000, ' ci'),
   ciMax: numberParam('ciMax', 0, 2000, ' ci'),
   hp: numberParam('hp', 1, 20000, ' hp'),
-  aspiration: z.preprocess(blankToUndefined, enumItem('aspiration', SEARCH_ASPIRATIONS).optional()),
-  fuel: z.preprocess(blankToUndefined, enumItem('fuel', SEARCH_FUELS).optional()),
+  aspiration: z.preprocess(blankToUndefined, enumItem('aspiration', ASPIRATIONS).optional()),
+  fuel: z.preprocess(blankToUndefined, enumItem('fuel', FUELS).optional()),
   limit: z.preprocess(blankToUndefined, z.coerce.number({ error: 'limit is a whole number' }).int('limit is a whole number').min(1, 'limit is at least 1').max(50, 'limit is at most 50').default(5)),
   // The track record (README, "Reviews and track record"): order by it, or keep shops that reach a share on time or a count of completed orders.
   sort: z.preprocess(blankToUndefined, enumItem('sort', ['score', 'record', 'proof'] as const).default('score')),

@@ -1,5 +1,6 @@
 import { z } from 'zod'
-import { BAND_RPM, SEARCH_ASPIRATIONS, SEARCH_FUELS } from './search'
+import { ASPIRATIONS, FUELS } from '../domain'
+import { BAND_RPM } from './search'
 
 /** The kinds of change a before/after comparison records (the dyno_pulls.change_kind values). */
 export const SWAP_CHANGES = ['heads', 'intake', 'camshaft', 'exhaust', 'tune', 'other'] as const
@@ -28,8 +29,8 @@ export const swapsQuery = z.strictObject({
   change: z.preprocess(v => (Array.isArray(v) ? '' : v), z.enum(SWAP_CHANGES, { error: () => `change is required: one of ${SWAP_CHANGES.join(', ')}` })),
   ciMin: number('ciMin', 0, 2000, ' ci'),
   ciMax: number('ciMax', 0, 2000, ' ci'),
-  aspiration: choice('aspiration', SEARCH_ASPIRATIONS),
-  fuel: choice('fuel', SEARCH_FUELS),
+  aspiration: choice('aspiration', ASPIRATIONS),
+  fuel: choice('fuel', FUELS),
   bandFrom: number('bandFrom', BAND_RPM.min, BAND_RPM.max, ' rpm'),
   bandTo: number('bandTo', BAND_RPM.min, BAND_RPM.max, ' rpm'),
 }, { error: issue => (issue.code === 'unrecognized_keys' ? `unknown parameter ${issue.keys.join(', ')}` : undefined) }).superRefine((v, ctx) => {

@@ -2,6 +2,7 @@
 import type { MilestoneStateName } from '../deals/constants'
 import type { EvidenceCheck, EvidenceOutcome } from '../engine/types'
 import type { BuildStatus } from './editor'
+import type { ListedCombination } from './listings'
 import type { DealEventView, OrderView, ThreadMessageView } from './deals'
 
 export type PullStatus = 'submitted' | 'verified' | 'rejected'
@@ -85,31 +86,8 @@ export interface EvidenceReview {
 }
 
 /** The build's combination as the admin compares it with the curve. */
-export interface ReviewCombination {
-  engineFamily: string
-  cylinders: number
-  boreIn: number
-  strokeIn: number
-  rodLengthIn: number
+export interface ReviewCombination extends Omit<ListedCombination, 'summary' | 'camIntakeLiftIn' | 'camExhaustLiftIn' | 'priceCents'> {
   displacementCi: number
-  aspiration: string
-  fuel: string
-  intendedUse: string
-  cylinderHeads: string
-  chamberCc: number
-  pistonCc: number
-  gasketBoreIn: number
-  gasketThicknessIn: number
-  deckClearanceIn: number
-  camIntakeDurationDeg: number
-  camExhaustDurationDeg: number
-  camLobeSeparationDeg: number
-  camIntakeCenterlineDeg: number
-  intakeManifold: string
-  throttleBody: string
-  injectorSizeLbHr: number | null
-  injectorCount: number | null
-  engineManagement: string
 }
 
 export interface DecisionResult {

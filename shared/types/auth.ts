@@ -1,4 +1,5 @@
-import type { Role, UnitSystem } from '../schemas/auth'
+import type { Role } from '../domain'
+import type { UnitSystem } from '../schemas/auth'
 
 /** What a session tells the pages about who is signed in. */
 export interface SessionUser {

@@ -1,20 +1,19 @@
 /** The shapes the listing routes answer with, used by the pages. */
+import type { PublishableBuild } from '../schemas/build'
+
 export interface BuilderCard {
   slug: string
   shopName: string
   region: string
 }
 
-export interface BuildSummary {
+/** A published build's combination fields as the publish schema (shared/schemas/build.ts) holds them. */
+export type ListedCombination = Omit<PublishableBuild, 'title'>
+
+export interface BuildSummary extends Pick<ListedCombination, 'engineFamily' | 'cylinders' | 'aspiration' | 'fuel' | 'intendedUse' | 'priceCents'> {
   slug: string
   title: string
-  engineFamily: string
-  cylinders: number
   displacementCi: number
-  aspiration: 'na' | 'turbo' | 'supercharged' | 'nitrous'
-  fuel: 'pump_gas' | 'race_gas' | 'e85' | 'methanol'
-  intendedUse: string
-  priceCents: number
   peakHp: number | null
   peakHpRpm: number | null
   peakTq: number | null
@@ -32,28 +31,7 @@ export interface BuildPartRow {
   unitPriceCents: number
 }
 
-export interface BuildDetail extends BuildSummary {
-  summary: string
-  boreIn: number
-  strokeIn: number
-  rodLengthIn: number
-  cylinderHeads: string
-  chamberCc: number
-  pistonCc: number
-  gasketBoreIn: number
-  gasketThicknessIn: number
-  deckClearanceIn: number
-  camIntakeDurationDeg: number
-  camExhaustDurationDeg: number
-  camIntakeLiftIn: number
-  camExhaustLiftIn: number
-  camLobeSeparationDeg: number
-  camIntakeCenterlineDeg: number
-  intakeManifold: string
-  throttleBody: string
-  injectorSizeLbHr: number | null
-  injectorCount: number | null
-  engineManagement: string
+export interface BuildDetail extends BuildSummary, ListedCombination {
   publishedAt: string | null
   photos: BuildPhotoRow[]
   parts: BuildPartRow[]

@@ -1,5 +1,6 @@
 // What Torquewright adds to Auth.js's user and token types (module augmentation).
-import type { Role, UnitSystem } from '../schemas/auth'
+import type { Role } from '../domain'
+import type { UnitSystem } from '../schemas/auth'
 
 declare module '@auth/core/types' {
   interface User {

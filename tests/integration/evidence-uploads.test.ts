@@ -235,6 +235,20 @@ describe('the evidence report follows the combination', () => {
     expect(after.figures!.bmepKpa).toBeGreaterThan(before.figures!.bmepKpa as number)
   })
 
+  it('re-runs the report inside the autosave itself when it is given the stored-file reader, and only for a change to a checked field', async () => {
+    const id = await readyDraft('Autosave re-checks')
+    await savePull(db, store, shops.mine, id, { pull: file(inventedPullCsv(333)), meta: pullMeta() })
+    const before = await bmepOf(id)
+    // A field the checks do not read leaves the report as it was.
+    await updateBuild(db, shops.mine, id, { rodLengthIn: 6.1 }, readStored)
+    expect((await bmepOf(id)).figures!.displacementCi).toBe(before.figures!.displacementCi)
+
+    await updateBuild(db, shops.mine, id, { boreIn: 3.5, strokeIn: 3 }, readStored)
+    // Swept volume π/4 · bore² · stroke · cylinders (the textbook formula, as the engine module's displacementCi computes it).
+    expect((await bmepOf(id)).figures!.displacementCi).toBeCloseTo(displacementCi(3.5, 3, 8), 6)
+    expect((await bmepOf(id)).figures!.displacementCi).not.toBeCloseTo(before.figures!.displacementCi as number, 1)
+  })
+
   it('sends a verified pull back for a new check when the combination changes, and keeps it verified when the values stay the same', async () => {
     const id = await readyDraft('Verified, then re-machined')
     await savePull(db, store, shops.mine, id, { pull: file(inventedPullCsv(337)), meta: pullMeta() })

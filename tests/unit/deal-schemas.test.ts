@@ -1,8 +1,12 @@
 import { describe, expect, it } from 'vitest'
-import { aspirations, fuels, milestoneStates, transmissions, uses } from '../../server/database/schema'
-import { DEAL_ASPIRATIONS, DEAL_FUELS, DEAL_USES, MILESTONE_STATES, TRANSMISSIONS } from '../../shared/deals/constants'
+import { milestoneStates, quoteRequests, transmissions } from '../../server/database/schema'
+import { ASPIRATIONS as DEAL_ASPIRATIONS, FUELS as DEAL_FUELS, USES as DEAL_USES } from '../../shared/domain'
+import { MILESTONE_STATES, TRANSMISSIONS } from '../../shared/deals/constants'
 import { MAX_CENTS } from '../../shared/money'
 import { QUOTE_LIMIT_MESSAGE, messageSchema, quoteFieldsSchema, quoteRequestSchema, quoteSchema } from '../../shared/schemas/deals'
+
+// The database columns' own enum values, as drizzle holds them.
+const { fuel: { enumValues: fuels }, aspiration: { enumValues: aspirations }, intendedUse: { enumValues: uses } } = quoteRequests
 
 const request = {
   builder: 'harrow-creek-engine-works', title: 'Bracket engine', targetHp: 640, targetStandard: 'SAE_J1349_2004',

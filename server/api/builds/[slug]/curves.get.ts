@@ -1,4 +1,3 @@
-import type { CorrectionStandard } from '#shared/engine'
 import { slugParams } from '#shared/schemas/common'
 import { standardQuery } from '#shared/schemas/curves'
 import { curvesForBuild, publishedBuildId } from '../../../services/curves'
@@ -10,5 +9,5 @@ export default definePublicCachedHandler('build-curves', async (event) => {
   const db = useDb()
   const id = await publishedBuildId(db, slug)
   if (!id) throw createError({ status: 404, message: 'No published build has that address.' })
-  return curvesForBuild(db, readUploadText, id, slug, standard as CorrectionStandard)
+  return curvesForBuild(db, readUploadText, id, slug, standard)
 })

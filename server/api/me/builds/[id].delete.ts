@@ -3,7 +3,7 @@ import { deleteBuild } from '../../../services/listing-editor'
 
 /** Deletes one of the caller's builds with its pulls, photos and stored files. */
 export default defineEventHandler(async (event) => {
-  const { shop } = await requireBuilderProfile(event)
+  const { shop } = await requireCallerShop(event)
   const { id } = await getValidatedRouterParams(event, validator(idParams))
   await deleteBuild(useDb(), uploadStore(), shop, id)
   setResponseStatus(event, 204)

@@ -3,7 +3,7 @@ import { editorBuild } from '../../../services/listing-editor'
 
 /** The owner's view of one build (drafts included). 404 for another shop's draft, 403 for its published listing. */
 export default defineEventHandler(async (event) => {
-  const { shop } = await requireBuilderProfile(event)
+  const { shop } = await requireCallerShop(event)
   const { id } = await getValidatedRouterParams(event, validator(idParams))
   return editorBuild(useDb(), shop, id)
 })

@@ -1,16 +1,13 @@
 import { buildDraftPatch } from '#shared/schemas/build'
 import { idParams } from '#shared/schemas/common'
-import { recheckSubmittedPulls } from '../../../services/evidence-uploads'
-import { CHECKED_COMBINATION_FIELDS, editorBuild, updateBuild } from '../../../services/listing-editor'
+import { editorBuild, updateBuild } from '../../../services/listing-editor'
 
 /** An autosave of some fields and/or the whole parts list; answers the updated owner's view. */
 export default defineEventHandler(async (event) => {
-  const { shop } = await requireBuilderProfile(event)
+  const { shop } = await requireCallerShop(event)
   const { id } = await getValidatedRouterParams(event, validator(idParams))
   const patch = await readValidatedBody(event, validator(buildDraftPatch))
   const db = useDb()
-  await updateBuild(db, shop, id, patch)
-  // The evidence reports of pulls awaiting review follow the combination they are checked against.
-  if (CHECKED_COMBINATION_FIELDS.some(field => field in patch)) await recheckSubmittedPulls(db, id, readUploadText)
+  await updateBuild(db, shop, id, patch, readUploadText)
   return editorBuild(db, shop, id)
 })

@@ -3,7 +3,7 @@ import { createDraft } from '../../../services/listing-editor'
 
 /** A new draft listing with only its title. Builders with a shop only. */
 export default defineEventHandler(async (event) => {
-  const { shop } = await requireBuilderProfile(event)
+  const { shop } = await requireCallerShop(event)
   const { title } = await readValidatedBody(event, validator(newBuildSchema))
   const id = await createDraft(useDb(), shop, title)
   setResponseStatus(event, 201)

@@ -4,5 +4,5 @@ import { checkIndex } from '../../../services/search'
 export default defineEventHandler(async (event) => {
   if (process.env.TW_TEST_MODE !== '1') throw createError({ status: 404, message: 'Not found.' })
   await requireRole(event, 'admin')
-  return checkIndex(useDb())
+  return checkIndex(useDb(), readUploadText)
 })

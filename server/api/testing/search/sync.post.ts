@@ -10,5 +10,5 @@ export default defineEventHandler(async (event) => {
   if (process.env.TW_TEST_MODE !== '1') throw createError({ status: 404, message: 'Not found.' })
   await requireRole(event, 'admin')
   const { buildId } = await readValidatedBody(event, validator(z.strictObject({ buildId: idSchema })))
-  return { result: await syncBuild(useDb(), buildId) }
+  return { result: await syncBuild(useDb(), readUploadText, buildId) }
 })

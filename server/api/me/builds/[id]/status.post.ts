@@ -4,7 +4,7 @@ import { changeStatus } from '../../../../services/listing-editor'
 
 /** Publish (422 naming what is missing), unpublish, archive or restore one of the caller's builds. */
 export default defineEventHandler(async (event) => {
-  const { shop } = await requireBuilderProfile(event)
+  const { shop } = await requireCallerShop(event)
   const { id } = await getValidatedRouterParams(event, validator(idParams))
   const { action } = await readValidatedBody(event, validator(buildStatusAction))
   return changeStatus(useDb(), shop, id, action)

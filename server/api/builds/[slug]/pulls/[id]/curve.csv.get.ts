@@ -1,5 +1,4 @@
 import { z } from 'zod'
-import type { CorrectionStandard } from '#shared/engine'
 import { idSchema, slugSchema } from '#shared/schemas/common'
 import { standardQuery } from '#shared/schemas/curves'
 import { curveCsv, curvesForBuild, publishedBuildId } from '../../../../../services/curves'
@@ -13,7 +12,7 @@ export default defineEventHandler(async (event) => {
   const db = useDb()
   const buildId = await publishedBuildId(db, slug)
   if (!buildId) throw createError({ status: 404, message: 'No published build has that address.' })
-  const curves = await curvesForBuild(db, readUploadText, buildId, slug, standard as CorrectionStandard, 'full')
+  const curves = await curvesForBuild(db, readUploadText, buildId, slug, standard, 'full')
   const pull = curves.pulls.find(p => p.id === id)
   if (!pull) throw createError({ status: 404, message: 'That build has no such pull.' })
   setResponseHeader(event, 'content-type', 'text/csv; charset=utf-8')

@@ -6,7 +6,7 @@ const params = z.object({ id: idSchema, photoId: idSchema })
 
 /** Removes a photo of the caller's build and its stored file. */
 export default defineEventHandler(async (event) => {
-  const { shop } = await requireBuilderProfile(event)
+  const { shop } = await requireCallerShop(event)
   const { id, photoId } = await getValidatedRouterParams(event, validator(params))
   await removePhoto(useDb(), uploadStore(), shop, id, photoId)
   setResponseStatus(event, 204)

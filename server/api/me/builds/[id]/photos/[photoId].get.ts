@@ -1,13 +1,13 @@
 import { z } from 'zod'
 import { idSchema } from '#shared/schemas/common'
-import { ownBuild } from '../../../../../services/listing-editor'
+import { ownBuild } from '../../../../../services/own-build'
 import { photoFile } from '../../../../../services/listing-photos'
 
 const params = z.object({ id: idSchema, photoId: idSchema })
 
 /** A photo of one of the caller's builds, drafts included, for the editor. */
 export default defineEventHandler(async (event) => {
-  const { shop } = await requireBuilderProfile(event)
+  const { shop } = await requireCallerShop(event)
   const { id, photoId } = await getValidatedRouterParams(event, validator(params))
   const db = useDb()
   await ownBuild(db, shop, id)

@@ -1,13 +1,13 @@
 import { z } from 'zod'
 import { idParams } from '#shared/schemas/common'
 import { addPhoto } from '../../../../../services/listing-photos'
-import { ownBuild } from '../../../../../services/listing-editor'
+import { ownBuild } from '../../../../../services/own-build'
 
 const caption = z.string().trim().max(160, 'A caption is at most 160 characters').default('')
 
 /** Adds a photo (PNG, JPEG or WebP, sniffed; size-limited) to one of the caller's builds. */
 export default defineEventHandler(async (event) => {
-  const { shop } = await requireBuilderProfile(event)
+  const { shop } = await requireCallerShop(event)
   const { id } = await getValidatedRouterParams(event, validator(idParams))
   // Only the owner's upload is read at all.
   await ownBuild(useDb(), shop, id)

@@ -6,7 +6,7 @@ const params = z.object({ id: idSchema, pullId: idSchema })
 
 /** Deletes one pull of the caller's build and its stored files. */
 export default defineEventHandler(async (event) => {
-  const { shop } = await requireBuilderProfile(event)
+  const { shop } = await requireCallerShop(event)
   const { id, pullId } = await getValidatedRouterParams(event, validator(params))
   await deletePull(useDb(), uploadStore(), shop, id, pullId)
   setResponseStatus(event, 204)
