@@ -7,7 +7,7 @@ import { createSearchIndex, type SearchDocument, type SearchIndex } from '../../
 import { syntheticDocuments } from '../../search/synthetic'
 import { builderProfiles, buildParts, builds, dynoPulls, type Build, type BuilderProfile, type DynoPull } from '../database/schema'
 import type { Database } from '../database/types'
-import { readUploadText } from '../utils/storage'
+import { readUploadText } from '../utils/stored-files'
 import type { ReadStoredText } from './curves'
 import { asPublished } from './listings'
 import { pullFiguresFor } from './pull-figures'
