@@ -1,4 +1,6 @@
-// The deal e-mails, in Torquewright's own words, each as plain text and simple HTML.
+// Every e-mail of Torquewright in its own words, each as plain text and simple HTML: the account
+// mails (sign-up, sign-in links, address changes), an admin's decisions and the deal mails. Each is
+// queued in the outbox (services/outbox.ts), which sends it.
 import { formatCents } from '../../shared/money'
 import { VERIFICATION } from '../../shared/vocabulary'
 
@@ -172,4 +174,101 @@ export function renderSavedSearchMail(mail: SavedSearchMail): RenderedMail {
     text: 'You get this e-mail because you saved this search with e-mail on. Rename it, turn its e-mail off or delete it on your account page.',
     link: { label: 'Manage saved searches', href: mail.manageLink },
   }) }
+}
+
+/** An account or admin e-mail: a greeting, paragraphs, an optional link and note, signed. */
+export function compose(subject: string, greeting: string, paragraphs: string[], action?: { label: string, url: string }, footer?: string): RenderedMail {
+  const text = [greeting, '', ...paragraphs.flatMap(p => [p, '']), ...(action ? [`${action.label}: ${action.url}`, ''] : []), footer ?? '', '— Torquewright'].join('\n')
+  const html = [
+    `<p>${escape(greeting)}</p>`,
+    ...paragraphs.map(p => `<p>${escape(p)}</p>`),
+    action ? `<p><a href="${escape(action.url)}">${escape(action.label)}</a></p>` : '',
+    footer ? `<p><small>${escape(footer)}</small></p>` : '',
+    '<p>— Torquewright</p>',
+  ].join('\n')
+  return { subject, text, html }
+}
+
+const IGNORE = 'If you did not ask for this, ignore this e-mail: nothing changes until the link is used.'
+
+export const emails = {
+  verify: (name: string, url: string): RenderedMail => compose(
+    'Confirm your e-mail for Torquewright',
+    `Hello ${name},`,
+    ['Confirm this address to finish setting up your Torquewright account. The link works once, for 24 hours, and signs you in.'],
+    { label: 'Confirm my e-mail', url },
+    IGNORE,
+  ),
+  signInLink: (name: string, url: string): RenderedMail => compose(
+    'Your Torquewright sign-in link',
+    `Hello ${name},`,
+    ['Here is the sign-in link you asked for. It works once, for 20 minutes.'],
+    { label: 'Sign in to Torquewright', url },
+    IGNORE,
+  ),
+  alreadyRegistered: (name: string, signInUrl: string): RenderedMail => compose(
+    'You already have a Torquewright account',
+    `Hello ${name},`,
+    ['Someone, probably you, tried to sign up with this e-mail address, which already has an account. No second account was made.',
+      'If you forgot your password, ask for an e-mailed sign-in link on the sign-in page, then set a new password on your account page.'],
+    { label: 'Go to sign-in', url: signInUrl },
+  ),
+  changeEmail: (name: string, url: string): RenderedMail => compose(
+    'Confirm your new e-mail for Torquewright',
+    `Hello ${name},`,
+    ['Confirm that your Torquewright account should use this address from now on. The link works once, for an hour, and signs you in.'],
+    { label: 'Use this address', url },
+    IGNORE,
+  ),
+  emailInUse: (signInUrl: string): RenderedMail => compose(
+    'A Torquewright account wanted this address',
+    'Hello,',
+    ['Someone asked to move another Torquewright account to this e-mail address, which already has an account of its own. Nothing was changed.'],
+    { label: 'Go to sign-in', url: signInUrl },
+  ),
+  signInPaused: (name: string, signInUrl: string): RenderedMail => compose(
+    'Password sign-in to your Torquewright account is paused',
+    `Hello ${name},`,
+    ['Many wrong passwords for your account arrived from different places within the last hour, so sign-in by password is paused for now. Nobody signed in with them. Password sign-in comes back by itself within the hour after the wrong attempts stop.',
+      'An e-mailed sign-in link still works meanwhile: ask for one on the sign-in page. If the wrong passwords were not yours, consider setting a new, longer password once signed in.'],
+    { label: 'Sign in with an e-mailed link', url: signInUrl },
+  ),
+  emailChanged: (name: string, newEmail: string): RenderedMail => compose(
+    'Your Torquewright e-mail address was changed',
+    `Hello ${name},`,
+    [`Your account now signs in with ${newEmail}. If you did not make this change, reply to this e-mail at once.`],
+  ),
+}
+
+/** The e-mails an admin's decision sends, as plain text with a simple HTML twin. */
+export const adminEmails = {
+  pullRejected: (m: { name: string, pullLabel: string, buildTitle: string, reason: string, dashboardUrl: string }): RenderedMail => compose(
+    `Dyno pull ${VERIFICATION.rejected.toLowerCase()}: ${m.pullLabel}`,
+    `Hello ${m.name},`,
+    [
+      `An admin reviewed the pull "${m.pullLabel}" on your listing "${m.buildTitle}" and could not verify it as evidence. The reason:`,
+      m.reason,
+      'The pull no longer counts towards the listing. Upload a corrected pull (the raw file from the dyno, with the weather of the day) from your shop dashboard; a new upload runs the automatic checks and awaits verification afresh.',
+    ],
+    { label: 'Open your shop dashboard', url: m.dashboardUrl },
+  ),
+  pullVerified: (m: { name: string, pullLabel: string, buildTitle: string, buildUrl: string }): RenderedMail => compose(
+    `Dyno pull verified: ${m.pullLabel}`,
+    `Hello ${m.name},`,
+    [
+      `An admin compared the pull "${m.pullLabel}" on your listing "${m.buildTitle}" with its raw file, weather and correction standard, and verified it.`,
+      'The listing carries the verified mark, and its figures now count in search and in your shop\'s record. Racers who saved a search this build matches are told about it.',
+    ],
+    { label: 'Open the listing', url: m.buildUrl },
+  ),
+  listingUnpublished: (m: { name: string, buildTitle: string, reason: string, dashboardUrl: string }): RenderedMail => compose(
+    `Your listing was taken down: ${m.buildTitle}`,
+    `Hello ${m.name},`,
+    [
+      `We took your listing "${m.buildTitle}" off the public site. The reason:`,
+      m.reason,
+      'It is a draft again and nothing in it was deleted. Put right what the reason says, then publish it again from your shop dashboard.',
+    ],
+    { label: 'Open your shop dashboard', url: m.dashboardUrl },
+  ),
 }
