@@ -39,18 +39,21 @@ interface Footer {
   link?: { label: string, href: string }
 }
 
-function layout(paragraphs: string[], action: { label: string, link: string }, footer: Footer = DEAL_FOOTER): { text: string, html: string } {
-  const footerText = footer.link ? `${footer.text}\n${footer.link.label}: ${footer.link.href}` : footer.text
-  const footerHtml = footer.link
-    ? `${escape(footer.text)} <a href="${escape(footer.link.href)}" style="color:${INK}">${escape(footer.link.label)}</a>`
-    : escape(footer.text)
-  const text = `${paragraphs.join('\n\n')}\n\n${action.label}: ${action.link}\n\n— Torquewright\n${footerText}`
+/** The one layout of every e-mail: paragraphs, an optional button link, the signature and a note under it. */
+function layout(paragraphs: string[], action: { label: string, link: string } | null, footer: Footer | null = DEAL_FOOTER): { text: string, html: string } {
+  const footerText = !footer ? '' : footer.link ? `${footer.text}\n${footer.link.label}: ${footer.link.href}` : footer.text
+  const footerHtml = !footer
+    ? ''
+    : footer.link
+      ? `${escape(footer.text)} <a href="${escape(footer.link.href)}" style="color:${INK}">${escape(footer.link.label)}</a>`
+      : escape(footer.text)
+  const text = [paragraphs.join('\n\n'), ...(action ? [`${action.label}: ${action.link}`] : []), `— Torquewright${footerText ? `\n${footerText}` : ''}`].join('\n\n')
   const html = `<!doctype html><html><body style="margin:0;background:${PAPER};font-family:Manrope,Arial,sans-serif;color:${INK}">
 <div style="max-width:560px;margin:0 auto;padding:28px 24px">
 <p style="font-weight:800;font-size:18px;margin:0 0 18px">Torquewright</p>
 ${paragraphs.map(p => `<p style="font-size:15px;line-height:1.55;margin:0 0 14px">${escape(p)}</p>`).join('\n')}
-<p style="margin:22px 0"><a href="${escape(action.link)}" style="background:${COPPER};color:white;padding:10px 18px;border-radius:999px;text-decoration:none;font-weight:700">${escape(action.label)}</a></p>
-<p style="font-size:12px;color:${INK};opacity:.6">${footerHtml}</p>
+${action ? `<p style="margin:22px 0"><a href="${escape(action.link)}" style="background:${COPPER};color:white;padding:10px 18px;border-radius:999px;text-decoration:none;font-weight:700">${escape(action.label)}</a></p>` : ''}
+${footerHtml ? `<p style="font-size:12px;color:${INK};opacity:.6">${footerHtml}</p>` : ''}
 </div></body></html>`
   return { text, html }
 }
@@ -178,15 +181,7 @@ export function renderSavedSearchMail(mail: SavedSearchMail): RenderedMail {
 
 /** An account or admin e-mail: a greeting, paragraphs, an optional link and note, signed. */
 export function compose(subject: string, greeting: string, paragraphs: string[], action?: { label: string, url: string }, footer?: string): RenderedMail {
-  const text = [greeting, '', ...paragraphs.flatMap(p => [p, '']), ...(action ? [`${action.label}: ${action.url}`, ''] : []), footer ?? '', '— Torquewright'].join('\n')
-  const html = [
-    `<p>${escape(greeting)}</p>`,
-    ...paragraphs.map(p => `<p>${escape(p)}</p>`),
-    action ? `<p><a href="${escape(action.url)}">${escape(action.label)}</a></p>` : '',
-    footer ? `<p><small>${escape(footer)}</small></p>` : '',
-    '<p>— Torquewright</p>',
-  ].join('\n')
-  return { subject, text, html }
+  return { subject, ...layout([greeting, ...paragraphs], action ? { label: action.label, link: action.url } : null, footer ? { text: footer } : null) }
 }
 
 const IGNORE = 'If you did not ask for this, ignore this e-mail: nothing changes until the link is used.'
