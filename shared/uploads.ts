@@ -18,10 +18,16 @@ export const UPLOAD_ACCEPT: Record<'pull' | 'sheet' | 'photo', string> = {
   photo: 'image/png,image/jpeg,image/webp',
 }
 
-/** Bytes as a person reads them: 1.4 MB, 820 KB. */
+/** Bytes as a person reads them: 1.4 MB, 820 KB, 512 B. */
 export function formatBytes(bytes: number): string {
-  if (bytes >= 1024 * 1024) return `${(bytes / 1024 / 1024).toFixed(1)} MB`
-  return `${Math.max(1, Math.round(bytes / 1024))} KB`
+  if (bytes < 1024) return `${bytes} B`
+  if (bytes < 1024 * 1024) return `${(bytes / 1024).toFixed(0)} KB`
+  return `${(bytes / 1024 / 1024).toFixed(1)} MB`
+}
+
+/** A size limit in whole megabytes, as the server's refusals name it: "8 MB". */
+export function wholeMegabytes(bytes: number): string {
+  return `${(bytes / 1024 / 1024).toFixed(0)} MB`
 }
 
 /** Most data rows a pull file may hold: the parser's bound (shared/engine/limits.ts), refused with 422 by the server. */

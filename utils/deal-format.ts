@@ -28,8 +28,6 @@ export function formatMoment(value: string | null | undefined): string {
   return value ? moment.format(new Date(value)) : '—'
 }
 
-export function formatBytes(n: number): string {
-  return n < 1024 ? `${n} B` : n < 1024 * 1024 ? `${(n / 1024).toFixed(0)} KB` : `${(n / 1024 / 1024).toFixed(1)} MB`
-}
+export { formatBytes } from '#shared/uploads'
 
 export { REQUEST_STATUS_LABELS as REQUEST_STATUS_TEXT, MILESTONE_STATE_LABELS as MILESTONE_STATE_TEXT, ORDER_STATUS_LABELS as ORDER_STATUS_TEXT } from '#shared/deals/constants'

@@ -6,10 +6,10 @@ import type { H3Event } from 'h3'
 import type { Role } from '#shared/domain'
 import { linkTokenSchema, passwordSignInSchema, type UnitSystem } from '#shared/schemas/auth'
 import { consumeLink, findUserByEmail, issueLink } from '../services/accounts'
+import { emails } from '../services/mail-templates'
+import { enqueueAfterResponse } from '../services/outbox'
 import { authOrigin, authSecret, clientAddress, loadAccount, siteOrigin } from '../utils/auth'
 import { useDb } from '../utils/db'
-import { sendMailLater } from '../utils/mail'
-import { emails } from './messages'
 import { SESSION_MAX_AGE_S, sessionCurrent, signInRefusal } from './policy'
 import { bucketKey, giveBackTokens, POLICIES, signInBuckets, takeTokens } from './rate-limit'
 
@@ -38,7 +38,7 @@ export function authOptions(event: H3Event): AuthConfig {
   async function noticePaused(email: string) {
     const notice = await takeTokens(db, [{ key: bucketKey.signInPausedNotice(email), policy: POLICIES.signInPausedNotice }])
     const user = await findUserByEmail(db, email)
-    if (notice.allowed && user && !user.suspendedAt) sendMailLater(event, { to: user.email, ...emails.signInPaused(user.name, `${siteOrigin(event)}/sign-in`) })
+    if (notice.allowed && user && !user.suspendedAt) enqueueAfterResponse(event, useDb(), { to: user.email, ...emails.signInPaused(user.name, `${siteOrigin(event)}/sign-in`) })
   }
 
   async function authorizePassword(raw: Partial<Record<string, unknown>>) {
@@ -58,7 +58,7 @@ export function authOptions(event: H3Event): AuthConfig {
     const refusal = signInRefusal(user)
     if (refusal === 'unverified') {
       const token = await issueLink(db, { userId: user.id, purpose: 'verify_email' })
-      sendMailLater(event, { to: user.email, ...emails.verify(user.name, `${siteOrigin(event)}/sign-in/link?token=${token}`) })
+      enqueueAfterResponse(event, useDb(), { to: user.email, ...emails.verify(user.name, `${siteOrigin(event)}/sign-in/link?token=${token}`) })
     }
     if (refusal) throw new SignInRefused(refusal)
     return { id: String(user.id), name: user.name, email: user.email, role: user.role, units: user.unitPreference, sessionVersion: user.sessionVersion }
@@ -73,7 +73,7 @@ export function authOptions(event: H3Event): AuthConfig {
     if (!outcome.ok) throw new SignInRefused(outcome.reason === 'invalid' ? 'link_invalid' : outcome.reason)
     await giveBackTokens(db, buckets)
     const { user } = outcome
-    if (outcome.previousEmail) sendMailLater(event, { to: outcome.previousEmail, ...emails.emailChanged(user.name, user.email) })
+    if (outcome.previousEmail) enqueueAfterResponse(event, useDb(), { to: outcome.previousEmail, ...emails.emailChanged(user.name, user.email) })
     return { id: String(user.id), name: user.name, email: user.email, role: user.role, units: user.unitPreference, sessionVersion: user.sessionVersion }
   }
 

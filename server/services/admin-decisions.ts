@@ -2,27 +2,26 @@ import { eq } from 'drizzle-orm'
 import type { DecisionResult } from '../../shared/types/admin'
 import { builds } from '../database/schema'
 import type { Database } from '../database/types'
-import type { OutgoingMail } from '../utils/mail'
-import { adminEmails } from './admin-mail'
+import { adminEmails, type RenderedMail } from './mail-templates'
+import { enqueueRendered } from './outbox'
 import { reindexBuildAfterAdminChange } from './build-events'
 import { unpublishListing } from './moderation'
 import { approvePull, rejectPull } from './verification'
 
-/** What an admin decision needs besides the database: where links in e-mails point, and how mail is sent. */
+/** What an admin decision needs besides the database: where links in e-mails point. */
 export interface AdminContext {
   db: Database
   siteUrl: string
-  send: (mail: OutgoingMail) => Promise<void>
 }
 
-/** Sends once the decision has committed; a failed send is logged and reported, never undoes the decision. */
-async function tell(ctx: AdminContext, mail: OutgoingMail): Promise<boolean> {
+/** Queues the mail in the outbox once the decision has committed; a failure is logged and reported, never undoes the decision. */
+async function tell(ctx: AdminContext, mail: { to: string } & RenderedMail): Promise<boolean> {
   try {
-    await ctx.send(mail)
+    await enqueueRendered(ctx.db, mail.to, mail)
     return true
   }
   catch (err) {
-    console.error(`[mail] could not send "${mail.subject}" to ${mail.to}: ${(err as Error).message}`)
+    console.error(`[mail] could not queue "${mail.subject}" for ${mail.to}: ${(err as Error).message}`)
     return false
   }
 }
@@ -35,7 +34,7 @@ export async function approveEvidence(ctx: AdminContext, actorId: number, pullId
   return { pullId, status: 'verified', buildSlug: build?.slug ?? '', mailed: null }
 }
 
-/** Rejects a pull, e-mails the reason to the shop, and brings the search index in step. */
+/** Rejects a pull, queues the reason's e-mail to the shop, and brings the search index in step. */
 export async function rejectEvidence(ctx: AdminContext, actorId: number, pullId: number, reason: string): Promise<DecisionResult> {
   const r = await rejectPull(ctx.db, { actorId, pullId, reason })
   await reindexBuildAfterAdminChange(r.buildId)
@@ -44,7 +43,7 @@ export async function rejectEvidence(ctx: AdminContext, actorId: number, pullId:
   return { pullId, status: 'rejected', buildSlug: r.buildSlug, mailed }
 }
 
-/** Takes a listing down, e-mails the reason to the shop, and takes it out of search. */
+/** Takes a listing down, queues the reason's e-mail to the shop, and takes it out of search. */
 export async function takeDownListing(ctx: AdminContext, actorId: number, buildId: number, reason: string): Promise<{ buildId: number, status: 'draft', mailed: boolean }> {
   const r = await unpublishListing(ctx.db, { actorId, buildId, reason })
   await reindexBuildAfterAdminChange(buildId)

@@ -1,11 +1,11 @@
 // Files sent with a deal: request attachments, message attachments, proof of work and delivery
-// pulls. The route reads, limits and sniffs the upload (server/utils/uploads.ts); here it is stored
+// pulls. The route reads and vets the upload (server/utils/files.ts); here it is stored
 // and recorded, attached once, and readable only by the parties of the request it belongs to.
 import { and, eq, inArray, isNull, or } from 'drizzle-orm'
-import type { Storage } from 'unstorage'
 import {
   deliveryPulls, files, milestoneProofs, milestones, orders, quoteRequests, requestAttachments, type StoredFile,
 } from '../database/schema'
+import { cleanName, type UploadStore } from '../utils/files'
 import { type DealActor, type Executor, requestVisibleTo, unprocessable } from './deal-context'
 
 export type DealFileKind = 'attachment' | 'photo' | 'proof' | 'pull'
@@ -18,9 +18,9 @@ export interface UploadedFile {
 }
 
 /** Stores an upload that was already limited and sniffed, and records it for its owner. */
-export async function storeDealFile(db: Executor, storage: Storage, ownerId: number, upload: { name: string, bytes: Buffer, mime: string, sha256: string, storageKey: string, kind: DealFileKind }): Promise<UploadedFile> {
+export async function storeDealFile(db: Executor, storage: UploadStore, ownerId: number, upload: { name: string, bytes: Buffer, mime: string, sha256: string, storageKey: string, kind: DealFileKind }): Promise<UploadedFile> {
   await storage.setItemRaw(upload.storageKey, upload.bytes)
-  const name = upload.name.replace(/[\\/\0]/g, '_').slice(0, 255) || 'file'
+  const name = cleanName(upload.name)
   const [row] = await db.insert(files).values({
     ownerId, kind: upload.kind, mime: upload.mime, sizeBytes: upload.bytes.byteLength, sha256: upload.sha256, storageKey: upload.storageKey, originalName: name,
   }).$returningId()

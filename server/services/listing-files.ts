@@ -1,25 +1,13 @@
-import { createError } from 'h3'
 import { inArray } from 'drizzle-orm'
 import { files, type StoredFile } from '../database/schema'
 import type { Database } from '../database/types'
 import { inRetriedTransaction } from '../utils/transaction'
-import { sha256, sniffUpload, storageKeyFor, UPLOAD_LIMITS, type UploadKind } from '../utils/uploads'
+import { cleanName, type IncomingFile, type UploadStore } from '../utils/files'
+import { sha256, storageKeyFor, type UploadKind } from '../utils/uploads'
 
-/** The part of Nitro's storage layer the listing editor uses (a plain unstorage instance in tests). */
-export interface UploadStore {
-  setItemRaw(key: string, value: Uint8Array): Promise<void>
-  getItemRaw(key: string): Promise<unknown>
-  removeItem(key: string): Promise<void>
-  hasItem(key: string): Promise<boolean>
-}
+export { cleanName, vetUpload, type IncomingFile, type UploadStore } from '../utils/files'
 
 export type Tx = Parameters<Parameters<Database['transaction']>[0]>[0]
-
-/** One uploaded file as the route read it. */
-export interface IncomingFile {
-  bytes: Buffer
-  name: string
-}
 
 /** A file checked and written to storage, waiting for its row. */
 export interface StagedFile {
@@ -29,25 +17,6 @@ export interface StagedFile {
   sha256: string
   storageKey: string
   originalName: string
-}
-
-const mb = (bytes: number) => `${(bytes / 1024 / 1024).toFixed(0)} MB`
-
-/** Size (413) and sniffed type (415) of one file, before anything is stored. Returns the sniffed MIME type. */
-export async function vetUpload(kind: UploadKind, file: IncomingFile, what: string): Promise<string> {
-  if (file.bytes.length === 0) throw createError({ status: 422, message: `The ${what} is empty.` })
-  if (file.bytes.length > UPLOAD_LIMITS[kind]) {
-    throw createError({ status: 413, message: `The ${what} is ${(file.bytes.length / 1024 / 1024).toFixed(1)} MB; the most it may be is ${mb(UPLOAD_LIMITS[kind])}.` })
-  }
-  return sniffUpload(kind, file.bytes)
-}
-
-/** A file name safe to keep for display: no folders, no control characters, at most 255 characters. */
-export function cleanName(name: string): string {
-  const base = name.split(/[\\/]/).pop() ?? ''
-  // eslint-disable-next-line no-control-regex -- control characters are what this strips
-  const clean = base.replace(/[\u0000-\u001f\u007f]/g, '').trim().slice(0, 255)
-  return clean || 'upload'
 }
 
 /** Writes a vetted file to storage under a fresh key; the caller inserts its row or calls `discard`. */

@@ -1,4 +1,6 @@
-// The deal e-mails, in Torquewright's own words, each as plain text and simple HTML.
+// Every e-mail of Torquewright in its own words, each as plain text and simple HTML: the account
+// mails (sign-up, sign-in links, address changes), an admin's decisions and the deal mails. Each is
+// queued in the outbox (services/outbox.ts), which sends it.
 import { formatCents } from '../../shared/money'
 import { VERIFICATION } from '../../shared/vocabulary'
 import { escapeHtml } from '../../shared/text/html'
@@ -36,18 +38,21 @@ interface Footer {
   link?: { label: string, href: string }
 }
 
-function layout(paragraphs: string[], action: { label: string, link: string }, footer: Footer = DEAL_FOOTER): { text: string, html: string } {
-  const footerText = footer.link ? `${footer.text}\n${footer.link.label}: ${footer.link.href}` : footer.text
-  const footerHtml = footer.link
-    ? `${escapeHtml(footer.text)} <a href="${escapeHtml(footer.link.href)}" style="color:${INK}">${escapeHtml(footer.link.label)}</a>`
-    : escapeHtml(footer.text)
-  const text = `${paragraphs.join('\n\n')}\n\n${action.label}: ${action.link}\n\n— Torquewright\n${footerText}`
+/** The one layout of every e-mail: paragraphs, an optional button link, the signature and a note under it. */
+function layout(paragraphs: string[], action: { label: string, link: string } | null, footer: Footer | null = DEAL_FOOTER): { text: string, html: string } {
+  const footerText = !footer ? '' : footer.link ? `${footer.text}\n${footer.link.label}: ${footer.link.href}` : footer.text
+  const footerHtml = !footer
+    ? ''
+    : footer.link
+      ? `${escapeHtml(footer.text)} <a href="${escapeHtml(footer.link.href)}" style="color:${INK}">${escapeHtml(footer.link.label)}</a>`
+      : escapeHtml(footer.text)
+  const text = [paragraphs.join('\n\n'), ...(action ? [`${action.label}: ${action.link}`] : []), `— Torquewright${footerText ? `\n${footerText}` : ''}`].join('\n\n')
   const html = `<!doctype html><html><body style="margin:0;background:${PAPER};font-family:Manrope,Arial,sans-serif;color:${INK}">
 <div style="max-width:560px;margin:0 auto;padding:28px 24px">
 <p style="font-weight:800;font-size:18px;margin:0 0 18px">Torquewright</p>
 ${paragraphs.map(p => `<p style="font-size:15px;line-height:1.55;margin:0 0 14px">${escapeHtml(p)}</p>`).join('\n')}
-<p style="margin:22px 0"><a href="${escapeHtml(action.link)}" style="background:${COPPER};color:white;padding:10px 18px;border-radius:999px;text-decoration:none;font-weight:700">${escapeHtml(action.label)}</a></p>
-<p style="font-size:12px;color:${INK};opacity:.6">${footerHtml}</p>
+${action ? `<p style="margin:22px 0"><a href="${escapeHtml(action.link)}" style="background:${COPPER};color:white;padding:10px 18px;border-radius:999px;text-decoration:none;font-weight:700">${escapeHtml(action.label)}</a></p>` : ''}
+${footerHtml ? `<p style="font-size:12px;color:${INK};opacity:.6">${footerHtml}</p>` : ''}
 </div></body></html>`
   return { text, html }
 }
@@ -171,4 +176,93 @@ export function renderSavedSearchMail(mail: SavedSearchMail): RenderedMail {
     text: 'You get this e-mail because you saved this search with e-mail on. Rename it, turn its e-mail off or delete it on your account page.',
     link: { label: 'Manage saved searches', href: mail.manageLink },
   }) }
+}
+
+/** An account or admin e-mail: a greeting, paragraphs, an optional link and note, signed. */
+export function compose(subject: string, greeting: string, paragraphs: string[], action?: { label: string, url: string }, footer?: string): RenderedMail {
+  return { subject, ...layout([greeting, ...paragraphs], action ? { label: action.label, link: action.url } : null, footer ? { text: footer } : null) }
+}
+
+const IGNORE = 'If you did not ask for this, ignore this e-mail: nothing changes until the link is used.'
+
+export const emails = {
+  verify: (name: string, url: string): RenderedMail => compose(
+    'Confirm your e-mail for Torquewright',
+    `Hello ${name},`,
+    ['Confirm this address to finish setting up your Torquewright account. The link works once, for 24 hours, and signs you in.'],
+    { label: 'Confirm my e-mail', url },
+    IGNORE,
+  ),
+  signInLink: (name: string, url: string): RenderedMail => compose(
+    'Your Torquewright sign-in link',
+    `Hello ${name},`,
+    ['Here is the sign-in link you asked for. It works once, for 20 minutes.'],
+    { label: 'Sign in to Torquewright', url },
+    IGNORE,
+  ),
+  alreadyRegistered: (name: string, signInUrl: string): RenderedMail => compose(
+    'You already have a Torquewright account',
+    `Hello ${name},`,
+    ['Someone, probably you, tried to sign up with this e-mail address, which already has an account. No second account was made.',
+      'If you forgot your password, ask for an e-mailed sign-in link on the sign-in page, then set a new password on your account page.'],
+    { label: 'Go to sign-in', url: signInUrl },
+  ),
+  changeEmail: (name: string, url: string): RenderedMail => compose(
+    'Confirm your new e-mail for Torquewright',
+    `Hello ${name},`,
+    ['Confirm that your Torquewright account should use this address from now on. The link works once, for an hour, and signs you in.'],
+    { label: 'Use this address', url },
+    IGNORE,
+  ),
+  emailInUse: (signInUrl: string): RenderedMail => compose(
+    'A Torquewright account wanted this address',
+    'Hello,',
+    ['Someone asked to move another Torquewright account to this e-mail address, which already has an account of its own. Nothing was changed.'],
+    { label: 'Go to sign-in', url: signInUrl },
+  ),
+  signInPaused: (name: string, signInUrl: string): RenderedMail => compose(
+    'Password sign-in to your Torquewright account is paused',
+    `Hello ${name},`,
+    ['Many wrong passwords for your account arrived from different places within the last hour, so sign-in by password is paused for now. Nobody signed in with them. Password sign-in comes back by itself within the hour after the wrong attempts stop.',
+      'An e-mailed sign-in link still works meanwhile: ask for one on the sign-in page. If the wrong passwords were not yours, consider setting a new, longer password once signed in.'],
+    { label: 'Sign in with an e-mailed link', url: signInUrl },
+  ),
+  emailChanged: (name: string, newEmail: string): RenderedMail => compose(
+    'Your Torquewright e-mail address was changed',
+    `Hello ${name},`,
+    [`Your account now signs in with ${newEmail}. If you did not make this change, reply to this e-mail at once.`],
+  ),
+}
+
+/** The e-mails an admin's decision sends, as plain text with a simple HTML twin. */
+export const adminEmails = {
+  pullRejected: (m: { name: string, pullLabel: string, buildTitle: string, reason: string, dashboardUrl: string }): RenderedMail => compose(
+    `Dyno pull ${VERIFICATION.rejected.toLowerCase()}: ${m.pullLabel}`,
+    `Hello ${m.name},`,
+    [
+      `An admin reviewed the pull "${m.pullLabel}" on your listing "${m.buildTitle}" and could not verify it as evidence. The reason:`,
+      m.reason,
+      'The pull no longer counts towards the listing. Upload a corrected pull (the raw file from the dyno, with the weather of the day) from your shop dashboard; a new upload runs the automatic checks and awaits verification afresh.',
+    ],
+    { label: 'Open your shop dashboard', url: m.dashboardUrl },
+  ),
+  pullVerified: (m: { name: string, pullLabel: string, buildTitle: string, buildUrl: string }): RenderedMail => compose(
+    `Dyno pull verified: ${m.pullLabel}`,
+    `Hello ${m.name},`,
+    [
+      `An admin compared the pull "${m.pullLabel}" on your listing "${m.buildTitle}" with its raw file, weather and correction standard, and verified it.`,
+      'The listing carries the verified mark, and its figures now count in search and in your shop\'s record. Racers who saved a search this build matches are told about it.',
+    ],
+    { label: 'Open the listing', url: m.buildUrl },
+  ),
+  listingUnpublished: (m: { name: string, buildTitle: string, reason: string, dashboardUrl: string }): RenderedMail => compose(
+    `Your listing was taken down: ${m.buildTitle}`,
+    `Hello ${m.name},`,
+    [
+      `We took your listing "${m.buildTitle}" off the public site. The reason:`,
+      m.reason,
+      'It is a draft again and nothing in it was deleted. Put right what the reason says, then publish it again from your shop dashboard.',
+    ],
+    { label: 'Open your shop dashboard', url: m.dashboardUrl },
+  ),
 }

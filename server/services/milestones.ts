@@ -4,7 +4,7 @@
 // milestone and checks the current state first, so nothing is released or refunded twice.
 import { and, asc, desc, eq, inArray, isNotNull, lte } from 'drizzle-orm'
 import { isError } from 'h3'
-import type { Storage } from 'unstorage'
+import { readStored, type UploadStore } from '../utils/files'
 import { blockingMilestone, MILESTONE_STATE_LABELS } from '../../shared/deals/constants'
 import { evaluateDelivery } from '../../shared/deals/delivery'
 import { formatCents } from '../../shared/money'
@@ -41,16 +41,16 @@ async function guaranteeOf(tx: DbTransaction, order: Order) {
  * quoted standard with shared/engine, runs the evidence checks (including whether the same curve is
  * already on a listing), and checks the request's displacement cap and the guarantee.
  */
-export async function recordDeliveryPull(ctx: DealContext, storage: Storage, actor: DealActor, milestoneId: number, fileId: number, fields: DeliveryPullFields) {
+export async function recordDeliveryPull(ctx: DealContext, storage: UploadStore, actor: DealActor, milestoneId: number, fileId: number, fields: DeliveryPullFields) {
   return inRetriedTransaction(ctx.db, async (tx) => {
     const { order, milestone } = await lockMilestone(tx, milestoneId)
     if (assertParty(actor, order) !== 'builder') throw forbidden('Only the shop sends a delivery pull.')
     if (milestone.state !== 'funded') throw conflict(`A delivery pull goes with a funded milestone before it is submitted; this one is ${milestone.state}.`)
     await claimFiles(tx, actor.id, [fileId], ['pull', 'attachment'])
     const [file] = await tx.select().from(files).where(eq(files.id, fileId)).limit(1)
-    const raw = await storage.getItemRaw(file!.storageKey)
+    const raw = await readStored(storage, file!.storageKey)
     if (!raw) throw unprocessable('The pull file could not be read back; upload it again.')
-    const parsed = parsePull(raw instanceof Uint8Array ? raw : new Uint8Array(raw as ArrayBuffer))
+    const parsed = parsePull(new Uint8Array(raw))
     if (!parsed.ok) throw unprocessable(`The pull file does not read as a dyno pull: ${parsed.errors.slice(0, 3).map(e => (e.row ? `row ${e.row}: ${e.message}` : e.message)).join('; ')}`)
     if (!isCorrectionStandard(fields.declaredStandard)) throw unprocessable('Pick one of the correction standards in the list.')
     const [request] = await tx.select().from(quoteRequests).where(eq(quoteRequests.id, order.requestId)).limit(1)

@@ -51,6 +51,16 @@ export async function enqueueMail(tx: Executor, to: string, mail: DealMail, dedu
   await enqueueRendered(tx, to, renderDealMail(mail), dedupeKey)
 }
 
+/**
+ * Queues a mail after the response has gone: where how long the answer takes must not tell whether an
+ * address is registered (sign-up, sign-in links, address changes). A failure is logged, never shown to
+ * the caller; the drainer sends it as it sends every other mail.
+ */
+export function enqueueAfterResponse(event: { waitUntil?: (p: Promise<unknown>) => void }, db: Executor, mail: { to: string } & RenderedMail): void {
+  const queued = enqueueRendered(db, mail.to, mail).catch((err: Error) => console.error(`[mail] could not queue "${mail.subject}" for ${mail.to}: ${err.message}`))
+  if (event.waitUntil) event.waitUntil(queued)
+}
+
 /** Queues one e-mail already rendered; a repeated dedupe key queues nothing. */
 export async function enqueueRendered(tx: Executor, to: string, rendered: RenderedMail, dedupeKey: string | null = null): Promise<void> {
   if (!to) return

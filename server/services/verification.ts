@@ -11,7 +11,7 @@ import type { DuplicateLink, EvidenceQueueItem, EvidenceReview, PeakFigures } fr
 import { builderProfiles, builds, dynoPulls, files, users, type Build, type DynoPull } from '../database/schema'
 import type { Database } from '../database/types'
 import { inRetriedTransaction } from '../utils/transaction'
-import { adminEmails } from './admin-mail'
+import { adminEmails } from './mail-templates'
 import { writeAudit } from './audit'
 import { enqueueRendered } from './outbox'
 import { refreshHeadline } from './headline'

@@ -1,7 +1,7 @@
 import type { H3Event } from 'h3'
 import type { AdminContext } from '../services/admin-decisions'
 
-/** The database, the site's address for links in e-mails, and the mail sender, for an admin decision. */
+/** The database and the site's address for links in e-mails, for an admin decision. */
 export function adminContext(event: H3Event): AdminContext {
-  return { db: useDb(), siteUrl: siteOrigin(event), send: sendMail }
+  return { db: useDb(), siteUrl: siteOrigin(event) }
 }

@@ -30,16 +30,7 @@ function useTransport(): Transporter {
   return transport
 }
 
-/** Sends one message from the configured sender; rejects when the SMTP server refuses it. */
+/** Sends one message from the configured sender; rejects when the SMTP server refuses it. Only the outbox's drainer calls it: every mail is queued in the outbox (server/services/outbox.ts). */
 export async function sendMail({ to, subject, text, html, messageId }: OutgoingMail): Promise<void> {
   await useTransport().sendMail({ from: useRuntimeConfig().mailFrom, to, subject, text, html, ...(messageId ? { messageId } : {}) })
-}
-
-/**
- * Sends after the response has gone: used where how long the answer takes must not tell whether
- * an address is registered. A failure is logged, never shown to the caller.
- */
-export function sendMailLater(event: { waitUntil?: (p: Promise<unknown>) => void }, mail: OutgoingMail): void {
-  const sending = sendMail(mail).catch((err: Error) => console.error(`[mail] could not send "${mail.subject}" to ${mail.to}: ${err.message}`))
-  if (event.waitUntil) event.waitUntil(sending)
 }

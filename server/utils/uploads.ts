@@ -2,7 +2,7 @@ import { createHash, randomUUID } from 'node:crypto'
 import type { IncomingMessage } from 'node:http'
 import { createError, getRequestHeader, type H3Event } from 'h3'
 import { fileTypeFromBuffer } from 'file-type'
-import { UPLOAD_LIMITS, type UploadKind } from '../../shared/uploads'
+import { UPLOAD_LIMITS, type UploadKind, wholeMegabytes as mb } from '../../shared/uploads'
 
 export { UPLOAD_LIMITS, type UploadKind }
 
@@ -14,8 +14,6 @@ const ALLOWED: Record<UploadKind, string[]> = {
   attachment: ['image/png', 'image/jpeg', 'image/webp', 'application/pdf', 'text/csv'],
   proof: ['image/png', 'image/jpeg', 'image/webp', 'application/pdf', 'text/csv'],
 }
-
-const mb = (bytes: number) => `${(bytes / 1024 / 1024).toFixed(0)} MB`
 
 /**
  * Routes that read their own request body, each with its own limit: the uploads (UPLOAD_LIMITS, checked

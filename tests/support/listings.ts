@@ -10,7 +10,7 @@ import { seededRandom } from '../../shared/random'
 import * as schema from '../../server/database/schema'
 import type { Database } from '../../server/database/types'
 import { deleteBuild } from '../../server/services/listing-editor'
-import type { UploadStore } from '../../server/services/listing-files'
+import type { UploadStore } from '../../server/utils/files'
 import type { PullMeta } from '../../shared/schemas/build'
 
 type Db = MySql2Database<typeof schema>

@@ -1,5 +1,6 @@
 import { linkRequestSchema } from '#shared/schemas/auth'
-import { emails } from '../../auth/messages'
+import { emails } from '../../services/mail-templates'
+import { enqueueAfterResponse } from '../../services/outbox'
 import { bucketKey, POLICIES, takeTokens } from '../../auth/rate-limit'
 import { findUserByEmail, issueLink } from '../../services/accounts'
 
@@ -22,7 +23,7 @@ export default defineEventHandler(async (event) => {
     const token = await issueLink(db, { userId: user.id, purpose: 'sign_in' })
     // The page the person was on comes back with the link (a path on this site only, checked by the schema).
     const back = next ? `&next=${encodeURIComponent(next)}` : ''
-    sendMailLater(event, { to: user.email, ...emails.signInLink(user.name, `${siteOrigin(event)}/sign-in/link?token=${token}${back}`) })
+    enqueueAfterResponse(event, useDb(), { to: user.email, ...emails.signInLink(user.name, `${siteOrigin(event)}/sign-in/link?token=${token}${back}`) })
   }
   setResponseStatus(event, 202)
   return { message: `If ${email} has an account, a sign-in link is on its way. It works once, for 20 minutes.` }

@@ -1,6 +1,7 @@
 import { hash } from '@node-rs/argon2'
 import { signUpSchema } from '#shared/schemas/auth'
-import { emails } from '../../auth/messages'
+import { emails } from '../../services/mail-templates'
+import { enqueueAfterResponse } from '../../services/outbox'
 import { bucketKey, POLICIES, takeTokens } from '../../auth/rate-limit'
 import { createAccount, findUserByEmail, issueLink } from '../../services/accounts'
 
@@ -19,11 +20,11 @@ export default defineEventHandler(async (event) => {
   const origin = siteOrigin(event)
   if (result.created) {
     const token = await issueLink(db, { userId: result.userId, purpose: 'verify_email' })
-    sendMailLater(event, { to: input.email, ...emails.verify(input.name, `${origin}/sign-in/link?token=${token}`) })
+    enqueueAfterResponse(event, useDb(), { to: input.email, ...emails.verify(input.name, `${origin}/sign-in/link?token=${token}`) })
   }
   else {
     const existing = await findUserByEmail(db, input.email)
-    sendMailLater(event, { to: input.email, ...emails.alreadyRegistered(existing?.name ?? input.name, `${origin}/sign-in`) })
+    enqueueAfterResponse(event, useDb(), { to: input.email, ...emails.alreadyRegistered(existing?.name ?? input.name, `${origin}/sign-in`) })
   }
   setResponseStatus(event, 202)
   return { message: `Check your inbox at ${input.email}: we sent a link to confirm the address. It works once, for 24 hours.` }

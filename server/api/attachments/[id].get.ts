@@ -7,13 +7,5 @@ export default defineEventHandler(async (event) => {
   const { id } = await getValidatedRouterParams(event, validator(idParams))
   const file = await readableFile(useDb(), actor, id)
   if (!file) throw createError({ status: 404, message: 'That file was not found, or it is not yours to see.' })
-  const data = await useStorage('uploads').getItemRaw(file.storageKey)
-  if (data === null || data === undefined) throw createError({ status: 404, message: 'That file is missing from storage.' })
-  setResponseHeaders(event, {
-    'content-type': file.mime,
-    'content-disposition': attachmentDisposition(file.originalName),
-    'x-content-type-options': 'nosniff',
-    'cache-control': 'private, no-store',
-  })
-  return Buffer.from(data as Uint8Array)
+  return sendStoredDownload(event, { storageKey: file.storageKey, name: file.originalName, mime: file.mime }, { cacheControl: 'private, no-store', charset: false })
 })

@@ -1,5 +1,6 @@
 import { emailChangeSchema } from '#shared/schemas/auth'
-import { emails } from '../../auth/messages'
+import { emails } from '../../services/mail-templates'
+import { enqueueAfterResponse } from '../../services/outbox'
 import { bucketKey, POLICIES, takeTokens } from '../../auth/rate-limit'
 import { findUserByEmail, issueLink } from '../../services/accounts'
 
@@ -20,11 +21,11 @@ export default defineEventHandler(async (event) => {
   if (!limit.allowed) throw createError({ status: 429, message: 'Too many links asked for: wait a few minutes and try again.' })
   const origin = siteOrigin(event)
   if (await findUserByEmail(db, email)) {
-    sendMailLater(event, { to: email, ...emails.emailInUse(`${origin}/sign-in`) })
+    enqueueAfterResponse(event, useDb(), { to: email, ...emails.emailInUse(`${origin}/sign-in`) })
   }
   else {
     const token = await issueLink(db, { userId: user.id, purpose: 'change_email', newEmail: email })
-    sendMailLater(event, { to: email, ...emails.changeEmail(user.name, `${origin}/sign-in/link?token=${token}`) })
+    enqueueAfterResponse(event, useDb(), { to: email, ...emails.changeEmail(user.name, `${origin}/sign-in/link?token=${token}`) })
   }
   setResponseStatus(event, 202)
   return { message: `We sent a confirmation link to ${email}. Your account moves to it when you use the link.` }

@@ -9,5 +9,5 @@ export default defineEventHandler(async (event) => {
   const { actor } = await requireMilestoneAccess(event, id, 'builder')
   const { fileId, ...fields } = await readValidatedBody(event, validator(deliveryPullSchema))
   setResponseStatus(event, 201)
-  return recordDeliveryPull(useDealContext(), useStorage('uploads'), actor, id, fileId, fields)
+  return recordDeliveryPull(useDealContext(), uploadStore(), actor, id, fileId, fields)
 })
