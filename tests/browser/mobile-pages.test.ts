@@ -277,7 +277,8 @@ describe('the charts without a mouse', () => {
     await figures.locator('summary').focus()
     await page.keyboard.press('Enter')
     expect(await figures.evaluate(el => (el as HTMLDetailsElement).open)).toBe(true)
-    expect(await figures.locator('table').first().locator('tbody tr').count()).toBeGreaterThan(10)
+    // The tables are drawn when the disclosure opens.
+    await expect.poll(() => figures.locator('table').first().locator('tbody tr').count()).toBeGreaterThan(10)
     expect(await scrollWidth()).toBeLessThanOrEqual(PHONE.width)
   })
 })
