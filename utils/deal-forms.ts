@@ -38,6 +38,22 @@ export function issuesByField(issues: { path: PropertyKey[], message: string }[]
   return out
 }
 
+/** One column of a quote's editable rows (components/deal/DealRowsEditor.vue). */
+export interface RowColumn<K extends string = string> {
+  key: K
+  /** The column's heading (and the field's own heading on a phone). */
+  heading: string
+  /** The field's name before ", line 2". */
+  label: string
+  /** Grid spans of the field: phone (of 6) and sm up (of 12), as whole class names. */
+  cell: string
+  /** The heading's span from sm up. */
+  head: string
+  placeholder?: string
+  inputmode?: 'numeric' | 'decimal'
+  type?: string
+}
+
 export interface LineDraft { category: string, description: string, partNumber: string, quantity: string, unitPrice: string }
 export interface MilestoneDraft { title: string, deliverable: string, amount: string, dueDate: string, percent: string }
 export interface GuaranteeDraft { enabled: boolean, hp: string, tolerancePct: string, standard: string }
