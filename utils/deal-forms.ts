@@ -3,7 +3,9 @@ import { parseMoney } from '#shared/money'
 
 /** The request form as typed (every field text), and how it becomes the route's body. */
 export interface TargetFields { targetHp: string, targetTq: string, targetStandard: string, displacementCapCi: string }
-export interface DrivetrainFields { fuel: string, aspiration: string, intendedUse: string, transmission: string, stallRpm: string, shiftRpm: string }
+/** The transmission and the rpm band it gives (launch or converter stall, then shift), as typed; the class rules and a request share it. */
+export interface DriveBandFields { transmission: string, launchRpm: string, stallRpm: string, shiftRpm: string }
+export interface DrivetrainFields extends DriveBandFields { fuel: string, aspiration: string, intendedUse: string }
 export interface BudgetFields { budgetMin: string, budgetMax: string, deadline: string, title: string, notes: string }
 
 const num = (s: string) => (s.trim() === '' ? null : Number(s.replace(/,/g, '')))
@@ -19,6 +21,7 @@ export function requestBody(builder: string, build: string | undefined, t: Targe
     builder, build, title: b.title, notes: b.notes, deadline: b.deadline || null, attachmentIds,
     targetHp: num(t.targetHp), targetTq: num(t.targetTq), targetStandard: t.targetStandard, displacementCapCi: num(t.displacementCapCi),
     fuel: d.fuel, aspiration: d.aspiration, intendedUse: d.intendedUse, transmission: d.transmission,
+    launchRpm: d.transmission === 'automatic' ? null : num(d.launchRpm),
     stallRpm: d.transmission === 'automatic' ? num(d.stallRpm) : null, shiftRpm: num(d.shiftRpm),
     budgetMinCents: min.ok ? min.cents : 0, budgetMaxCents: max.ok ? max.cents : 0,
   }
@@ -33,6 +36,22 @@ export function issuesByField(issues: { path: PropertyKey[], message: string }[]
     out[key] ??= i.message
   }
   return out
+}
+
+/** One column of a quote's editable rows (components/deal/DealRowsEditor.vue). */
+export interface RowColumn<K extends string = string> {
+  key: K
+  /** The column's heading (and the field's own heading on a phone). */
+  heading: string
+  /** The field's name before ", line 2". */
+  label: string
+  /** Grid spans of the field: phone (of 6) and sm up (of 12), as whole class names. */
+  cell: string
+  /** The heading's span from sm up. */
+  head: string
+  placeholder?: string
+  inputmode?: 'numeric' | 'decimal'
+  type?: string
 }
 
 export interface LineDraft { category: string, description: string, partNumber: string, quantity: string, unitPrice: string }

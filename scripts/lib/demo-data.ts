@@ -1,6 +1,8 @@
 // The invented demo scenario: shops, people, builds and dyno curves that exist nowhere else.
 // Every curve comes from a smooth parametric torque model with a little noise.
+import type { Aspiration, Fuel, Use } from '../../shared/domain'
 import { seededRandom, type Random } from '../../shared/random'
+import type { PublishableBuild } from '../../shared/schemas/build'
 
 export const DEMO_PASSWORD = 'torque-demo-2026'
 
@@ -16,9 +18,6 @@ export interface DemoShop {
   aspirations: Aspiration[]
 }
 
-type Aspiration = 'na' | 'turbo' | 'supercharged' | 'nitrous'
-type Fuel = 'pump_gas' | 'race_gas' | 'e85' | 'methanol'
-type Use = 'drag' | 'road_course' | 'street_strip' | 'off_road' | 'marine' | 'street'
 type FamilyKey = 'small_block' | 'big_block' | 'dohc_v8' | 'inline_six' | 'tall_deck'
 
 interface Family {
@@ -122,37 +121,13 @@ export interface DemoPull {
   copiedFrom?: string
 }
 
-export interface DemoBuild {
+/**
+ * A demo listing: the combination exactly as the publish schema holds it (shared/schemas/build.ts, so a
+ * new combination field is asked for here too), and what the seed needs besides.
+ */
+export type DemoBuild = PublishableBuild & {
   shopSlug: string
   slug: string
-  title: string
-  summary: string
-  engineFamily: string
-  cylinders: number
-  boreIn: number
-  strokeIn: number
-  rodLengthIn: number
-  cylinderHeads: string
-  chamberCc: number
-  pistonCc: number
-  gasketBoreIn: number
-  gasketThicknessIn: number
-  deckClearanceIn: number
-  camIntakeDurationDeg: number
-  camExhaustDurationDeg: number
-  camIntakeLiftIn: number
-  camExhaustLiftIn: number
-  camLobeSeparationDeg: number
-  camIntakeCenterlineDeg: number
-  intakeManifold: string
-  throttleBody: string
-  injectorSizeLbHr: number | null
-  injectorCount: number | null
-  fuel: Fuel
-  aspiration: Aspiration
-  engineManagement: string
-  intendedUse: Use
-  priceCents: number
   publishedDaysAgo: number
   parts: { category: string, part: string, partNumber: string, quantity: number, unitPriceCents: number }[]
   pulls: DemoPull[]

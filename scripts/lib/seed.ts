@@ -7,6 +7,7 @@ import { createStorage } from 'unstorage'
 import fsDriver from 'unstorage/drivers/fs'
 import { mariadbStorage } from '../../server/utils/mariadb-storage'
 import { headlinePull } from '../../shared/pulls/headline'
+import { buildPublishSchema } from '../../shared/schemas/build'
 import { evaluatePull } from '../../shared/pulls/evaluate'
 import type { EvidenceCheck } from '../../shared/engine/types'
 import type { PullSummaryFigures } from '../../shared/pulls/summary'
@@ -100,9 +101,11 @@ export async function seedDemo(opts: { url: string, uploadsDir: string, uploadsD
         ? new Date(Date.now() - submittedHoursAgo[submittedBuilds++ % submittedHoursAgo.length]! * 3_600_000)
         : undefined
       await db.transaction(async (tx) => {
-        const { shopSlug: _shop, parts, pulls: _pulls, publishedDaysAgo: _days, ...columns } = b
+        // The combination's columns are what the publish schema holds, checked as a publish checks them.
+        const columns = buildPublishSchema.parse(b)
         const [row] = await tx.insert(builds).values({
           ...columns,
+          slug: b.slug,
           builderId: shop.profileId,
           status: 'published',
           publishedAt,
@@ -114,7 +117,7 @@ export async function seedDemo(opts: { url: string, uploadsDir: string, uploadsD
         }).$returningId()
         const buildId = row!.id
         for (const r of pullRows) fingerprints.push({ buildId, fingerprint: r.fingerprint })
-        await tx.insert(buildParts).values(parts.map((p, position) => ({ ...p, buildId, position })))
+        await tx.insert(buildParts).values(b.parts.map((p, position) => ({ ...p, buildId, position })))
         for (const r of pullRows) {
           const [file] = await tx.insert(files).values({
             ownerId: shop.userId, kind: 'pull', mime: 'text/csv', sizeBytes: r.size, sha256: r.sha256, storageKey: r.storageKey, originalName: `${b.slug}.csv`,

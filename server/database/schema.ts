@@ -295,6 +295,8 @@ export const quoteRequests = mysqlTable('quote_requests', {
   aspiration: mysqlEnum('aspiration', ASPIRATIONS).notNull(),
   intendedUse: mysqlEnum('intended_use', USES).notNull(),
   transmission: mysqlEnum('transmission', transmissions).notNull(),
+  /** A car without a converter: the rpm it leaves the line at (from the racer's class rules, or typed). */
+  launchRpm: int('launch_rpm', { unsigned: true }),
   stallRpm: int('stall_rpm', { unsigned: true }),
   shiftRpm: int('shift_rpm', { unsigned: true }),
   budgetMinCents: cents('budget_min_cents').notNull(),

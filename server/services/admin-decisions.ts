@@ -1,18 +1,14 @@
 import { eq } from 'drizzle-orm'
 import type { DecisionResult } from '../../shared/types/admin'
 import { builds } from '../database/schema'
-import type { Database } from '../database/types'
+import type { AdminContext } from '../utils/admin'
 import { adminEmails, type RenderedMail } from './mail-templates'
 import { enqueueRendered } from './outbox'
 import { reindexBuildAfterAdminChange } from './build-events'
 import { unpublishListing } from './moderation'
 import { approvePull, rejectPull } from './verification'
 
-/** What an admin decision needs besides the database: where links in e-mails point. */
-export interface AdminContext {
-  db: Database
-  siteUrl: string
-}
+export type { AdminContext } from '../utils/admin'
 
 /** Queues the mail in the outbox once the decision has committed; a failure is logged and reported, never undoes the decision. */
 async function tell(ctx: AdminContext, mail: { to: string } & RenderedMail): Promise<boolean> {

@@ -1,55 +1,12 @@
 // What every deal service is given (database, Stripe client, settings, clock), who is acting, and
 // the small helpers they share. Services take this context as a parameter so the tests can call
 // them against the real test database and the running payments fake.
-import { eq, or, sql, type SQL } from 'drizzle-orm'
+import { eq } from 'drizzle-orm'
 import { createError } from 'h3'
-import type Stripe from 'stripe'
-import type { Role } from '../../shared/domain'
 import { builderProfiles, dealEvents, quoteRequests, users } from '../database/schema'
-import type { Database } from '../database/types'
+import type { DealActor, Executor } from '../utils/deal-scope'
 
-export type DbTransaction = Parameters<Parameters<Database['transaction']>[0]>[0]
-export type Executor = Database | DbTransaction
-
-export interface DealConfig {
-  /** The platform's fee in basis points of a quote's total (500 = 5 %), deducted from the shop's payouts. */
-  platformFeeBps: number
-  /** Days after a submission when a milestone the racer has not answered is approved on its own. */
-  autoApproveDays: number
-  /** The app's public address, for links in e-mails and Checkout's return addresses. */
-  siteUrl: string
-}
-
-export interface DealContext {
-  db: Database
-  stripe: Stripe
-  config: DealConfig
-  now: () => Date
-}
-
-/** The signed-in user as the deal services see them: their id, role and, for a builder, their shop. */
-export interface DealActor {
-  id: number
-  role: Role
-  email: string
-  name: string
-  builderId: number | null
-}
-
-/** Loads the acting user with their shop, or null when there is no such user (or they are suspended). */
-export async function loadActor(db: Executor, userId: number): Promise<DealActor | null> {
-  const [row] = await db.select({ user: users, builderId: builderProfiles.id }).from(users)
-    .leftJoin(builderProfiles, eq(builderProfiles.userId, users.id))
-    .where(eq(users.id, userId)).limit(1)
-  if (!row || row.user.suspendedAt) return null
-  return { id: row.user.id, role: row.user.role, email: row.user.email, name: row.user.name, builderId: row.builderId ?? null }
-}
-
-/** The condition that limits quote requests to those the actor is a party to (admins see all). */
-export function requestVisibleTo(actor: DealActor): SQL {
-  if (actor.role === 'admin') return sql`1 = 1`
-  return or(eq(quoteRequests.racerId, actor.id), actor.builderId === null ? sql`1 = 0` : eq(quoteRequests.builderId, actor.builderId))!
-}
+export { loadActor, requestVisibleTo, type DbTransaction, type DealActor, type DealConfig, type DealContext, type Executor } from '../utils/deal-scope'
 
 export const notFound = (what: string) => createError({ status: 404, message: `${what} was not found, or it is not yours to see.` })
 export const forbidden = (message: string) => createError({ status: 403, message })

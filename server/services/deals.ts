@@ -48,7 +48,7 @@ export async function createRequest(ctx: DealContext, actor: DealActor, input: Q
     const [row] = await tx.insert(quoteRequests).values({
       racerId: actor.id, builderId: shop.id, buildId, title: input.title, targetHp: input.targetHp, targetTq: input.targetTq,
       targetStandard: input.targetStandard, displacementCapCi: input.displacementCapCi, fuel: input.fuel, aspiration: input.aspiration,
-      intendedUse: input.intendedUse, transmission: input.transmission, stallRpm: input.stallRpm, shiftRpm: input.shiftRpm,
+      intendedUse: input.intendedUse, transmission: input.transmission, launchRpm: input.launchRpm, stallRpm: input.stallRpm, shiftRpm: input.shiftRpm,
       budgetMinCents: input.budgetMinCents, budgetMaxCents: input.budgetMaxCents, deadline: input.deadline, notes: input.notes,
       lastMessageAt: now, createdAt: now,
     }).$returningId()
@@ -262,6 +262,7 @@ export async function getRequestView(ctx: DealContext, actor: DealActor, request
     aspiration: request.aspiration,
     intendedUse: request.intendedUse,
     transmission: request.transmission,
+    launchRpm: request.launchRpm,
     stallRpm: request.stallRpm,
     shiftRpm: request.shiftRpm,
     budgetMinCents: request.budgetMinCents,

@@ -1,7 +1,7 @@
 import { and, eq } from 'drizzle-orm'
 import type { H3Event } from 'h3'
 import { milestones, orders, quoteRequests, quotes } from '../database/schema'
-import { type DealActor, loadActor, requestVisibleTo } from '../services/deal-context'
+import { type DealActor, loadActor, requestVisibleTo } from './deal-scope'
 
 type Side = 'racer' | 'builder'
 

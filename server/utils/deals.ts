@@ -1,5 +1,5 @@
 import type Stripe from 'stripe'
-import type { DealContext } from '../services/deal-context'
+import type { DealContext } from './deal-scope'
 import { createStripeClient } from './stripe'
 
 let stripe: Stripe | undefined

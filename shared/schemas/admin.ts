@@ -3,10 +3,20 @@ import { idSchema, paginationQuery } from './common'
 
 /** Request shapes of the admin routes; the admin pages validate with these same schemas. */
 
+/**
+ * Who reads an admin's reason, and what it is for them: a shop fixes its pull or listing; the racer
+ * whose review is hidden learns why.
+ */
+export const REASON_READERS = {
+  shop: 'so the shop knows what to fix',
+  reviewer: 'so the racer who wrote it knows why',
+} as const
+export type ReasonReader = keyof typeof REASON_READERS
+
 /** A reason the other party will read: long enough to act on, short enough for an e-mail. */
-export const reasonSchema = (what: string) => z.string({ error: `Write ${what}` })
+export const reasonSchema = (what: string, reader: ReasonReader) => z.string({ error: `Write ${what}` })
   .trim()
-  .min(10, `Write ${what} in a sentence or two (at least 10 characters), so the shop knows what to fix`)
+  .min(10, `Write ${what} in a sentence or two (at least 10 characters), ${REASON_READERS[reader]}`)
   .max(2000, 'Keep it under 2,000 characters')
 
 export const approveEvidenceSchema = z.strictObject({
@@ -14,11 +24,11 @@ export const approveEvidenceSchema = z.strictObject({
 })
 
 export const rejectEvidenceSchema = z.strictObject({
-  reason: reasonSchema('what is wrong with the pull'),
+  reason: reasonSchema('what is wrong with the pull', 'shop'),
 })
 
 export const unpublishListingSchema = z.strictObject({
-  reason: reasonSchema('why the listing comes down'),
+  reason: reasonSchema('why the listing comes down', 'shop'),
 })
 
 export const DISPUTE_OUTCOMES = ['refund', 'release'] as const

@@ -26,6 +26,7 @@ export const quoteRequestSchema = z.object({
   aspiration: z.enum(ASPIRATIONS, { error: 'Pick how the engine breathes' }),
   intendedUse: z.enum(USES, { error: 'Pick the use' }),
   transmission: z.enum(TRANSMISSIONS, { error: 'Pick a transmission' }),
+  launchRpm: z.number({ error: 'The launch rpm is a number' }).int('The launch rpm is a whole number').min(1000, 'The launch rpm is at least 1,000').max(9000, 'The launch rpm is at most 9,000').nullable().default(null),
   stallRpm: z.number().int('The stall speed is a whole number of rpm').min(1000, 'The stall speed is at least 1,000 rpm').max(9000, 'The stall speed is at most 9,000 rpm').nullable().default(null),
   shiftRpm: z.number().int('The shift rpm is a whole number').min(2000, 'The shift rpm is at least 2,000').max(12000, 'The shift rpm is at most 12,000').nullable().default(null),
   budgetMinCents: centsSchema,
@@ -39,6 +40,8 @@ export const quoteRequestSchema = z.object({
   if (v.transmission === 'automatic' && v.stallRpm === null) ctx.addIssue({ code: 'custom', path: ['stallRpm'], message: 'With an automatic, give the converter stall speed' })
   if (v.transmission !== 'automatic' && v.stallRpm !== null) ctx.addIssue({ code: 'custom', path: ['stallRpm'], message: 'A stall speed applies to an automatic only' })
   if (v.stallRpm !== null && v.shiftRpm !== null && v.shiftRpm <= v.stallRpm) ctx.addIssue({ code: 'custom', path: ['shiftRpm'], message: 'The shift rpm must be above the stall speed' })
+  if (v.transmission === 'automatic' && v.launchRpm !== null) ctx.addIssue({ code: 'custom', path: ['launchRpm'], message: 'With an automatic, the converter stall speed is the launch' })
+  if (v.launchRpm !== null && v.shiftRpm !== null && v.shiftRpm <= v.launchRpm) ctx.addIssue({ code: 'custom', path: ['shiftRpm'], message: 'The shift rpm must be above the launch rpm' })
 })
 export type QuoteRequestInput = z.infer<typeof quoteRequestSchema>
 

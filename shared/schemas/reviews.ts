@@ -30,7 +30,7 @@ export const reviewAnswerSchema = z.strictObject({
 })
 
 export const hideReviewSchema = z.strictObject({
-  reason: reasonSchema('why the review is hidden'),
+  reason: reasonSchema('why the review is hidden', 'reviewer'),
 })
 
 export const recordFigureParams = z.object({

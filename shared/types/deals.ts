@@ -101,6 +101,8 @@ export interface RequestView {
   aspiration: string
   intendedUse: string
   transmission: string
+  /** The launch rpm of a car without a converter, or null. */
+  launchRpm: number | null
   stallRpm: number | null
   shiftRpm: number | null
   budgetMinCents: number

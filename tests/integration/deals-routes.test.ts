@@ -53,6 +53,22 @@ describe('requests', () => {
     expect(await rows(schema.quoteRequests)).toBe(before)
   })
 
+  it('carries a manual car\'s launch rpm to the shop, stored on the request', async () => {
+    const res = await post('/api/requests', requestInput({ title: `Launch ${Math.random().toString(36).slice(2, 8)}`, transmission: 'manual', stallRpm: null, launchRpm: 3800, shiftRpm: 7200 }), jar.racer)
+    expect(res.status).toBe(201)
+    const [row] = await db.select({ launchRpm: schema.quoteRequests.launchRpm, stallRpm: schema.quoteRequests.stallRpm }).from(schema.quoteRequests).where(eq(schema.quoteRequests.id, res.body.id))
+    expect(row).toEqual({ launchRpm: 3800, stallRpm: null })
+    expect((await get(`/api/requests/${res.body.id}`, jar.builder)).body).toMatchObject({ transmission: 'manual', launchRpm: 3800, stallRpm: null })
+  })
+
+  it('refuses a launch rpm with an automatic (400, nothing written)', async () => {
+    const before = await rows(schema.quoteRequests)
+    const res = await post('/api/requests', { ...requestInput(), launchRpm: 3800 }, jar.racer)
+    expect(res.status).toBe(400)
+    expect(res.body.message).toContain('converter stall speed is the launch')
+    expect(await rows(schema.quoteRequests)).toBe(before)
+  })
+
   it('refuses a request to a shop that does not exist (422) and a deadline in the past (422)', async () => {
     const before = await rows(schema.quoteRequests)
     expect((await post('/api/requests', requestInput({ builder: 'no-such-shop' }), jar.racer)).status).toBe(422)

@@ -41,8 +41,16 @@ describe('the deal forms\' schemas', () => {
     [{ targetStandard: 'FLATTERING' }, 'targetStandard: Pick one of the correction standards in the list'],
     [{ budgetMinCents: 10.5 }, 'budgetMinCents: An amount is a whole number of cents'],
     [{ deadline: '2026-02-30' }, 'deadline: That date does not exist'],
+    [{ launchRpm: 3800 }, 'launchRpm: With an automatic, the converter stall speed is the launch'],
+    [{ transmission: 'manual', stallRpm: null, launchRpm: 7400 }, 'shiftRpm: The shift rpm must be above the launch rpm'],
+    [{ transmission: 'manual', stallRpm: null, launchRpm: 900 }, 'launchRpm: The launch rpm is at least 1,000'],
   ])('refuses %j with a message a person can act on', (change, message) => {
     expect(issues(quoteRequestSchema.safeParse({ ...request, ...change }))).toContain(message)
+  })
+
+  it('carries a manual car\'s launch rpm, and leaves it null when not given', () => {
+    expect(quoteRequestSchema.parse({ ...request, transmission: 'manual', stallRpm: null, launchRpm: 3800 }).launchRpm).toBe(3800)
+    expect(quoteRequestSchema.parse(request).launchRpm).toBeNull()
   })
 
   it('refuses an empty message without a file', () => {

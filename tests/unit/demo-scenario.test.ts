@@ -2,6 +2,8 @@ import { describe, expect, it } from 'vitest'
 import { displacementCi } from '../../shared/engine/geometry'
 import { parsePull } from '../../shared/engine/parse'
 import { DEMO_RACERS, DEMO_SHOPS, demoBuilds, pullCsv } from '../../scripts/lib/demo-data'
+import { demoSwapBuilds } from '../../scripts/lib/seed-swaps'
+import { buildPublishSchema, combinationFields } from '../../shared/schemas/build'
 
 describe('the invented demo scenario', () => {
   const builds = demoBuilds()
@@ -28,6 +30,14 @@ describe('the invented demo scenario', () => {
       expect(b.priceCents % 10_000).toBe(0)
       // The margin sits in the labor line, never below the shop's cost (common practice: a shop does not sell below cost).
       expect(b.parts.find(p => p.category === 'Labor')!.unitPriceCents).toBeGreaterThan(0)
+    }
+  })
+
+  it('gives every build, the swap comparisons too, each combination field the publish schema asks for, and passes it', () => {
+    for (const b of [...builds, ...demoSwapBuilds(builds)]) {
+      for (const field of Object.keys(combinationFields)) expect(b, `${b.slug} ${field}`).toHaveProperty(field)
+      const checked = buildPublishSchema.safeParse(b)
+      expect(checked.success, `${b.slug}: ${checked.error?.issues[0]?.message}`).toBe(true)
     }
   })
 

@@ -1,0 +1,1 @@
+ALTER TABLE `quote_requests` ADD `launch_rpm` int unsigned;
