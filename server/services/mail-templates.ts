@@ -24,6 +24,7 @@ export type DealMail
     | { kind: 'change_order_sent', racerName: string, shopName: string, title: string, totalCents: number, milestones: number, link: string }
     | { kind: 'change_order_answered', shopName: string, racerName: string, title: string, totalCents: number, accepted: boolean, link: string }
     | { kind: 'dispute_settled', recipientName: string, side: 'racer' | 'builder', shopName: string, title: string, milestone: string, outcome: 'refund' | 'release', amountCents: number, note: string, link: string }
+    | { kind: 'review_written', shopName: string, racerName: string, title: string, rating: number, edited: boolean, excerpt: string, link: string }
 
 // The tokens of tailwind.config.ts (ink, paper, copper), written out because e-mail has no stylesheet.
 const INK = '#1d2230'
@@ -143,6 +144,15 @@ export function renderDealMail(mail: DealMail): RenderedMail {
           ? `${mail.racerName} accepted your change order of ${formatCents(mail.totalCents)} for "${mail.title}". Its milestones now stand in place of the unpaid ones.`
           : `${mail.racerName} declined your change order of ${formatCents(mail.totalCents)} for "${mail.title}". The order stays as it was.`,
       ], { label: 'Open the order', link: mail.link }) }
+    case 'review_written':
+      return { subject: `${mail.edited ? 'Review edited' : 'New review'}: ${mail.rating} of 5 from ${mail.racerName}`, ...layout([
+        `Hello ${mail.shopName},`,
+        mail.edited
+          ? `${mail.racerName} edited their review of your work on "${mail.title}". It now rates your shop ${mail.rating} of 5:`
+          : `${mail.racerName} reviewed your work on "${mail.title}" and rated your shop ${mail.rating} of 5:`,
+        `"${mail.excerpt}"`,
+        'The review shows on your shop\'s page. You can answer it once, publicly, from the order page.',
+      ], { label: 'Read the review', link: mail.link }) }
   }
 }
 

@@ -29,6 +29,7 @@ export const MAIL_GROUP: Record<DealMail['kind'], EmailGroup | null> = {
   milestone_approved: 'milestones',
   milestone_refunded: null,
   dispute_settled: null,
+  review_written: 'reviews',
 }
 
 /** The events of deals the actor is a party to, less their own actions; null for an admin (who is a party to none). */

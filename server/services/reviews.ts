@@ -9,7 +9,8 @@ import {
 import type { Database } from '../database/types'
 import { inRetriedTransaction } from '../utils/transaction'
 import { writeAudit } from './audit'
-import { type DealActor, type Executor, conflict, forbidden, isDuplicateKey, notFound } from './deal-context'
+import { type DealActor, type Executor, conflict, forbidden, isDuplicateKey, notFound, partiesOf, recordDealEvent } from './deal-context'
+import { enqueueMail } from './outbox'
 import { canEditReview, summariseRatings } from '#shared/reviews/aspects'
 import type { ReviewInput } from '#shared/schemas/reviews'
 import type { AdminReviewRow, OrderReview, ReviewList, ReviewView } from '#shared/types/reviews'
@@ -87,11 +88,33 @@ export async function orderReview(db: Executor, actor: DealActor, orderId: numbe
   }
 }
 
+/** Where a review's notice links to and when it is written: the app's public address and the clock. */
+export interface ReviewWrite {
+  siteUrl: string
+  now?: Date
+}
+
+/**
+ * Tells the shop about a review written or edited: an event on the deal (the shop's notifications and
+ * the order's history) and an e-mail through the outbox, unless the shop switched review mail off. Runs
+ * inside the review's transaction, so a rolled-back or retried write leaves one notice, never two;
+ * the dedupe key (one per review, one per kept edit) is the last word.
+ */
+async function noticeToShop(tx: Executor, w: { requestId: number, orderId: number, actor: DealActor, rating: number, body: string, edited: boolean, dedupeKey: string, siteUrl: string }) {
+  await recordDealEvent(tx, { requestId: w.requestId, orderId: w.orderId, actorId: w.actor.id, action: w.edited ? 'review_edited' : 'review_posted', detail: `${w.rating} of 5` })
+  const parties = await partiesOf(tx, w.requestId)
+  await enqueueMail(tx, parties.builderEmail, {
+    kind: 'review_written', shopName: parties.shopName, racerName: parties.racerName, title: parties.title, rating: w.rating, edited: w.edited,
+    excerpt: w.body.length > 280 ? `${w.body.slice(0, 277)}…` : w.body,
+    link: `${w.siteUrl}/deals/orders/${w.orderId}#order-review-title`,
+  }, w.dedupeKey)
+}
+
 /**
  * The racer reviews a completed order, once. The order row is locked first so two tries cannot both
  * pass the check; the unique key on the order is the last word.
  */
-export async function createReview(db: Database, actor: DealActor, orderId: number, input: ReviewInput, now = new Date()): Promise<{ id: number }> {
+export async function createReview(db: Database, actor: DealActor, orderId: number, input: ReviewInput, { siteUrl, now = new Date() }: ReviewWrite): Promise<{ id: number }> {
   try {
     return await inRetriedTransaction(db, async (tx) => {
       const [order] = await tx.select().from(orders).where(eq(orders.id, orderId)).limit(1).for('update')
@@ -105,6 +128,7 @@ export async function createReview(db: Database, actor: DealActor, orderId: numb
         orderId, builderId: order.builderId, buildId: request?.buildId ?? null, authorId: actor.id,
         rating: input.rating, aspects: input.aspects, body: input.body, showDeliveryPull: input.showDeliveryPull, createdAt: now,
       }).$returningId() as [{ id: number }]
+      await noticeToShop(tx, { requestId: order.requestId, orderId, actor, rating: input.rating, body: input.body, edited: false, dedupeKey: `review:${id}`, siteUrl })
       return { id }
     })
   }
@@ -115,17 +139,19 @@ export async function createReview(db: Database, actor: DealActor, orderId: numb
 }
 
 /** The author edits their review within the window; the version it replaces is kept. */
-export async function editReview(db: Database, actor: DealActor, reviewId: number, input: ReviewInput, now = new Date()): Promise<void> {
+export async function editReview(db: Database, actor: DealActor, reviewId: number, input: ReviewInput, { siteUrl, now = new Date() }: ReviewWrite): Promise<void> {
   await inRetriedTransaction(db, async (tx) => {
     const [row] = await tx.select().from(reviews).where(eq(reviews.id, reviewId)).limit(1).for('update')
     if (!row) throw notFound('That review')
     if (row.authorId !== actor.id) throw forbidden('Only the review\'s author edits it.')
     if (row.hiddenAt !== null) throw conflict('This review was hidden by Torquewright and can no longer be edited.')
     if (!canEditReview(row.createdAt, now)) throw conflict('A review can be edited for 14 days after it was written; this one is older.')
-    await tx.insert(reviewEdits).values({
+    const [kept] = await tx.insert(reviewEdits).values({
       reviewId, rating: row.rating, aspects: row.aspects, body: row.body, showDeliveryPull: row.showDeliveryPull, writtenAt: row.editedAt ?? row.createdAt, createdAt: now,
-    })
+    }).$returningId() as [{ id: number }]
     await tx.update(reviews).set({ rating: input.rating, aspects: input.aspects, body: input.body, showDeliveryPull: input.showDeliveryPull, editedAt: now }).where(eq(reviews.id, reviewId))
+    const [order] = await tx.select({ requestId: orders.requestId }).from(orders).where(eq(orders.id, row.orderId)).limit(1)
+    if (order) await noticeToShop(tx, { requestId: order.requestId, orderId: row.orderId, actor, rating: input.rating, body: input.body, edited: true, dedupeKey: `review:${reviewId}:edit:${kept.id}`, siteUrl })
   })
 }
 

@@ -16,6 +16,11 @@ export async function recordBuildChange(tx: Executor, buildId: number): Promise<
   await tx.insert(buildChanges).values({ buildId })
 }
 
+/** Adds the changes of several builds to the feed in one write (a shop's rename touches all of its builds). */
+export async function recordBuildChanges(tx: Executor, buildIds: readonly number[]): Promise<void> {
+  if (buildIds.length > 0) await tx.insert(buildChanges).values(buildIds.map(buildId => ({ buildId })))
+}
+
 /** The feed's last position now (0 when it is empty): a reader that built its index after this starts here. */
 export async function feedHead(db: Database): Promise<number> {
   const [row] = await db.select({ head: max(buildChanges.id) }).from(buildChanges)

@@ -3,6 +3,8 @@ import { displacementCi } from '../../shared/engine/geometry'
 import type { OwnBuildRow } from '../../shared/types/auth'
 import { builderProfiles, builds, dynoPulls, type BuilderProfile } from '../database/schema'
 import type { Database } from '../database/types'
+import { inRetriedTransaction } from '../utils/transaction'
+import { recordBuildChanges } from './search-feed'
 
 /** A shop's own builds for its dashboard, drafts and archived ones included, most recently changed first. */
 export async function listOwnBuilds(db: Database, builderId: number): Promise<OwnBuildRow[]> {
@@ -26,9 +28,21 @@ export async function listOwnBuilds(db: Database, builderId: number): Promise<Ow
   }))
 }
 
-/** Changes a shop's name, region or description. The slug stays, so links to the shop keep working. */
-export async function updateShop(db: Database, shopId: number, patch: { shopName?: string, region?: string, bio?: string }): Promise<BuilderProfile> {
-  await db.update(builderProfiles).set(patch).where(eq(builderProfiles.id, shopId))
-  const [updated] = await db.select().from(builderProfiles).where(eq(builderProfiles.id, shopId))
-  return updated!
+/**
+ * Changes a shop's name, region or description. The slug stays, so links to the shop keep working.
+ * Every build of the shop shows its name and region (search results, build pages), so each build's
+ * change goes to the feed in the same transaction: other instances re-index them and drop their cached
+ * pages. Answers the shop as it now stands and the builds, for this instance's own hook after the commit.
+ */
+export async function updateShop(db: Database, shopId: number, patch: { shopName?: string, region?: string, bio?: string }): Promise<{ shop: BuilderProfile, buildIds: number[] }> {
+  // Safe to repeat: it sets the same fields and records the same builds' changes again.
+  return inRetriedTransaction(db, async (tx) => {
+    await tx.update(builderProfiles).set(patch).where(eq(builderProfiles.id, shopId))
+    const [updated] = await tx.select().from(builderProfiles).where(eq(builderProfiles.id, shopId))
+    const shopBuilds = await tx.select({ id: builds.id }).from(builds).where(eq(builds.builderId, shopId))
+    const buildIds = shopBuilds.map(b => b.id)
+    // The feed's rows last (recordBuildChange's rule), one per build.
+    await recordBuildChanges(tx, buildIds)
+    return { shop: updated!, buildIds }
+  })
 }

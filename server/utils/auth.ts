@@ -4,7 +4,7 @@ import { eq } from 'drizzle-orm'
 import type { H3Event } from 'h3'
 import type { Role } from '#shared/domain'
 import type { SessionUser } from '#shared/types/auth'
-import { activeUser, assertOwner, assertRole, currentPasswordNeeded, SESSION_MAX_AGE_S, type AccountRow } from '../auth/policy'
+import { activeUser, assertOwner, assertRole, currentPasswordNeeded, SESSION_MAX_AGE_S, sessionCurrent, type AccountRow } from '../auth/policy'
 import { giveBackTokens, signInBuckets, takeTokens } from '../auth/rate-limit'
 import { builderProfiles, users, type BuilderProfile } from '../database/schema'
 
@@ -48,12 +48,55 @@ export async function readSession(event: H3Event): Promise<JWT | null> {
 export async function renewSession(event: H3Event, sessionVersion: number): Promise<void> {
   const current = await readSession(event)
   if (!current) return
+  await issueSession(event, current, { sv: sessionVersion })
+}
+
+/** Sets a fresh session cookie: the token's claims with `changes`, a new lifetime, encoded as Auth.js does. */
+async function issueSession(event: H3Event, current: JWT, changes: Partial<JWT>): Promise<void> {
   const { exp: _exp, iat: _iat, jti: _jti, ...claims } = current
-  const token: JWT = { ...claims, sv: sessionVersion }
+  const token: JWT = { ...claims, ...changes }
   const { name, secure } = sessionCookie(event)
   const value = await encode({ token, secret: authSecret(), salt: name, maxAge: SESSION_MAX_AGE_S })
   setCookie(event, name, value, { httpOnly: true, sameSite: 'lax', path: '/', secure, maxAge: SESSION_MAX_AGE_S })
   event.context.authToken = token
+}
+
+/** What the pages' session state holds: the shape of Auth.js's /session answer. */
+export interface PageSession {
+  user: SessionUser
+  expires: string
+}
+
+/**
+ * A page view re-issues its session cookie once the cookie is older than this, as Auth.js's
+ * `session.updateAge` (default 24 hours) does for database sessions, instead of on every view.
+ */
+export const SESSION_ROLL_AFTER_S = 24 * 3600
+
+/**
+ * The session of a server-rendered page, read here instead of through an internal request to
+ * Auth.js's /session route: the same checks as its jwt callback (the account is read afresh, so a
+ * suspended account or a revoked session is signed out on its next page), without the route's
+ * round trip, its housekeeping cookies and a new cookie on every view. A session cookie that no
+ * longer stands for a session is removed, as Auth.js removes it.
+ */
+export async function pageSession(event: H3Event, now = Date.now()): Promise<PageSession | null> {
+  const token = await readSession(event)
+  const id = Number(token?.sub)
+  const row = token && Number.isSafeInteger(id) && id > 0 ? await loadAccount(id) : undefined
+  if (!token || !row || row.suspendedAt || !sessionCurrent(row, token.sv)) {
+    if (getCookie(event, sessionCookie(event).name) !== undefined) endSession(event)
+    return null
+  }
+  const user: SessionUser = { id: row.id, name: row.name, email: row.email, role: row.role, units: row.unitPreference }
+  event.context.user = user
+  const nowS = Math.floor(now / 1000)
+  let expiresS = typeof token.exp === 'number' ? token.exp : nowS
+  if (typeof token.iat !== 'number' || nowS - token.iat >= SESSION_ROLL_AFTER_S) {
+    await issueSession(event, token, { name: row.name, email: row.email, role: row.role, units: row.unitPreference })
+    expiresS = nowS + SESSION_MAX_AGE_S
+  }
+  return { user, expires: new Date(expiresS * 1000).toISOString() }
 }
 
 /** Removes the caller's session cookie (after a sign-out everywhere). */

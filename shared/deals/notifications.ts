@@ -9,13 +9,14 @@ export const DEAL_EVENT_WORDS: Record<string, string> = {
   dispute_settled: 'Dispute settled', milestone_refunded: 'Refunded', payment_refunded: 'Late payment refunded',
   order_cancelled: 'Order cancelled', order_completed: 'Order completed', delivery_pull: 'Delivery pull checked',
   change_order_sent: 'Change order sent', change_order_accepted: 'Change order accepted', change_order_declined: 'Change order declined',
+  review_posted: 'Review posted', review_edited: 'Review edited',
 }
 
 /** An event's words; an action without words shows as stored rather than vanish. */
 export const dealEventWords = (action: string): string => DEAL_EVENT_WORDS[action] ?? action
 
 /** The groups of deal e-mail that can be switched off, in the order the page lists them. */
-export const EMAIL_GROUPS = ['requests', 'messages', 'quotes', 'payments', 'milestones'] as const
+export const EMAIL_GROUPS = ['requests', 'messages', 'quotes', 'payments', 'milestones', 'reviews'] as const
 export type EmailGroup = typeof EMAIL_GROUPS[number]
 
 /** What each switch says; `shopsOnly` for mail only a shop receives (a racer is never sent it). */
@@ -25,6 +26,7 @@ export const EMAIL_GROUP_LABELS: Record<EmailGroup, { label: string, hint: strin
   quotes: { label: 'Quotes and change orders', hint: 'A quote or a change order is sent to you, or yours is answered.' },
   payments: { label: 'Deposits and payouts', hint: 'A milestone’s deposit is paid, or a payout goes to the shop.' },
   milestones: { label: 'Work submitted and approved', hint: 'The shop submits a milestone, or it is approved.' },
+  reviews: { label: 'Reviews of your shop', hint: 'A racer reviews your shop after an order, or edits their review.', shopsOnly: true },
 }
 
 /** Mail that always goes out, whatever the switches: it concerns money already paid. */

@@ -92,6 +92,25 @@ describe('the listing editor in Chromium', () => {
     expect(await page.locator('[data-test="part-name"]').first().inputValue()).toBe(PARTS[1]!.part)
     await expect.poll(() => page.locator('[data-test="save-state"]').innerText(), { timeout: 10_000 }).toMatch(/Saved/)
 
+    // The parts table fits its column, on a 1366 px desktop and on a 390 px phone (stacked rows): nothing
+    // scrolls sideways inside it, and every field stays wide enough to type in (44 px, the product's rule).
+    for (const viewport of [{ width: 1366, height: 900 }, { width: 390, height: 844 }]) {
+      await page.setViewportSize(viewport)
+      const fit = await page.locator('[data-test="editor-parts"]').evaluate((table) => {
+        const boxes = [table, table.parentElement!, table.closest('section')!]
+        return {
+          overflow: boxes.filter(el => el.scrollWidth > el.clientWidth).map(el => `${el.tagName} ${el.scrollWidth}>${el.clientWidth}`),
+          narrow: [...table.querySelectorAll('input')].filter(el => el.getBoundingClientRect().width < 44).map(el => el.getAttribute('aria-label')),
+          page: document.documentElement.scrollWidth,
+        }
+      })
+      expect(fit.overflow, `at ${viewport.width} px`).toEqual([])
+      expect(fit.narrow, `at ${viewport.width} px`).toEqual([])
+      expect(fit.page).toBeLessThanOrEqual(viewport.width)
+      if (process.env.TW_SHOTS_DIR) await page.locator('[data-test="editor-parts"]').screenshot({ path: `${process.env.TW_SHOTS_DIR}/editor-parts-${viewport.width}.png` })
+    }
+    await page.setViewportSize({ width: 1280, height: 900 })
+
     // A photo, then the pull: preview first (errors by row or the report), then save.
     await page.setInputFiles('[data-test="photo-file"]', { name: 'on-the-stand.png', mimeType: 'image/png', buffer: PNG })
     await page.fill('[data-test="photo-caption"]', 'On the engine stand')

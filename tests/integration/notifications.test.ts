@@ -75,7 +75,7 @@ describe('the notifications list', () => {
     // The quote was sent before there was an order: its link is the request's page.
     expect(quoted).toMatchObject({ words: 'Quote sent', title: deal.title, link: `/deals/requests/${deal.requestId}` })
     expect(Number.isNaN(Date.parse(funded!.createdAt))).toBe(false)
-    expect(body.email).toEqual({ requests: true, messages: true, quotes: true, payments: true, milestones: true })
+    expect(body.email).toEqual({ requests: true, messages: true, quotes: true, payments: true, milestones: true, reviews: true })
   })
 
   it('shows the shop the racer\'s events of the same deal', async () => {
@@ -176,7 +176,7 @@ describe('the e-mail switches', () => {
     const shop = await person('builder')
     const off = await call(racer, 'PATCH', '/api/me/notifications/settings', { email: { quotes: false } })
     expect(off.status).toBe(200)
-    expect(off.body).toEqual({ email: { requests: true, messages: true, quotes: false, payments: true, milestones: true } })
+    expect(off.body).toEqual({ email: { requests: true, messages: true, quotes: false, payments: true, milestones: true, reviews: true } })
     expect((await list(racer)).email.quotes).toBe(false)
 
     const deal = await dealBetween(racer, shop)
@@ -207,6 +207,6 @@ describe('the e-mail switches', () => {
     expect((await outboxTo(shop.email)).filter(m => m.subject.startsWith('New quote request'))).toEqual([])
     // The racer's quote mail is unaffected by the shop's switches.
     await waitForMail(racer.email, m => m.subject.includes('sent a quote'), 20_000)
-    expect((await list(shop)).email).toEqual({ requests: false, messages: false, quotes: true, payments: true, milestones: true })
+    expect((await list(shop)).email).toEqual({ requests: false, messages: false, quotes: true, payments: true, milestones: true, reviews: true })
   })
 })

@@ -8,7 +8,7 @@ export default defineEventHandler(async (event) => {
   const { id } = await getValidatedRouterParams(event, validator(idParams))
   const { actor } = await requireOrderAccess(event, id, 'racer')
   const input = await readValidatedBody(event, validator(reviewSchema))
-  const created = await createReview(useDb(), actor, id, input)
+  const created = await createReview(useDb(), actor, id, input, { siteUrl: dealSiteUrl() })
   // Reviews show on the build and shop pages: the cached public pages go at once.
   await invalidatePublicCache()
   setResponseStatus(event, 201)
