@@ -52,8 +52,8 @@ export default defineNuxtConfig({
     '/api/**': { headers: { 'content-security-policy': 'default-src \'none\'; frame-ancestors \'none\'' } },
   },
   // Smaller client entry: no app manifest (route rules are server-side only: the API headers above; nothing is
-  // prerendered) and the payload as an inline script rather than JSON, so the client needs no devalue parser.
-  experimental: { appManifest: false, renderJsonPayloads: false },
+  // prerendered). The JSON payload stays: its reducers bring a fetch error back as a NuxtError with its status.
+  experimental: { appManifest: false },
   compatibilityDate: '2026-11-01',
   nitro: {
     storage: {},
