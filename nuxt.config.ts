@@ -51,6 +51,9 @@ export default defineNuxtConfig({
   routeRules: {
     '/api/**': { headers: { 'content-security-policy': 'default-src \'none\'; frame-ancestors \'none\'' } },
   },
+  // Smaller client entry: no app manifest (route rules are server-side only: the API headers above; nothing is
+  // prerendered). The JSON payload stays: its reducers bring a fetch error back as a NuxtError with its status.
+  experimental: { appManifest: false },
   compatibilityDate: '2026-11-01',
   nitro: {
     storage: {},

@@ -234,7 +234,8 @@ describe('the keyboard on a phone', () => {
     await menu.click()
     await page.click('[data-test="nav-tools"]')
     await page.waitForURL(/\/tools$/)
-    expect(await nav.isVisible()).toBe(false)
+    // The panel closes once the new page is shown, which waits for that page's chunks (the URL changes first).
+    await expect.poll(() => nav.isVisible(), { timeout: 5000 }).toBe(false)
   })
 
   it('"+ Add a line" and "+ Add a milestone" put the keyboard in the new row, named with its number', async () => {

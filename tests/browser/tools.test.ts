@@ -28,9 +28,16 @@ async function fill(entries: Record<string, string | number>) {
 async function expectFigure(test: string, expected: number, digits: number) {
   await expect.poll(() => text(test), { timeout: 5000 }).toBe(shown(expected, digits))
 }
-/** Typing before Vue has hydrated the page would be overwritten: wait for the mounted app. */
+/**
+ * Typing before Vue has hydrated a calculator would be overwritten: wait for the mounted app and for
+ * every card to be live (each hydrates on its own once the page is idle; ToolsCard sets data-live).
+ */
 async function hydrated() {
   await browser.page.waitForFunction(() => Boolean((document.querySelector('#__nuxt') as { __vue_app__?: unknown } | null)?.__vue_app__))
+  await browser.page.waitForFunction(() => {
+    const cards = [...document.querySelectorAll('[data-test$="-card"]')]
+    return cards.length === 8 && cards.every(card => card.hasAttribute('data-live'))
+  })
 }
 /** The page as a new anonymous visitor sees it: imperial (the unit choice an earlier test left in this browser is cleared). */
 async function openTools() {

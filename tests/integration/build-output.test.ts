@@ -37,6 +37,25 @@ describe('the built client', () => {
     expect(chunks.some(f => readFileSync(resolve(publicDir, '_nuxt', f), 'utf8').includes(CHART_JS_MARKER))).toBe(true)
   })
 
+  it('leaves the code of lazily hydrated parts out of the first load, while their server HTML is on the page', async () => {
+    const { readdirSync } = await import('node:fs')
+    const chunks = readdirSync(resolve(publicDir, '_nuxt')).filter(f => f.endsWith('.js'))
+    const { body: list } = await api('/api/builds?perPage=1')
+    // A literal each part's own template holds: the build's spec sheet, and one calculator (each hydrates when the page is idle).
+    const parts = [
+      { path: `/builds/${list.items[0].slug}`, marker: 'Camshaft and induction' },
+      { path: '/tools', marker: 'Static flow each injector needs to feed a target power' },
+    ]
+    for (const { path, marker } of parts) {
+      const page = await firstLoad(path)
+      expect(page.html, path).toContain(marker)
+      expect(page.scripts.length).toBeGreaterThan(0)
+      for (const script of page.scripts) expect(file(script), `${path}: ${script}`).not.toContain(marker)
+      // The marker does find the part's code: some chunk of the build holds it.
+      expect(chunks.some(f => readFileSync(resolve(publicDir, '_nuxt', f), 'utf8').includes(marker)), marker).toBe(true)
+    }
+  })
+
   it('loads Manrope\'s latin subset alone and preloads the body weight', async () => {
     const page = await firstLoad('/')
     expect(page.html).toMatch(/<link[^>]+rel="preload"[^>]+as="font"[^>]+manrope-latin-400-normal[^>]+\.woff2/)
