@@ -1,5 +1,5 @@
 /**
- * How the search engine was chosen: the same invented listings and query mix through each
+ * How the search engine was chosen: the same invented builds and query mix through each
  * candidate (@orama/orama, minisearch, flexsearch), a plain typed-array scan as the floor, and
  * Torquewright's index. Slow: a candidate's category stops after its time budget.
  * Run with `npm run bench:candidates [-- 20000]`; the README's table comes from it.
@@ -31,11 +31,11 @@ type Engine = {
   facets?: (q: Queries['filter'][number]) => Promise<unknown> | unknown
 }
 
-const body = (d: SearchDocument) => [d.summary, ...d.parts, d.heads, d.camshaft, d.intake, d.builder.name].join(' ')
+const body = (d: SearchDocument) => [d.summary, ...d.parts, d.heads, d.camshaft, d.intake, d.shop.name].join(' ')
 
 function makeQueries(docs: SearchDocument[]): Queries {
   const r = seededRandom(77)
-  const words = [...new Set(docs.slice(0, 2000).flatMap(d => termsOf(`${d.title} ${d.summary} ${d.builder.name}`)))].filter(w => w.length >= 5 && /^[a-z]+$/.test(w))
+  const words = [...new Set(docs.slice(0, 2000).flatMap(d => termsOf(`${d.title} ${d.summary} ${d.shop.name}`)))].filter(w => w.length >= 5 && /^[a-z]+$/.test(w))
   const typo = (w: string) => {
     const i = r.int(1, w.length - 2)
     return w.slice(0, i) + (w[i] === 'x' ? 'y' : 'x') + w.slice(i + 1)
@@ -155,7 +155,7 @@ async function time(list: unknown[], fn: ((q: never) => unknown) | undefined): P
 
 const docs = syntheticDocuments(N)
 const queries = makeQueries(docs)
-console.log(`| engine (${N.toLocaleString('en-US')} listings) | build | heap + buffers | filter p95 | text p95 | typo p95 | facets p95 |`)
+console.log(`| engine (${N.toLocaleString('en-US')} builds) | build | heap + buffers | filter p95 | text p95 | typo p95 | facets p95 |`)
 console.log('|---|---|---|---|---|---|---|')
 for (const make of [scanEngine, oursEngine, miniSearchEngine, oramaEngine, flexEngine]) {
   gc()

@@ -1,5 +1,5 @@
 /**
- * Benchmark of the search index at 100,000 invented listings: build time and memory, one
+ * Benchmark of the search index at 100,000 invented builds: build time and memory, one
  * incremental update, and p50/p95/p99 of a query mix in process and over HTTP, with
  * GET /api/health timed in the same run as the baseline. Figures go in the README.
  * Run alone with `npx tsx bench/search.ts`; `npm run bench` calls benchSearch().
@@ -18,7 +18,7 @@ import { seededRandom } from '../shared/random'
 import { syntheticDocuments } from '../search/synthetic'
 import { termsOf } from '../search/text'
 
-export const LISTINGS = 100_000
+export const BUILDS = 100_000
 const PER_CATEGORY = 150
 const HTTP_PER_CATEGORY = 60
 
@@ -52,10 +52,10 @@ function measure(fn: () => void): { wall: number, cpu: number } {
 }
 const both = (m: { wall: number, cpu: number }[]) => `${fmtSummary(summary(m.map(x => x.wall)))} (cpu p95 ${fmt(summary(m.map(x => x.cpu)).p95)} ms)`
 
-/** The query mix, seeded: each category from the listings' own values and words. */
+/** The query mix, seeded: each category from the builds' own values and words. */
 export function queryMix(docs: SearchDocument[], perCategory = PER_CATEGORY): Record<string, SearchQuery[]> {
   const r = seededRandom(31337)
-  const words = [...new Set(docs.slice(0, 3000).flatMap(d => termsOf(`${d.title} ${d.summary} ${d.heads} ${d.intake} ${d.builder.name}`)))].filter(w => w.length >= 5 && /^[a-z]+$/.test(w))
+  const words = [...new Set(docs.slice(0, 3000).flatMap(d => termsOf(`${d.title} ${d.summary} ${d.heads} ${d.intake} ${d.shop.name}`)))].filter(w => w.length >= 5 && /^[a-z]+$/.test(w))
   const families = [...new Set(docs.map(d => d.family))]
   const range = () => {
     const lo = r.int(250, 520)
@@ -104,7 +104,7 @@ function inProcess(docs: SearchDocument[], mix: Record<string, SearchQuery[]>): 
   const memoryMb = (after.heapUsed - before.heapUsed + after.arrayBuffers - before.arrayBuffers) / 1e6
   const rebuild = measure(() => index.build(docs))
   rows.push({
-    name: `index build, ${docs.length.toLocaleString('en-US')} listings (first / full rebuild)`,
+    name: `index build, ${docs.length.toLocaleString('en-US')} builds (first / full rebuild)`,
     figure: `${(first.wall / 1000).toFixed(2)} s / ${(rebuild.wall / 1000).toFixed(2)} s (cpu ${(first.cpu / 1000).toFixed(2)} s / ${(rebuild.cpu / 1000).toFixed(2)} s)`,
     target: 'rebuild < 10 s',
   })
@@ -125,7 +125,7 @@ function inProcess(docs: SearchDocument[], mix: Record<string, SearchQuery[]>): 
     const doc = { ...d, title: `${d.title} rev`, displacementCi: d.displacementCi + r.between(-20, 20), priceCents: d.priceCents + 100 }
     return measure(() => index.upsert(doc))
   })
-  rows.push({ name: 'incremental update (upsert of an edited listing)', figure: both(updates), target: 'one update < 5 ms' })
+  rows.push({ name: 'incremental update (upsert of an edited build)', figure: both(updates), target: 'one update < 5 ms' })
   const removals = Array.from({ length: 200 }, (_, i) => measure(() => index.remove((docs[i * 97] as SearchDocument).id)))
   rows.push({ name: 'incremental removal', figure: both(removals) })
   return rows
@@ -149,13 +149,13 @@ async function overHttp(mix: Record<string, SearchQuery[]>): Promise<SearchBench
   const port = cfg.app.port + 7
   const server = await startBuiltServer(cfg, appEnv(cfg, {
     database, port, smtpPort: cfg.mail.smtpPort, uploadsDir: resolve(cfg.dataDir, 'bench-uploads'),
-    extra: { TW_BENCH: '1', TW_SEARCH_SYNTHETIC: String(LISTINGS) },
+    extra: { TW_BENCH: '1', TW_SEARCH_SYNTHETIC: String(BUILDS) },
   }), 'pipe')
   const base = `http://127.0.0.1:${port}`
   try {
     await waitFor('the bench index', async () => {
       const res = await fetch(`${base}/api/search?perPage=1`)
-      return res.ok && (await res.json() as { total: number }).total === LISTINGS
+      return res.ok && (await res.json() as { total: number }).total === BUILDS
     }, 300_000)
     for (const list of Object.values(mix)) for (const q of list.slice(0, 5)) await timed(`${base}/api/search?${toQueryString(q)}`)
     const route: number[] = []
@@ -182,11 +182,11 @@ async function overHttp(mix: Record<string, SearchQuery[]>): Promise<SearchBench
 /** Every search figure of the README table. */
 export async function benchSearch(opts: { http?: boolean } = {}): Promise<SearchBenchRow[]> {
   const t0 = performance.now()
-  const docs = syntheticDocuments(LISTINGS)
+  const docs = syntheticDocuments(BUILDS)
   const generated = performance.now() - t0
   const mix = queryMix(docs)
   const rows = inProcess(docs, mix)
-  rows.unshift({ name: `generate ${LISTINGS.toLocaleString('en-US')} invented listings`, figure: `${(generated / 1000).toFixed(1)} s (not part of the index)` })
+  rows.unshift({ name: `generate ${BUILDS.toLocaleString('en-US')} invented builds`, figure: `${(generated / 1000).toFixed(1)} s (not part of the index)` })
   if (opts.http !== false) {
     try {
       rows.push(...await overHttp(mix))

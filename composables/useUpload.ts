@@ -8,7 +8,7 @@ export interface UploadAnswer<T> {
 }
 
 /**
- * The one upload of the pages: posts a form (listing photos and pulls) or a file as the raw body (deal
+ * The one upload of the pages: posts a form (build photos and pulls) or a file as the raw body (deal
  * files) with XMLHttpRequest so the page can show how much has been sent (fetch cannot report upload
  * progress without streaming bodies). `progress` runs from 0 to 1 (`<UploadProgress>` draws it). One
  * upload at a time per instance.

@@ -1,2 +1,2 @@
-/** Pages for builders only (the shop dashboard). */
+/** Pages for shops only (the shop dashboard). */
 export default defineNuxtRouteMiddleware(to => pageAccess(to, ['builder']))

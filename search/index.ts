@@ -98,7 +98,7 @@ class EmbeddedIndex implements SearchIndex {
   /** Writes everything kept per slot: the stored hit fields, the curve and the words. */
   private writeSlot(slot: number, doc: SearchDocument): void {
     this.stored[slot] = {
-      id: doc.id, slug: doc.slug, title: doc.title, builder: { slug: doc.builder.slug, name: doc.builder.name },
+      id: doc.id, slug: doc.slug, title: doc.title, shop: { slug: doc.shop.slug, name: doc.shop.name },
       family: doc.family, region: doc.region, use: doc.use, displacementCi: doc.displacementCi,
       peakHp: doc.peakHp, peakHpRpm: doc.peakHpRpm, peakTq: doc.peakTq, peakTqRpm: doc.peakTqRpm,
       aspiration: doc.aspiration, fuel: doc.fuel, verified: doc.verified, priceCents: doc.priceCents,
@@ -108,7 +108,7 @@ class EmbeddedIndex implements SearchIndex {
     else this.curves.clear(slot)
     this.text.add(slot, {
       title: doc.title, summary: doc.summary, parts: doc.parts, heads: doc.heads,
-      camshaft: doc.camshaft, intake: doc.intake, builder: doc.builder.name,
+      camshaft: doc.camshaft, intake: doc.intake, shop: doc.shop.name,
     })
     this.families.retain(this.families.code(doc.family))
     this.regions.retain(this.regions.code(doc.region))
@@ -223,7 +223,7 @@ class EmbeddedIndex implements SearchIndex {
     const slot = this.slotOfId.get(id)
     const s = slot === undefined ? undefined : this.stored[slot]
     if (slot === undefined || !s) return undefined
-    return { ...s, builder: { ...s.builder }, publishedAt: new Date(s.publishedAt).toISOString(), curve: this.curves.get(slot) }
+    return { ...s, shop: { ...s.shop }, publishedAt: new Date(s.publishedAt).toISOString(), curve: this.curves.get(slot) }
   }
 
   stamps(): Map<number, string> {
@@ -349,7 +349,7 @@ class EmbeddedIndex implements SearchIndex {
 
     const hits = top.sorted().slice((page - 1) * perPage).map((slot) => {
       const { stamp: _stamp, ...s } = this.stored[slot] as Stored
-      const hit: SearchHit = { ...s, builder: { ...s.builder }, publishedAt: new Date(s.publishedAt).toISOString() }
+      const hit: SearchHit = { ...s, shop: { ...s.shop }, publishedAt: new Date(s.publishedAt).toISOString() }
       if (hasBand) {
         const avg = this.bandAverage(slot, bandFrom, bandTo)
         hit.bandAvgHp = Number.isNaN(avg) ? null : Math.round(avg * 10) / 10

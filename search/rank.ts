@@ -20,7 +20,7 @@ export interface TargetQuery {
 }
 
 export interface ShopForTarget {
-  builder: { slug: string, name: string }
+  shop: { slug: string, name: string }
   region: string
   /** 0–100: closeness, consistency and the number of proven builds, weighted 45/30/25. */
   score: number
@@ -59,9 +59,9 @@ export function rankShopsForTarget(index: SearchIndex, target: TargetQuery): Tar
   })
   const byShop = new Map<string, SearchHit[]>()
   for (const hit of hits) {
-    const list = byShop.get(hit.builder.slug) ?? []
+    const list = byShop.get(hit.shop.slug) ?? []
     list.push(hit)
-    byShop.set(hit.builder.slug, list)
+    byShop.set(hit.shop.slug, list)
   }
   const shops: ShopForTarget[] = []
   for (const list of byShop.values()) {
@@ -75,7 +75,7 @@ export function rankShopsForTarget(index: SearchIndex, target: TargetQuery): Tar
     const evidence = 1 - 1 / (1 + n)
     const first = list[0] as SearchHit
     shops.push({
-      builder: { ...first.builder },
+      shop: { ...first.shop },
       region: first.region,
       score: Math.round(1000 * (0.45 * closeness + 0.3 * consistency + 0.25 * evidence)) / 10,
       builds: n,
@@ -84,6 +84,6 @@ export function rankShopsForTarget(index: SearchIndex, target: TargetQuery): Tar
       closest: list.slice(0, 3).map(h => ({ slug: h.slug, title: h.title, displacementCi: h.displacementCi, peakHp: h.peakHp as number })),
     })
   }
-  shops.sort((a, b) => b.score - a.score || b.builds - a.builds || a.builder.slug.localeCompare(b.builder.slug))
+  shops.sort((a, b) => b.score - a.score || b.builds - a.builds || a.shop.slug.localeCompare(b.shop.slug))
   return { target, window, shops: shops.slice(0, target.limit) }
 }

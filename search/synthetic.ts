@@ -1,5 +1,5 @@
 /**
- * Invented listings for the bench and the unit tests (never shown by the app): a seeded generator
+ * Invented builds for the bench and the unit tests (never shown by the app): a seeded generator
  * of search documents with formulaic titles, a long tail of invented shop and part words, and
  * smooth parametric power curves on the index's rpm grid.
  */
@@ -73,7 +73,7 @@ function curve(r: Random, peakHpTarget: number, redline: number, boosted: boolea
   return { startRpm, hp, peakHp: hp[hi] as number, peakHpRpm: startRpm + hi * CURVE_STEP_RPM, peakTq: lbFt[ti] as number, peakTqRpm: startRpm + ti * CURVE_STEP_RPM }
 }
 
-/** `count` invented listings from `shops` shops, the same for the same arguments. */
+/** `count` invented builds from `shops` shops, the same for the same arguments. */
 export function syntheticDocuments(count: number, opts: { seed?: number, shops?: number } = {}): SearchDocument[] {
   const r = seededRandom(opts.seed ?? 20261201)
   const shops = syntheticShops(opts.shops ?? Math.max(8, Math.round(count / 60)), (opts.seed ?? 20261201) + 1)
@@ -112,7 +112,7 @@ export function syntheticDocuments(count: number, opts: { seed?: number, shops?:
       heads,
       camshaft: `${duration}°/${duration + r.pick([4, 6, 8, 10])}° at 0.050 in, ${r.pick([106, 108, 110, 112, 114, 116])}° lobe separation`,
       intake,
-      builder: { id: shop.id, slug: shop.slug, name: shop.name },
+      shop: { id: shop.id, slug: shop.slug, name: shop.name },
       family: family.label,
       displacementCi: ci,
       peakHp: c?.peakHp ?? null,

@@ -3,18 +3,18 @@
  * radix tree (SearchableMap) finds the vocabulary terms a typed word matches, exactly, as a prefix
  * (as-you-type) or within an edit distance (typos). Which documents hold a term lives here, in
  * typed arrays addressed by the same slots as the numeric columns, so a query over 100,000
- * listings never builds an object per matching document.
+ * builds never builds an object per matching document.
  */
 import MiniSearch from 'minisearch'
 import SearchableMap from 'minisearch/SearchableMap'
 
 /** The text fields of a document, with a bit each in a posting's field mask. */
-export const TEXT_FIELDS = ['title', 'summary', 'parts', 'heads', 'camshaft', 'intake', 'builder'] as const
+export const TEXT_FIELDS = ['title', 'summary', 'parts', 'heads', 'camshaft', 'intake', 'shop'] as const
 export type TextField = (typeof TEXT_FIELDS)[number]
 export type TextFields = Record<TextField, string | readonly string[]>
 
 /** How much a match in each field counts towards relevance: the title and the shop's name most. */
-const FIELD_BOOST: Record<TextField, number> = { title: 3, summary: 1, parts: 1, heads: 1.5, camshaft: 1.5, intake: 1.5, builder: 2 }
+const FIELD_BOOST: Record<TextField, number> = { title: 3, summary: 1, parts: 1, heads: 1.5, camshaft: 1.5, intake: 1.5, shop: 2 }
 const BOOST_BY_MASK = new Float64Array(1 << TEXT_FIELDS.length)
 for (let mask = 1; mask < BOOST_BY_MASK.length; mask++) {
   let best = 0
@@ -24,7 +24,7 @@ for (let mask = 1; mask < BOOST_BY_MASK.length; mask++) {
   BOOST_BY_MASK[mask] = best
 }
 
-/** Words too common in listings to narrow anything down. */
+/** Words too common in builds to narrow anything down. */
 const STOP_WORDS = new Set(['a', 'an', 'and', 'at', 'by', 'for', 'in', 'of', 'on', 'the', 'to', 'with', 'use'])
 /**
  * A typed prefix expands to at most this many vocabulary terms, the most common first: fewer for
@@ -36,8 +36,8 @@ export function prefixCap(length: number): number {
 /** Prefix expansion starts at this many typed characters. */
 export const PREFIX_MIN_LENGTH = 2
 
-/** Fields whose text repeats across listings (shop names, heads, intakes), so their term ids are remembered. */
-const REPEATING_FIELDS = Uint8Array.from(TEXT_FIELDS, f => (f === 'builder' || f === 'heads' || f === 'intake' ? 1 : 0))
+/** Fields whose text repeats across builds (shop names, heads, intakes), so their term ids are remembered. */
+const REPEATING_FIELDS = Uint8Array.from(TEXT_FIELDS, f => (f === 'shop' || f === 'heads' || f === 'intake' ? 1 : 0))
 /** At most this many remembered lines. */
 const LINE_CACHE_SIZE = 200_000
 
@@ -199,7 +199,7 @@ export class TextIndex {
     return id
   }
 
-  /** Term ids of one line of text, remembered for the fields whose text repeats across listings. */
+  /** Term ids of one line of text, remembered for the fields whose text repeats across builds. */
   private lineTerms(line: string, cache: boolean): number[] {
     let ids = cache ? this.lineCache.get(line) : undefined
     if (!ids) {

@@ -32,7 +32,7 @@ export interface SearchDocument {
   heads: string
   camshaft: string
   intake: string
-  builder: { id: number, slug: string, name: string }
+  shop: { id: number, slug: string, name: string }
   family: string
   displacementCi: number
   /** Peaks under SAE J1349 (2004), recomputed from the headline pull; null when the build has no usable pull. */
@@ -83,7 +83,7 @@ export interface SearchHit {
   id: number
   slug: string
   title: string
-  builder: { slug: string, name: string }
+  shop: { slug: string, name: string }
   family: string
   region: string
   use: Use

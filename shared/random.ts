@@ -1,4 +1,4 @@
-/** A small seeded generator (mulberry32), so the demo scenario and the invented search listings are the same on every machine. */
+/** A small seeded generator (mulberry32), so the demo scenario and the invented search builds are the same on every machine. */
 export function seededRandom(seed: number) {
   let a = seed >>> 0
   const next = () => {

@@ -31,7 +31,7 @@ export const OUTCOME_TONE: Record<string, string> = {
   fail: 'bg-signal-wash text-signal',
 }
 
-/** Where a duplicate's other build is seen: its public page while published, else the admin's listings search. */
+/** Where a duplicate's other build is seen: its public page while published, else the admin's builds search. */
 export function duplicateHref(d: { slug: string, status: string }): string {
   return d.status === 'published' ? `/builds/${d.slug}` : `/admin/listings?q=${encodeURIComponent(d.slug)}`
 }

@@ -11,14 +11,14 @@ export interface BudgetFields { budgetMin: string, budgetMax: string, deadline: 
 const num = (s: string) => (s.trim() === '' ? null : Number(s.replace(/,/g, '')))
 
 /** The body for POST /api/requests, plus any money field that did not read as an amount. */
-export function requestBody(builder: string, build: string | undefined, t: TargetFields, d: DrivetrainFields, b: BudgetFields, attachmentIds: number[]) {
+export function requestBody(shop: string, build: string | undefined, t: TargetFields, d: DrivetrainFields, b: BudgetFields, attachmentIds: number[]) {
   const errors: Record<string, string> = {}
   const min = parseMoney(b.budgetMin || '0')
   const max = parseMoney(b.budgetMax)
   if (!min.ok) errors.budgetMinCents = min.message
   if (!max.ok) errors.budgetMaxCents = max.message
   const body: Partial<Record<keyof QuoteRequestInput, unknown>> = {
-    builder, build, title: b.title, notes: b.notes, deadline: b.deadline || null, attachmentIds,
+    shop, build, title: b.title, notes: b.notes, deadline: b.deadline || null, attachmentIds,
     targetHp: num(t.targetHp), targetTq: num(t.targetTq), targetStandard: t.targetStandard, displacementCapCi: num(t.displacementCapCi),
     fuel: d.fuel, aspiration: d.aspiration, intendedUse: d.intendedUse, transmission: d.transmission,
     launchRpm: d.transmission === 'automatic' ? null : num(d.launchRpm),

@@ -1,7 +1,7 @@
 import type { EditorFields } from '#shared/types/editor'
 import { ASPIRATION_LABELS, FUEL_LABELS, USE_LABELS } from './format'
 
-/** How the listing editor shows each field: label, input kind, unit and hint, grouped as the builder thinks of them. */
+/** How the build editor shows each field: label, input kind, unit and hint, grouped as the shop thinks of them. */
 export interface EditorFieldSpec {
   key: keyof EditorFields
   label: string
@@ -31,7 +31,7 @@ export interface EditorFieldGroup {
 
 export const EDITOR_GROUPS: EditorFieldGroup[] = [
   {
-    title: 'The listing',
+    title: 'The build',
     fields: [
       { key: 'title', label: 'Title', kind: 'text', wide: true },
       { key: 'summary', label: 'Summary', kind: 'textarea', wide: true, hint: 'What the build is for and what makes it work, in a few sentences.' },

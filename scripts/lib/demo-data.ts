@@ -122,7 +122,7 @@ export interface DemoPull {
 }
 
 /**
- * A demo listing: the combination exactly as the publish schema holds it (shared/schemas/build.ts, so a
+ * A demo build: the combination exactly as the publish schema holds it (shared/schemas/build.ts, so a
  * new combination field is asked for here too), and what the seed needs besides.
  */
 export type DemoBuild = PublishableBuild & {
@@ -197,7 +197,7 @@ const USE_WORDS: Record<Use, string> = { drag: 'drag', road_course: 'road course
 const FUEL_WORDS: Record<Fuel, string> = { pump_gas: 'pump gas', race_gas: 'race gas', e85: 'E85', methanol: 'methanol' }
 
 /**
- * A listing's price from its parts list: the parts and labor times the shop's margin, rounded up to whole
+ * A build's price from its parts list: the parts and labor times the shop's margin, rounded up to whole
  * hundreds of dollars. The labor line carries the margin, so the parts list adds up to the price exactly.
  */
 function priced(margin: number, publishedDaysAgo: number, parts: DemoBuild['parts']) {
@@ -217,7 +217,7 @@ function partsList(r: Random, b: { family: FamilyKey, aspiration: Aspiration, fu
     { category: 'Rotating assembly', part: `H-beam connecting rods, ${b.rodLengthIn.toFixed(3)} in`, partNumber: code('RD', r.int(1, 99)), quantity: 1, unitPriceCents: c(1250) },
     { category: 'Rotating assembly', part: b.aspiration === 'na' ? 'Forged pistons, gas-ported, 1.0 mm top ring' : 'Forged pistons, thick crown for boost', partNumber: code('PS', r.int(1, 99)), quantity: 1, unitPriceCents: c(1100) },
     { category: 'Rotating assembly', part: 'Ring set, file-fit', partNumber: code('RG', r.int(1, 99)), quantity: 1, unitPriceCents: c(240) },
-    // The draws stay (the scenario is the same on every run); the parts list names the listing's own heads and intake.
+    // The draws stay (the scenario is the same on every run); the parts list names the build's own heads and intake.
     { category: 'Cylinder heads', part: (r.pick(HEADS[b.family]), b.heads), partNumber: code('HD', r.int(1, 99)), quantity: b.family === 'inline_six' ? 1 : 2, unitPriceCents: c(1700) },
     { category: 'Camshaft and valvetrain', part: 'Roller camshaft, custom grind', partNumber: code('CM', r.int(1, 99)), quantity: 1, unitPriceCents: c(650) },
     { category: 'Camshaft and valvetrain', part: 'Roller lifters and pushrods, measured length', partNumber: code('VT', r.int(1, 99)), quantity: 1, unitPriceCents: c(900) },

@@ -69,7 +69,7 @@ export async function seedDemoDeals(db: Db, platformFeeBps = 500): Promise<numbe
     actor(db, 'alma@racer.test'), actor(db, 'jonah@racer.test'), actor(db, 'keon@racer.test'),
     actor(db, 'marisol@harrow-creek.test'), actor(db, 'hollis@tallgrass.test'),
   ])
-  const [harrowBuild] = await db.select({ slug: schema.builds.slug }).from(schema.builds).where(eq(schema.builds.builderId, marisol.builderId!)).limit(1)
+  const [harrowBuild] = await db.select({ slug: schema.builds.slug }).from(schema.builds).where(eq(schema.builds.shopId, marisol.shopId!)).limit(1)
   const request = (overrides: Record<string, unknown>) => quoteRequestSchema.parse({
     targetStandard: 'SAE_J1349_2004', fuel: 'race_gas', aspiration: 'na', intendedUse: 'drag', transmission: 'automatic',
     stallRpm: 5200, shiftRpm: 7400, budgetMinCents: 1_800_000, budgetMaxCents: 2_600_000, deadline: inDays(120), ...overrides,
@@ -77,7 +77,7 @@ export async function seedDemoDeals(db: Db, platformFeeBps = 500): Promise<numbe
 
   // 1: an accepted quote and an open order (Alma with Harrow Creek).
   const one = await createRequest(ctx, alma, request({
-    builder: 'harrow-creek-engine-works', build: harrowBuild?.slug, title: DEMO_DEAL_TITLES.order, targetHp: 610, targetTq: 520, displacementCapCi: 365,
+    shop: 'harrow-creek-engine-works', build: harrowBuild?.slug, title: DEMO_DEAL_TITLES.order, targetHp: 610, targetTq: 520, displacementCapCi: 365,
     notes: 'The class caps displacement at 365 ci and wants a sealed intake. Car weighs 2,900 lb with driver.',
   }))
   await postMessage(ctx, marisol, one.id, { body: 'Thanks Alma. Is the 365 ci cap measured with the final overbore?', attachmentIds: [] })
@@ -87,7 +87,7 @@ export async function seedDemoDeals(db: Db, platformFeeBps = 500): Promise<numbe
 
   // 2: an open request with no quote yet (Jonah to Ninefold).
   const two = await createRequest(ctx, jonah, request({
-    builder: 'ninefold-machine', title: DEMO_DEAL_TITLES.open, targetHp: 720, targetTq: 590, fuel: 'e85', aspiration: 'turbo',
+    shop: 'ninefold-machine', title: DEMO_DEAL_TITLES.open, targetHp: 720, targetTq: 590, fuel: 'e85', aspiration: 'turbo',
     intendedUse: 'road_course', transmission: 'sequential', stallRpm: null, shiftRpm: 7800, displacementCapCi: null,
     notes: 'Twenty-minute sessions; oil temperature has to stay under control.',
   }))
@@ -95,7 +95,7 @@ export async function seedDemoDeals(db: Db, platformFeeBps = 500): Promise<numbe
 
   // 3: a quote in its second revision, waiting for an answer (Keon with Tallgrass).
   const three = await createRequest(ctx, keon, request({
-    builder: 'tallgrass-racing-engines', title: DEMO_DEAL_TITLES.quoted, targetHp: 980, targetTq: 820, fuel: 'methanol', displacementCapCi: null, budgetMaxCents: 4_200_000,
+    shop: 'tallgrass-racing-engines', title: DEMO_DEAL_TITLES.quoted, targetHp: 980, targetTq: 820, fuel: 'methanol', displacementCapCi: null, budgetMaxCents: 4_200_000,
   }))
   await sendQuote(ctx, hollis, three.id, quote([900_000, 1_900_000, 800_000], null))
   await postMessage(ctx, keon, three.id, { body: 'Could the rotating assembly come down a little? I have a crank already.', attachmentIds: [] })
@@ -119,7 +119,7 @@ export async function seedDemoDispute(db: Db, storage: Storage, stripe: Stripe, 
   const ctx: DealContext = { db, stripe, config: { platformFeeBps, autoApproveDays: 7, siteUrl: 'http://127.0.0.1:3000' }, now: () => new Date() }
   const [samir, priya] = await Promise.all([actor(db, 'samir@racer.test'), actor(db, 'priya@cinderflats.test')])
   const request = await createRequest(ctx, samir, quoteRequestSchema.parse({
-    builder: 'cinder-flats-performance', title: DEMO_DEAL_TITLES.disputed, targetHp: 780, targetTq: 690, targetStandard: 'SAE_J1349_2004',
+    shop: 'cinder-flats-performance', title: DEMO_DEAL_TITLES.disputed, targetHp: 780, targetTq: 690, targetStandard: 'SAE_J1349_2004',
     displacementCapCi: null, fuel: 'e85', aspiration: 'turbo', intendedUse: 'street_strip', transmission: 'automatic', stallRpm: 4200, shiftRpm: 6800,
     budgetMinCents: 2_200_000, budgetMaxCents: 3_000_000, deadline: inDays(150),
     notes: 'Single turbo, street manners on pump E85. Forged bottom end, the block must take the boost.',

@@ -124,8 +124,8 @@ export async function seedDemoReviews(db: Db, platformFeeBps = 500): Promise<num
     actor(db, 'freya@racer.test'), actor(db, 'samir@racer.test'), actor(db, 'hollis@tallgrass.test'), actor(db, 'tobias@kestrelbay.test'),
   ])
   const inDays = (n: number) => dayOf(new Date(Date.now() + n * DAY))
-  const shopSlug = async (a: typeof hollis) => (await db.select({ slug: schema.builderProfiles.slug }).from(schema.builderProfiles).where(eq(schema.builderProfiles.id, a.builderId!)).limit(1))[0]!.slug
-  const firstBuild = async (a: typeof hollis) => (await db.select({ slug: schema.builds.slug }).from(schema.builds).where(and(eq(schema.builds.builderId, a.builderId!), eq(schema.builds.status, 'published'))).limit(1))[0]?.slug
+  const shopSlug = async (a: typeof hollis) => (await db.select({ slug: schema.shops.slug }).from(schema.shops).where(eq(schema.shops.id, a.shopId!)).limit(1))[0]!.slug
+  const firstBuild = async (a: typeof hollis) => (await db.select({ slug: schema.builds.slug }).from(schema.builds).where(and(eq(schema.builds.shopId, a.shopId!), eq(schema.builds.status, 'published'))).limit(1))[0]?.slug
 
   const deals: { racer: typeof freya, shop: typeof hollis, title: string, past: Omit<PastDeal, 'requestId' | 'orderId' | 'shopUserId'>, review?: { rating: number, aspects: ReviewAspects, body: string, showDeliveryPull?: boolean, answer?: string } }[] = [
     {
@@ -160,7 +160,7 @@ export async function seedDemoReviews(db: Db, platformFeeBps = 500): Promise<num
     const slug = await shopSlug(d.shop)
     const build = await firstBuild(d.shop)
     const request = await createRequest(ctx, d.racer, quoteRequestSchema.parse({
-      builder: slug, build, title: d.title, targetHp: 600, targetTq: 500, targetStandard: 'SAE_J1349_2004', displacementCapCi: null, fuel: 'pump_gas', aspiration: 'na',
+      shop: slug, build, title: d.title, targetHp: 600, targetTq: 500, targetStandard: 'SAE_J1349_2004', displacementCapCi: null, fuel: 'pump_gas', aspiration: 'na',
       intendedUse: d.shop === tobias ? 'marine' : 'street_strip', transmission: d.shop === tobias ? 'none' : 'manual', stallRpm: null, shiftRpm: 7000, budgetMinCents: 1_500_000, budgetMaxCents: 2_200_000, deadline: null, notes: 'An invented demo deal.',
     }))
     if (d.past.replyAfterH !== undefined) await postMessage(ctx, d.shop, request.id, { body: 'Thanks for the details; a few questions before we quote.', attachmentIds: [] })
@@ -180,7 +180,7 @@ export async function seedDemoReviews(db: Db, platformFeeBps = 500): Promise<num
       const written = new Date(order!.completedAt!.getTime() + 3 * DAY)
       const [reqRow] = await db.select({ buildId: schema.quoteRequests.buildId }).from(schema.quoteRequests).where(eq(schema.quoteRequests.id, request.id)).limit(1)
       await db.insert(schema.reviews).values({
-        orderId, builderId: d.shop.builderId!, buildId: reqRow?.buildId ?? null, authorId: d.racer.id, rating: d.review.rating, aspects: d.review.aspects, body: d.review.body,
+        orderId, shopId: d.shop.shopId!, buildId: reqRow?.buildId ?? null, authorId: d.racer.id, rating: d.review.rating, aspects: d.review.aspects, body: d.review.body,
         showDeliveryPull: d.review.showDeliveryPull ?? false, createdAt: written,
         answer: d.review.answer ?? null, answeredAt: d.review.answer ? new Date(written.getTime() + DAY) : null,
       })

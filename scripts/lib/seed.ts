@@ -21,7 +21,7 @@ import { demoSwapBuilds } from './seed-swaps'
 import { seedDemoReviews } from './seed-reviews'
 import { DEMO_ADMIN, DEMO_PASSWORD, DEMO_RACERS, DEMO_SHOPS, demoBuilds, pullCsv, type DemoPull } from './demo-data'
 
-const { builderProfiles, buildParts, builds, dynoPulls, files, pullFigures, users } = schema
+const { shops, buildParts, builds, dynoPulls, files, pullFigures, users } = schema
 type Db = MySql2Database<typeof schema>
 
 async function ensureUser(db: Db, u: { name: string, email: string, role: 'racer' | 'builder' | 'admin' }, passwordHash: string): Promise<number> {
@@ -50,10 +50,10 @@ export async function seedDemo(opts: { url: string, uploadsDir: string, uploadsD
     const shopIds = new Map<string, { profileId: number, userId: number }>()
     for (const shop of DEMO_SHOPS) {
       const userId = await ensureUser(db, { ...shop.owner, role: 'builder' }, passwordHash)
-      const [existing] = await db.select({ id: builderProfiles.id }).from(builderProfiles).where(eq(builderProfiles.slug, shop.slug))
+      const [existing] = await db.select({ id: shops.id }).from(shops).where(eq(shops.slug, shop.slug))
       let profileId = existing?.id
       if (!profileId) {
-        const [row] = await db.insert(builderProfiles).values({
+        const [row] = await db.insert(shops).values({
           userId, shopName: shop.shopName, slug: shop.slug, region: shop.region, bio: shop.bio, specialties: shop.specialties, capabilities: shop.capabilities,
         }).$returningId()
         profileId = row!.id
@@ -106,7 +106,7 @@ export async function seedDemo(opts: { url: string, uploadsDir: string, uploadsD
         const [row] = await tx.insert(builds).values({
           ...columns,
           slug: b.slug,
-          builderId: shop.profileId,
+          shopId: shop.profileId,
           status: 'published',
           publishedAt,
           peakHp: headline?.summary.peakHp ?? null,

@@ -1,8 +1,8 @@
 import { averagePower } from '#shared/engine'
 import { compareQuery } from '#shared/schemas/curves'
-import type { CompareRow } from '#shared/types/listings'
+import type { CompareRow } from '#shared/types/builds'
 import { curvesForBuild, publishedBuildId } from '../services/curves'
-import { getPublishedBuild } from '../services/listings'
+import { getPublishedBuild } from '../services/builds'
 
 /**
  * Up to four published builds side by side under one standard: each build's combination and price, its

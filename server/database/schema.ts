@@ -45,7 +45,7 @@ export const users = mysqlTable('users', {
   updatedAt: updatedAt(),
 }, t => [uniqueIndex('users_email_unique').on(t.email)])
 
-export const builderProfiles = mysqlTable('builder_profiles', {
+export const shops = mysqlTable('builder_profiles', {
   id: id(),
   userId: ref('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
   shopName: varchar('shop_name', { length: 120 }).notNull(),
@@ -63,10 +63,10 @@ export const builderProfiles = mysqlTable('builder_profiles', {
 
 export const builds = mysqlTable('builds', {
   id: id(),
-  builderId: ref('builder_id').notNull().references(() => builderProfiles.id, { onDelete: 'cascade' }),
+  shopId: ref('builder_id').notNull().references(() => shops.id, { onDelete: 'cascade' }),
   slug: varchar('slug', { length: 160 }).notNull(),
   title: varchar('title', { length: 160 }).notNull(),
-  // The combination may be NULL only while the listing is a draft: publishing checks it with
+  // The combination may be NULL only while the build is a draft: publishing checks it with
   // shared/schemas/build.ts and the builds_published_complete constraint below holds it in the table.
   summary: text('summary'),
   engineFamily: varchar('engine_family', { length: 60 }),
@@ -107,7 +107,7 @@ export const builds = mysqlTable('builds', {
   updatedAt: updatedAt(),
 }, t => [
   uniqueIndex('builds_slug_unique').on(t.slug),
-  index('builds_builder_idx').on(t.builderId),
+  index('builds_builder_idx').on(t.shopId),
   index('builds_status_idx').on(t.status),
   check('builds_published_complete', sql`${t.status} <> 'published' OR (${sql.join(REQUIRED_FOR_PUBLISH.map(k => sql`${t[k]} IS NOT NULL`), sql` AND `)})`),
 ])
@@ -190,7 +190,7 @@ export const pullFigures = mysqlTable('pull_figures', {
   computedAt: datetime('computed_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`).$onUpdate(() => new Date()),
 })
 
-// ── Listing editor: a build's photos, in the order the builder set ──
+// ── Build editor: a build's photos, in the order the shop set ──
 
 export const buildPhotos = mysqlTable('build_photos', {
   id: id(),
@@ -206,7 +206,7 @@ export const buildPhotos = mysqlTable('build_photos', {
 
 export type User = typeof users.$inferSelect
 export type NewUser = typeof users.$inferInsert
-export type BuilderProfile = typeof builderProfiles.$inferSelect
+export type Shop = typeof shops.$inferSelect
 export type Build = typeof builds.$inferSelect
 export type NewBuild = typeof builds.$inferInsert
 export type BuildPart = typeof buildParts.$inferSelect
@@ -280,11 +280,11 @@ const cents = (name: string) => bigint(name, { mode: 'number', unsigned: true })
 const day = (name: string) => date(name, { mode: 'string' })
 const at = (name: string) => datetime(name, { mode: 'date', fsp: 3 })
 
-/** A racer's request for a quote, to one shop, optionally from one of its build listings. */
+/** A racer's request for a quote, to one shop, optionally from one of its published builds. */
 export const quoteRequests = mysqlTable('quote_requests', {
   id: id(),
   racerId: ref('racer_id').notNull().references(() => users.id),
-  builderId: ref('builder_id').notNull().references(() => builderProfiles.id),
+  shopId: ref('builder_id').notNull().references(() => shops.id),
   buildId: ref('build_id').references(() => builds.id, { onDelete: 'set null' }),
   title: varchar('title', { length: 160 }).notNull(),
   targetHp: figure('target_hp').notNull(),
@@ -309,7 +309,7 @@ export const quoteRequests = mysqlTable('quote_requests', {
   updatedAt: updatedAt(),
 }, t => [
   index('quote_requests_racer_idx').on(t.racerId, t.lastMessageAt),
-  index('quote_requests_builder_idx').on(t.builderId, t.lastMessageAt),
+  index('quote_requests_builder_idx').on(t.shopId, t.lastMessageAt),
 ])
 
 /** The thread of a request: messages both ways, and notes the system adds when the deal moves. */
@@ -346,7 +346,7 @@ export const messageReads = mysqlTable('message_reads', {
 export const quotes = mysqlTable('quotes', {
   id: id(),
   requestId: ref('request_id').notNull().references(() => quoteRequests.id, { onDelete: 'cascade' }),
-  builderId: ref('builder_id').notNull().references(() => builderProfiles.id),
+  shopId: ref('builder_id').notNull().references(() => shops.id),
   status: mysqlEnum('status', quoteStatuses).notNull().default('sent'),
   currentRevision: int('current_revision', { unsigned: true }).notNull().default(1),
   createdAt: createdAt(),
@@ -398,7 +398,7 @@ export const orders = mysqlTable('orders', {
   quoteId: ref('quote_id').notNull().references(() => quotes.id),
   revisionId: ref('revision_id').notNull().references(() => quoteRevisions.id),
   racerId: ref('racer_id').notNull().references(() => users.id),
-  builderId: ref('builder_id').notNull().references(() => builderProfiles.id),
+  shopId: ref('builder_id').notNull().references(() => shops.id),
   totalCents: cents('total_cents').notNull(),
   platformFeeCents: cents('platform_fee_cents').notNull(),
   currency: char('currency', { length: 3 }).notNull().default('usd'),
@@ -411,7 +411,7 @@ export const orders = mysqlTable('orders', {
 }, t => [
   uniqueIndex('orders_request_unique').on(t.requestId),
   index('orders_racer_idx').on(t.racerId),
-  index('orders_builder_idx').on(t.builderId),
+  index('orders_builder_idx').on(t.shopId),
 ])
 
 /** One milestone of an order: its money moves only through the state column, checked in a locked transaction. */
@@ -465,7 +465,7 @@ export const changeOrders = mysqlTable('change_orders', {
   createdAt: createdAt(),
 }, t => [index('change_orders_order_idx').on(t.orderId, t.status)])
 
-/** Photos and files a builder sends as proof with a submitted milestone. */
+/** Photos and files a shop sends as proof with a submitted milestone. */
 export const milestoneProofs = mysqlTable('milestone_proofs', {
   id: id(),
   milestoneId: ref('milestone_id').notNull().references(() => milestones.id, { onDelete: 'cascade' }),
@@ -516,14 +516,14 @@ export const payments = mysqlTable('payments', {
   index('payments_intent_idx').on(t.stripePaymentIntentId),
 ])
 
-/** The builder's connected account that releases are transferred to. */
+/** The shop's connected account that releases are transferred to. */
 export const payoutAccounts = mysqlTable('payout_accounts', {
   id: id(),
-  builderId: ref('builder_id').notNull().references(() => builderProfiles.id, { onDelete: 'cascade' }),
+  shopId: ref('builder_id').notNull().references(() => shops.id, { onDelete: 'cascade' }),
   stripeAccountId: varchar('stripe_account_id', { length: 255 }).notNull(),
   createdAt: createdAt(),
 }, t => [
-  uniqueIndex('payout_accounts_builder_unique').on(t.builderId),
+  uniqueIndex('payout_accounts_builder_unique').on(t.shopId),
   uniqueIndex('payout_accounts_stripe_unique').on(t.stripeAccountId),
 ])
 
@@ -652,7 +652,7 @@ export interface ReviewAspects {
 export const reviews = mysqlTable('reviews', {
   id: id(),
   orderId: ref('order_id').notNull().references(() => orders.id),
-  builderId: ref('builder_id').notNull().references(() => builderProfiles.id, { onDelete: 'cascade' }),
+  shopId: ref('builder_id').notNull().references(() => shops.id, { onDelete: 'cascade' }),
   buildId: ref('build_id').references(() => builds.id, { onDelete: 'set null' }),
   authorId: ref('author_id').notNull().references(() => users.id),
   rating: int('rating', { unsigned: true }).notNull(),
@@ -668,7 +668,7 @@ export const reviews = mysqlTable('reviews', {
   createdAt: createdAt(),
 }, t => [
   uniqueIndex('reviews_order_unique').on(t.orderId),
-  index('reviews_builder_idx').on(t.builderId, t.createdAt),
+  index('reviews_builder_idx').on(t.shopId, t.createdAt),
   index('reviews_build_idx').on(t.buildId),
   check('reviews_rating_range', sql`${t.rating} between 1 and 5`),
 ])

@@ -9,14 +9,14 @@ const CHECK_EVERY_MS = Number(process.env.TW_SEARCH_CHECK_MS) || 5 * 60_000
 const FEED_EVERY_MS = process.env.TW_SEARCH_FEED_MS === undefined ? 250 : Number(process.env.TW_SEARCH_FEED_MS)
 
 // Builds the search index from MariaDB at start, then keeps checking it against the database.
-// The bench alone (TW_BENCH=1 with TW_SEARCH_SYNTHETIC=<count>) fills it with invented listings instead.
+// The bench alone (TW_BENCH=1 with TW_SEARCH_SYNTHETIC=<count>) fills it with invented builds instead.
 export default defineNitroPlugin((nitroApp) => {
   const synthetic = Number(process.env.TW_SEARCH_SYNTHETIC)
   if (process.env.TW_BENCH === '1' && synthetic > 0) {
     // Built once the server listens (building blocks the event loop), so the bench sees it start.
     setTimeout(() => {
       loadSyntheticIndex(synthetic).then(
-        r => console.log(`search: bench index of ${r.documents} invented listings built in ${r.ms} ms`),
+        r => console.log(`search: bench index of ${r.documents} invented builds built in ${r.ms} ms`),
         err => console.error('search: the bench index failed to build', err),
       )
     }, 1000)
@@ -24,8 +24,8 @@ export default defineNitroPlugin((nitroApp) => {
   }
   if (!useRuntimeConfig().databaseUrl) return
   const db = useDb()
-  // Every listing write and evidence decision reaches the index at once through this hook; once the
-  // index is in step, a build that became a verified listing is announced to the saved searches it matches.
+  // Every build write and evidence decision reaches the index at once through this hook; once the
+  // index is in step, a build that became a verified build is announced to the saved searches it matches.
   // The announcement row is unique per search and build, so every instance that sees the change may
   // try: one writes it and queues the mail, the others find it written.
   const bringInStep = async (buildId: number) => {

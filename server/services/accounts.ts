@@ -5,8 +5,8 @@ import type { Role } from '../../shared/domain'
 import type { SignUpInput, UnitSystem } from '../../shared/schemas/auth'
 import { firstFreeSlug, slugify } from '../../shared/text/slug'
 import type { AccountProfile, AdminUserRow } from '../../shared/types/auth'
-import type { Page } from '../../shared/types/listings'
-import { authTokens, builderProfiles, users, type User } from '../database/schema'
+import type { Page } from '../../shared/types/builds'
+import { authTokens, shops, users, type User } from '../database/schema'
 import type { Database } from '../database/types'
 import { inRetriedTransaction } from '../utils/transaction'
 import { writeAudit } from './audit'
@@ -46,13 +46,13 @@ export async function findUserById(db: Database, id: number): Promise<User | und
 /** A shop slug from the shop name that no other shop has yet (harrow-creek, harrow-creek-2, …). */
 async function freeShopSlug(db: Pick<Database, 'select'>, shopName: string): Promise<string> {
   const base = slugify(shopName, 130) || 'shop'
-  const rows = await db.select({ slug: builderProfiles.slug }).from(builderProfiles)
-    .where(or(eq(builderProfiles.slug, base), like(builderProfiles.slug, `${base}-%`)))
+  const rows = await db.select({ slug: shops.slug }).from(shops)
+    .where(or(eq(shops.slug, base), like(shops.slug, `${base}-%`)))
   return firstFreeSlug(base, new Set(rows.map(r => r.slug)))
 }
 
 /**
- * Creates a racer, or a builder together with the shop profile, in one transaction.
+ * Creates a racer, or a shop owner together with the shop, in one transaction.
  * `created: false` when the e-mail is already registered (the caller must not say so).
  */
 export async function createAccount(db: Database, input: SignUpInput, passwordHash: string): Promise<{ created: true, userId: number } | { created: false }> {
@@ -64,7 +64,7 @@ export async function createAccount(db: Database, input: SignUpInput, passwordHa
         const userId = row!.id
         if (input.role === 'builder') {
           const slug = await freeShopSlug(tx, input.shopName)
-          await tx.insert(builderProfiles).values({ userId, shopName: input.shopName, slug, region: input.region, bio: '', specialties: [], capabilities: [] })
+          await tx.insert(shops).values({ userId, shopName: input.shopName, slug, region: input.region, bio: '', specialties: [], capabilities: [] })
         }
         return { created: true as const, userId }
       })
@@ -171,8 +171,8 @@ export async function consumeLink(db: Database, token: string, now = new Date())
 
 /** The account page's view of a user, with the shop when the user runs one. */
 export async function getProfile(db: Database, userId: number): Promise<AccountProfile | null> {
-  const [row] = await db.select({ user: users, shop: builderProfiles }).from(users)
-    .leftJoin(builderProfiles, eq(builderProfiles.userId, users.id))
+  const [row] = await db.select({ user: users, shop: shops }).from(users)
+    .leftJoin(shops, eq(shops.userId, users.id))
     .where(eq(users.id, userId)).limit(1)
   if (!row) return null
   const { user, shop } = row
@@ -231,7 +231,7 @@ function toAdminRow({ user, shop }: { user: User, shop: { slug: string | null, s
   }
 }
 
-const adminColumns = { user: users, shop: { slug: builderProfiles.slug, shopName: builderProfiles.shopName } }
+const adminColumns = { user: users, shop: { slug: shops.slug, shopName: shops.shopName } }
 
 /** Accounts for the admin list, by e-mail, optionally filtered by role and a piece of the name or e-mail. */
 export async function listUsers(db: Database, query: { q?: string, role?: Role, page: number, perPage: number }): Promise<Page<AdminUserRow>> {
@@ -244,7 +244,7 @@ export async function listUsers(db: Database, query: { q?: string, role?: Role, 
   const where = filters.length ? and(...filters) : undefined
   const [rows, totals] = await Promise.all([
     db.select(adminColumns).from(users)
-      .leftJoin(builderProfiles, eq(builderProfiles.userId, users.id))
+      .leftJoin(shops, eq(shops.userId, users.id))
       .where(where)
       .orderBy(asc(users.email))
       .limit(query.perPage).offset((query.page - 1) * query.perPage),
@@ -255,7 +255,7 @@ export async function listUsers(db: Database, query: { q?: string, role?: Role, 
 
 /** One account as the admin list shows it, or null. */
 export async function getAdminUserRow(db: Database, id: number): Promise<AdminUserRow | null> {
-  const [row] = await db.select(adminColumns).from(users).leftJoin(builderProfiles, eq(builderProfiles.userId, users.id)).where(eq(users.id, id)).limit(1)
+  const [row] = await db.select(adminColumns).from(users).leftJoin(shops, eq(shops.userId, users.id)).where(eq(users.id, id)).limit(1)
   return row ? toAdminRow(row) : null
 }
 
@@ -282,8 +282,8 @@ export async function setSuspended(db: Database, actorId: number, userId: number
 }
 
 /**
- * Raises an account to admin, with an audit row (actor null: the command line). A builder keeps a
- * shop, and a user has one role, so a builder account is refused.
+ * Raises an account to admin, with an audit row (actor null: the command line). A shop keeps a
+ * shop, and a user has one role, so a shop account is refused.
  */
 export async function makeAdmin(db: Database, actorId: number | null, userId: number): Promise<'changed' | 'already'> {
   return inRetriedTransaction(db, async (tx) => {

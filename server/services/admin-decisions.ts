@@ -5,7 +5,7 @@ import type { AdminContext } from '../utils/admin'
 import { adminEmails, type RenderedMail } from './mail-templates'
 import { enqueueRendered } from './outbox'
 import { reindexBuildAfterAdminChange } from './build-events'
-import { unpublishListing } from './moderation'
+import { unpublishBuild } from './moderation'
 import { approvePull, rejectPull } from './verification'
 
 export type { AdminContext } from '../utils/admin'
@@ -39,11 +39,11 @@ export async function rejectEvidence(ctx: AdminContext, actorId: number, pullId:
   return { pullId, status: 'rejected', buildSlug: r.buildSlug, mailed }
 }
 
-/** Takes a listing down, queues the reason's e-mail to the shop, and takes it out of search. */
-export async function takeDownListing(ctx: AdminContext, actorId: number, buildId: number, reason: string): Promise<{ buildId: number, status: 'draft', mailed: boolean }> {
-  const r = await unpublishListing(ctx.db, { actorId, buildId, reason })
+/** Takes a build down, queues the reason's e-mail to the shop, and takes it out of search. */
+export async function takeDownBuild(ctx: AdminContext, actorId: number, buildId: number, reason: string): Promise<{ buildId: number, status: 'draft', mailed: boolean }> {
+  const r = await unpublishBuild(ctx.db, { actorId, buildId, reason })
   await reindexBuildAfterAdminChange(buildId)
-  const body = adminEmails.listingUnpublished({ name: r.name, buildTitle: r.buildTitle, reason, dashboardUrl: `${ctx.siteUrl}/dashboard` })
+  const body = adminEmails.buildUnpublished({ name: r.name, buildTitle: r.buildTitle, reason, dashboardUrl: `${ctx.siteUrl}/dashboard` })
   const mailed = await tell(ctx, { to: r.email, ...body })
   return { buildId, status: 'draft', mailed }
 }

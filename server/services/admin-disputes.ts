@@ -5,7 +5,7 @@
 import { and, asc, desc, eq } from 'drizzle-orm'
 import { alias } from 'drizzle-orm/mysql-core'
 import type { DisputeList, DisputeListItem, DisputeReview, SettledDisputeItem } from '../../shared/types/admin'
-import { auditLog, builderProfiles, milestones, orders, quoteRequests, users } from '../database/schema'
+import { auditLog, shops, milestones, orders, quoteRequests, users } from '../database/schema'
 import { type DealActor, type DealContext, type Executor, notFound, partiesOf } from './deal-context'
 import { threadMessages } from './messages'
 import { getOrderView } from './milestones'
@@ -18,7 +18,7 @@ const SETTLE_ACTION = 'dispute.settle'
 function disputeColumns() {
   return {
     milestoneId: milestones.id, orderId: orders.id, requestId: quoteRequests.id, title: quoteRequests.title,
-    racerId: users.id, racerName: users.name, shopSlug: builderProfiles.slug, shopName: builderProfiles.shopName,
+    racerId: users.id, racerName: users.name, shopSlug: shops.slug, shopName: shops.shopName,
     milestoneTitle: milestones.title, position: milestones.position, amountCents: milestones.amountCents,
     disputedAt: milestones.disputedAt, reason: milestones.disputeReason, state: milestones.state,
   }
@@ -57,7 +57,7 @@ export async function listDisputes(db: Executor): Promise<DisputeList> {
       .innerJoin(orders, eq(orders.id, milestones.orderId))
       .innerJoin(quoteRequests, eq(quoteRequests.id, orders.requestId))
       .innerJoin(users, eq(users.id, orders.racerId))
-      .innerJoin(builderProfiles, eq(builderProfiles.id, orders.builderId))
+      .innerJoin(shops, eq(shops.id, orders.shopId))
       .where(eq(milestones.state, 'disputed'))
       .orderBy(asc(milestones.disputedAt), asc(milestones.id)),
     db.select({ ...disputeColumns(), before: auditLog.before, after: auditLog.after, note: auditLog.note, settledAt: auditLog.createdAt, settledBy: settledBy.name }).from(auditLog)
@@ -65,7 +65,7 @@ export async function listDisputes(db: Executor): Promise<DisputeList> {
       .innerJoin(orders, eq(orders.id, milestones.orderId))
       .innerJoin(quoteRequests, eq(quoteRequests.id, orders.requestId))
       .innerJoin(users, eq(users.id, orders.racerId))
-      .innerJoin(builderProfiles, eq(builderProfiles.id, orders.builderId))
+      .innerJoin(shops, eq(shops.id, orders.shopId))
       .leftJoin(settledBy, eq(settledBy.id, auditLog.actorId))
       .where(and(eq(auditLog.action, SETTLE_ACTION), eq(auditLog.entityType, 'milestone')))
       .orderBy(desc(auditLog.createdAt), desc(auditLog.id))
@@ -110,7 +110,7 @@ export async function disputeReview(ctx: DealContext, admin: DealActor, mileston
     order,
     parties: {
       racer: { name: parties.racerName, email: parties.racerEmail },
-      shop: { shopName: parties.shopName, slug: await shopSlug(ctx.db, parties.builderId), ownerName: parties.builderName, ownerEmail: parties.builderEmail },
+      shop: { shopName: parties.shopName, slug: await shopSlug(ctx.db, parties.shopId), ownerName: parties.ownerName, ownerEmail: parties.shopEmail },
     },
     thread,
     history: order.events.filter(e => e.milestoneId === milestoneId),
@@ -126,7 +126,7 @@ export async function disputeReview(ctx: DealContext, admin: DealActor, mileston
   }
 }
 
-async function shopSlug(db: Executor, builderId: number): Promise<string> {
-  const [row] = await db.select({ slug: builderProfiles.slug }).from(builderProfiles).where(eq(builderProfiles.id, builderId)).limit(1)
+async function shopSlug(db: Executor, shopId: number): Promise<string> {
+  const [row] = await db.select({ slug: shops.slug }).from(shops).where(eq(shops.id, shopId)).limit(1)
   return row?.slug ?? ''
 }

@@ -26,7 +26,7 @@ export async function afterBuildChanged(buildId: number): Promise<void> {
 
 /**
  * Keeps the search index in step after an admin changed a build (a verification, a rejection, an
- * unpublish), once the change has committed: the same hook every listing write goes through.
+ * unpublish), once the change has committed: the same hook every build write goes through.
  */
 export async function reindexBuildAfterAdminChange(buildId: number): Promise<void> {
   await afterBuildChanged(buildId)

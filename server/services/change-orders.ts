@@ -150,7 +150,7 @@ async function answered(ctx: DealContext, tx: DbTransaction, actor: DealActor, o
   await recordDealEvent(tx, { requestId: order.requestId, orderId: order.id, actorId: actor.id, action: accepted ? 'change_order_accepted' : 'change_order_declined', detail: formatCents(change.totalCents) })
   await postEvent(tx, order.requestId, actor.id, `${actor.name} ${note}`, ctx.now())
   const parties = await partiesOf(tx, order.requestId)
-  await enqueueMail(tx, parties.builderEmail, {
+  await enqueueMail(tx, parties.shopEmail, {
     kind: 'change_order_answered', shopName: parties.shopName, racerName: parties.racerName, title: parties.title, totalCents: change.totalCents,
     accepted, link: link(ctx, order.id),
   }, `change-order:${change.id}:${accepted ? 'accepted' : 'declined'}`)

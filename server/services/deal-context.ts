@@ -3,7 +3,7 @@
 // them against the real test database and the running payments fake.
 import { eq } from 'drizzle-orm'
 import { createError } from 'h3'
-import { builderProfiles, dealEvents, quoteRequests, users } from '../database/schema'
+import { shops, dealEvents, quoteRequests, users } from '../database/schema'
 import type { DealActor, Executor } from '../utils/deal-scope'
 
 export { loadActor, requestVisibleTo, type DbTransaction, type DealActor, type DealConfig, type DealContext, type Executor } from '../utils/deal-scope'
@@ -52,26 +52,26 @@ export async function recordDealEvent(tx: Executor, e: { requestId: number, orde
 /** The two parties of a request: the racer and the shop's owner, with their e-mail addresses. */
 export async function partiesOf(db: Executor, requestId: number) {
   const [row] = await db.select({
-    requestId: quoteRequests.id, title: quoteRequests.title, racerId: quoteRequests.racerId, builderId: quoteRequests.builderId,
-    racerEmail: users.email, racerName: users.name, shopName: builderProfiles.shopName, builderUserId: builderProfiles.userId,
+    requestId: quoteRequests.id, title: quoteRequests.title, racerId: quoteRequests.racerId, shopId: quoteRequests.shopId,
+    racerEmail: users.email, racerName: users.name, shopName: shops.shopName, shopUserId: shops.userId,
   }).from(quoteRequests)
     .innerJoin(users, eq(users.id, quoteRequests.racerId))
-    .innerJoin(builderProfiles, eq(builderProfiles.id, quoteRequests.builderId))
+    .innerJoin(shops, eq(shops.id, quoteRequests.shopId))
     .where(eq(quoteRequests.id, requestId)).limit(1)
   if (!row) throw notFound('That request')
-  const [builderUser] = await db.select({ email: users.email, name: users.name }).from(users).where(eq(users.id, row.builderUserId)).limit(1)
+  const [shopUser] = await db.select({ email: users.email, name: users.name }).from(users).where(eq(users.id, row.shopUserId)).limit(1)
   return {
     ...row,
-    builderEmail: builderUser?.email ?? '',
-    builderName: builderUser?.name ?? row.shopName,
+    shopEmail: shopUser?.email ?? '',
+    ownerName: shopUser?.name ?? row.shopName,
   }
 }
 
 export type Parties = Awaited<ReturnType<typeof partiesOf>>
 
 /** The actor's side of a request, or null when they are not a party. */
-export function sideOf(actor: DealActor, parties: { racerId: number, builderId: number }): 'racer' | 'builder' | null {
+export function sideOf(actor: DealActor, parties: { racerId: number, shopId: number }): 'racer' | 'builder' | null {
   if (actor.id === parties.racerId) return 'racer'
-  if (actor.builderId !== null && actor.builderId === parties.builderId) return 'builder'
+  if (actor.shopId !== null && actor.shopId === parties.shopId) return 'builder'
   return null
 }

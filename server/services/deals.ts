@@ -7,7 +7,7 @@ import type {
   DashboardOrderRow, DashboardRequestRow, DashboardView, QuoteRevisionView, QuoteView, RequestView,
 } from '../../shared/types/deals'
 import {
-  builderProfiles, builds, files, milestones, orders, quoteLineItems, quoteMilestones, quoteRequests, quoteRevisions, quotes,
+  shops, builds, files, milestones, orders, quoteLineItems, quoteMilestones, quoteRequests, quoteRevisions, quotes,
   requestAttachments, requestMessages, users, type QuoteRevision,
 } from '../database/schema'
 import { inRetriedTransaction } from '../utils/transaction'
@@ -32,12 +32,12 @@ export async function postEvent(tx: Executor, requestId: number, actorId: number
 /** A racer's quote request to one shop (optionally from one of its published builds), with its attachments. */
 export async function createRequest(ctx: DealContext, actor: DealActor, input: QuoteRequestInput): Promise<{ id: number }> {
   if (actor.role !== 'racer') throw forbidden('Only a racer can request a quote.')
-  const [shop] = await ctx.db.select().from(builderProfiles).where(eq(builderProfiles.slug, input.builder)).limit(1)
-  if (!shop) throw unprocessable(`There is no shop at "${input.builder}".`)
+  const [shop] = await ctx.db.select().from(shops).where(eq(shops.slug, input.shop)).limit(1)
+  if (!shop) throw unprocessable(`There is no shop at "${input.shop}".`)
   let buildId: number | null = null
   if (input.build) {
     const [build] = await ctx.db.select({ id: builds.id }).from(builds)
-      .where(and(eq(builds.slug, input.build), eq(builds.builderId, shop.id), eq(builds.status, 'published'))).limit(1)
+      .where(and(eq(builds.slug, input.build), eq(builds.shopId, shop.id), eq(builds.status, 'published'))).limit(1)
     if (!build) throw unprocessable(`"${input.build}" is not a published build of ${shop.shopName}.`)
     buildId = build.id
   }
@@ -46,7 +46,7 @@ export async function createRequest(ctx: DealContext, actor: DealActor, input: Q
   const id = await inRetriedTransaction(ctx.db, async (tx) => {
     const fileIds = await claimFiles(tx, actor.id, input.attachmentIds, ['attachment', 'photo'])
     const [row] = await tx.insert(quoteRequests).values({
-      racerId: actor.id, builderId: shop.id, buildId, title: input.title, targetHp: input.targetHp, targetTq: input.targetTq,
+      racerId: actor.id, shopId: shop.id, buildId, title: input.title, targetHp: input.targetHp, targetTq: input.targetTq,
       targetStandard: input.targetStandard, displacementCapCi: input.displacementCapCi, fuel: input.fuel, aspiration: input.aspiration,
       intendedUse: input.intendedUse, transmission: input.transmission, launchRpm: input.launchRpm, stallRpm: input.stallRpm, shiftRpm: input.shiftRpm,
       budgetMinCents: input.budgetMinCents, budgetMaxCents: input.budgetMaxCents, deadline: input.deadline, notes: input.notes,
@@ -57,7 +57,7 @@ export async function createRequest(ctx: DealContext, actor: DealActor, input: Q
     await postEvent(tx, requestId, actor.id, `${actor.name} asked ${shop.shopName} for a quote.`, now)
     await recordDealEvent(tx, { requestId, actorId: actor.id, action: 'request_sent' })
     const parties = await partiesOf(tx, requestId)
-    await enqueueMail(tx, parties.builderEmail, {
+    await enqueueMail(tx, parties.shopEmail, {
       kind: 'new_request', shopName: shop.shopName, racerName: actor.name, title: input.title, link: `${ctx.config.siteUrl}/deals/requests/${requestId}`,
     }, `request:${requestId}`)
     return requestId
@@ -105,7 +105,7 @@ export async function sendQuote(ctx: DealContext, actor: DealActor, requestId: n
   // The request row is locked first (the parent of the quote and of the thread's note).
   return inRetriedTransaction(ctx.db, async (tx) => {
     const request = await visibleRequest(tx, actor, requestId, true)
-    if (actor.builderId !== request.builderId) throw forbidden('Only the shop the request was sent to can quote it.')
+    if (actor.shopId !== request.shopId) throw forbidden('Only the shop the request was sent to can quote it.')
     if (request.status === 'accepted' || request.status === 'withdrawn') throw conflict(`This request is ${request.status}; it cannot be quoted again.`)
     const [existing] = await tx.select().from(quotes).where(eq(quotes.requestId, requestId)).limit(1).for('update')
     let quoteId: number
@@ -117,7 +117,7 @@ export async function sendQuote(ctx: DealContext, actor: DealActor, requestId: n
       await tx.update(quotes).set({ status: 'sent', currentRevision: revision }).where(eq(quotes.id, quoteId))
     }
     else {
-      const [row] = await tx.insert(quotes).values({ requestId, builderId: request.builderId, status: 'sent', currentRevision: 1, createdAt: now }).$returningId()
+      const [row] = await tx.insert(quotes).values({ requestId, shopId: request.shopId, status: 'sent', currentRevision: 1, createdAt: now }).$returningId()
       quoteId = row!.id
       revision = 1
     }
@@ -180,7 +180,7 @@ export async function acceptQuote(ctx: DealContext, actor: DealActor, quoteId: n
     const plan = await tx.select().from(quoteMilestones).where(eq(quoteMilestones.revisionId, rev.id)).orderBy(asc(quoteMilestones.position))
     const fees = apportion(rev.platformFeeCents, plan.map(m => m.amountCents))
     const [order] = await tx.insert(orders).values({
-      requestId: request.id, quoteId, revisionId: rev.id, racerId: request.racerId, builderId: request.builderId,
+      requestId: request.id, quoteId, revisionId: rev.id, racerId: request.racerId, shopId: request.shopId,
       totalCents: rev.totalCents, platformFeeCents: rev.platformFeeCents, createdAt: now,
     }).$returningId()
     const orderId = order!.id
@@ -193,7 +193,7 @@ export async function acceptQuote(ctx: DealContext, actor: DealActor, quoteId: n
     await postEvent(tx, request.id, actor.id, `${actor.name} accepted revision ${revision} of the quote (${formatCents(rev.totalCents)}). The order is open.`, now)
     await recordDealEvent(tx, { requestId: request.id, orderId, actorId: actor.id, action: 'quote_accepted', detail: `revision ${revision}` })
     const parties = await partiesOf(tx, request.id)
-    await enqueueMail(tx, parties.builderEmail, {
+    await enqueueMail(tx, parties.shopEmail, {
       kind: 'quote_accepted', shopName: parties.shopName, racerName: parties.racerName, title: parties.title, totalCents: rev.totalCents,
       link: `${ctx.config.siteUrl}/deals/orders/${orderId}`,
     }, `accepted:${quoteId}`)
@@ -230,8 +230,8 @@ async function revisionViews(db: Executor, quoteId: number): Promise<QuoteRevisi
 /** A request with its quote (every revision) and order, as its parties see it. */
 export async function getRequestView(ctx: DealContext, actor: DealActor, requestId: number): Promise<RequestView> {
   const request = await visibleRequest(ctx.db, actor, requestId)
-  const [extra] = await ctx.db.select({ racerName: users.name, shop: builderProfiles }).from(quoteRequests)
-    .innerJoin(users, eq(users.id, quoteRequests.racerId)).innerJoin(builderProfiles, eq(builderProfiles.id, quoteRequests.builderId))
+  const [extra] = await ctx.db.select({ racerName: users.name, shop: shops }).from(quoteRequests)
+    .innerJoin(users, eq(users.id, quoteRequests.racerId)).innerJoin(shops, eq(shops.id, quoteRequests.shopId))
     .where(eq(quoteRequests.id, requestId)).limit(1)
   const [build] = request.buildId === null ? [] : await ctx.db.select({ slug: builds.slug, title: builds.title }).from(builds).where(eq(builds.id, request.buildId)).limit(1)
   const attachments = await ctx.db.select({ id: files.id, name: files.originalName, mime: files.mime, sizeBytes: files.sizeBytes }).from(requestAttachments)
@@ -252,7 +252,7 @@ export async function getRequestView(ctx: DealContext, actor: DealActor, request
     title: request.title,
     status: request.status,
     racer: { id: request.racerId, name: extra!.racerName },
-    builder: { id: extra!.shop.id, slug: extra!.shop.slug, shopName: extra!.shop.shopName, region: extra!.shop.region },
+    shop: { id: extra!.shop.id, slug: extra!.shop.slug, shopName: extra!.shop.shopName, region: extra!.shop.region },
     build: build ?? null,
     targetHp: request.targetHp,
     targetTq: request.targetTq,
@@ -282,12 +282,12 @@ export async function getDashboard(ctx: DealContext, actor: DealActor): Promise<
   const side = actor.role === 'builder' ? 'builder' : actor.role === 'racer' ? 'racer' : 'admin'
   // An admin's desk is the deals with a dispute to settle; each party sees their own deals.
   const disputed = ctx.db.select({ requestId: orders.requestId }).from(milestones).innerJoin(orders, eq(orders.id, milestones.orderId)).where(eq(milestones.state, 'disputed'))
-  const mine = side === 'builder' ? eq(quoteRequests.builderId, actor.builderId ?? 0) : side === 'racer' ? eq(quoteRequests.racerId, actor.id) : inArray(quoteRequests.id, disputed)
+  const mine = side === 'builder' ? eq(quoteRequests.shopId, actor.shopId ?? 0) : side === 'racer' ? eq(quoteRequests.racerId, actor.id) : inArray(quoteRequests.id, disputed)
   const rows = await ctx.db.select({
-    request: quoteRequests, racerName: users.name, shopName: builderProfiles.shopName, quote: quotes, orderId: orders.id,
+    request: quoteRequests, racerName: users.name, shopName: shops.shopName, quote: quotes, orderId: orders.id,
   }).from(quoteRequests)
     .innerJoin(users, eq(users.id, quoteRequests.racerId))
-    .innerJoin(builderProfiles, eq(builderProfiles.id, quoteRequests.builderId))
+    .innerJoin(shops, eq(shops.id, quoteRequests.shopId))
     .leftJoin(quotes, eq(quotes.requestId, quoteRequests.id))
     .leftJoin(orders, eq(orders.requestId, quoteRequests.id))
     .where(mine).orderBy(desc(quoteRequests.lastMessageAt)).limit(200)

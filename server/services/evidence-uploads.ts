@@ -13,7 +13,7 @@ import { refreshHeadline } from './headline'
 import { afterBuildChanged } from './build-events'
 import { ownBuild, type ShopRef } from './own-build'
 import { storePullFigures } from './pull-figures'
-import { deleteFileRows, discard, insertFileRow, vetUpload, withStagedFiles, type IncomingFile, type UploadStore } from './listing-files'
+import { deleteFileRows, discard, insertFileRow, vetUpload, withStagedFiles, type IncomingFile, type UploadStore } from './build-files'
 import { recordBuildChange } from './search-feed'
 
 export interface PullUpload {
@@ -138,7 +138,7 @@ export async function savePull(db: Database, store: UploadStore, shop: ShopRef, 
 }
 
 /**
- * Deletes one of the caller's pulls and its stored file(s). A published listing keeps at least one
+ * Deletes one of the caller's pulls and its stored file(s). A published build keeps at least one
  * pull to show (409: unpublish first).
  */
 export async function deletePull(db: Database, store: UploadStore, shop: ShopRef, buildId: number, pullId: number): Promise<void> {
@@ -148,7 +148,7 @@ export async function deletePull(db: Database, store: UploadStore, shop: ShopRef
     if (!pull) throw createError({ status: 404, message: 'That build has no such pull.' })
     if (build.status === 'published' && pull.status !== 'rejected') {
       const live = await tx.select({ id: dynoPulls.id }).from(dynoPulls).where(and(eq(dynoPulls.buildId, buildId), inArray(dynoPulls.status, ['submitted', 'verified'])))
-      if (live.length <= 1) throw createError({ status: 409, message: 'A published listing keeps at least one pull; add another first, or unpublish the listing.' })
+      if (live.length <= 1) throw createError({ status: 409, message: 'A published build keeps at least one pull; add another first, or unpublish the build.' })
     }
     await tx.delete(dynoPulls).where(eq(dynoPulls.id, pullId))
     const removed = await deleteFileRows(tx, [pull.fileId, ...(pull.sheetFileId ? [pull.sheetFileId] : [])])
@@ -162,8 +162,8 @@ export async function deletePull(db: Database, store: UploadStore, shop: ShopRef
 
 /**
  * Runs the evidence checks again for a build's pulls still awaiting review, against the build's
- * combination as it stands now (after the builder changed the bore, stroke, cylinders or
- * aspiration), so the admin reviews a report that matches the listing. Rejected pulls keep the report
+ * combination as it stands now (after the shop changed the bore, stroke, cylinders or
+ * aspiration), so the admin reviews a report that matches the build. Rejected pulls keep the report
  * their decision was made on; verified ones were sent back to the queue by the same change
  * (updateBuild). Answers how many reports were refreshed.
  */

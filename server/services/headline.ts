@@ -4,7 +4,7 @@ import { and, eq, inArray } from 'drizzle-orm'
 import { headlinePull, type HeadlineBasis } from '#shared/pulls/headline'
 import type { PeakFigures } from '#shared/types/admin'
 import { builds, dynoPulls } from '../database/schema'
-import type { Tx } from './listing-files'
+import type { Tx } from './build-files'
 
 export interface StoredHeadline extends PeakFigures {
   pullId: number | null

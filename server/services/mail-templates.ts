@@ -250,9 +250,9 @@ export const adminEmails = {
     `Dyno pull ${VERIFICATION.rejected.toLowerCase()}: ${m.pullLabel}`,
     `Hello ${m.name},`,
     [
-      `An admin reviewed the pull "${m.pullLabel}" on your listing "${m.buildTitle}" and could not verify it as evidence. The reason:`,
+      `An admin reviewed the pull "${m.pullLabel}" on your build "${m.buildTitle}" and could not verify it as evidence. The reason:`,
       m.reason,
-      'The pull no longer counts towards the listing. Upload a corrected pull (the raw file from the dyno, with the weather of the day) from your shop dashboard; a new upload runs the automatic checks and awaits verification afresh.',
+      'The pull no longer counts towards the build. Upload a corrected pull (the raw file from the dyno, with the weather of the day) from your shop dashboard; a new upload runs the automatic checks and awaits verification afresh.',
     ],
     { label: 'Open your shop dashboard', url: m.dashboardUrl },
   ),
@@ -260,16 +260,16 @@ export const adminEmails = {
     `Dyno pull verified: ${m.pullLabel}`,
     `Hello ${m.name},`,
     [
-      `An admin compared the pull "${m.pullLabel}" on your listing "${m.buildTitle}" with its raw file, weather and correction standard, and verified it.`,
-      'The listing carries the verified mark, and its figures now count in search and in your shop\'s record. Racers who saved a search this build matches are told about it.',
+      `An admin compared the pull "${m.pullLabel}" on your build "${m.buildTitle}" with its raw file, weather and correction standard, and verified it.`,
+      'The build carries the verified mark, and its figures now count in search and in your shop\'s record. Racers who saved a search this build matches are told about it.',
     ],
-    { label: 'Open the listing', url: m.buildUrl },
+    { label: 'Open the build', url: m.buildUrl },
   ),
-  listingUnpublished: (m: { name: string, buildTitle: string, reason: string, dashboardUrl: string }): RenderedMail => compose(
-    `Your listing was taken down: ${m.buildTitle}`,
+  buildUnpublished: (m: { name: string, buildTitle: string, reason: string, dashboardUrl: string }): RenderedMail => compose(
+    `Your build was taken down: ${m.buildTitle}`,
     `Hello ${m.name},`,
     [
-      `We took your listing "${m.buildTitle}" off the public site. The reason:`,
+      `We took your build "${m.buildTitle}" off the public site. The reason:`,
       m.reason,
       'It is a draft again and nothing in it was deleted. Put right what the reason says, then publish it again from your shop dashboard.',
     ],

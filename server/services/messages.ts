@@ -52,7 +52,7 @@ export async function postMessage(ctx: DealContext, actor: DealActor, requestId:
     if (fileIds.length > 0) await tx.insert(requestAttachments).values(fileIds.map(fileId => ({ requestId, messageId: id, fileId })))
     await markRead(tx, actor.id, requestId, id, now)
     const other = side === 'racer'
-      ? { userId: parties.builderUserId, email: parties.builderEmail, name: parties.shopName }
+      ? { userId: parties.shopUserId, email: parties.shopEmail, name: parties.shopName }
       : { userId: parties.racerId, email: parties.racerEmail, name: parties.racerName }
     if (!(await isOnPage(tx, other.userId, requestId, now))) {
       const excerpt = input.body.length > 280 ? `${input.body.slice(0, 277)}…` : input.body || '(sent a file)'
@@ -124,9 +124,9 @@ async function isParty(db: Executor, actor: DealActor, requestId: number): Promi
 /** Unread messages per thread for the navigation: messages from the other party (or the system) after the reader's mark. */
 export async function unreadCounts(db: Executor, actor: DealActor): Promise<{ total: number, threads: { requestId: number, unread: number }[] }> {
   if (actor.role === 'admin') return { total: 0, threads: [] }
-  const party = actor.builderId === null
+  const party = actor.shopId === null
     ? eq(quoteRequests.racerId, actor.id)
-    : sql`(${quoteRequests.racerId} = ${actor.id} OR ${quoteRequests.builderId} = ${actor.builderId})`
+    : sql`(${quoteRequests.racerId} = ${actor.id} OR ${quoteRequests.shopId} = ${actor.shopId})`
   const rows = await db.select({ requestId: requestMessages.requestId, unread: count() }).from(requestMessages)
     .innerJoin(quoteRequests, eq(quoteRequests.id, requestMessages.requestId))
     .leftJoin(messageReads, and(eq(messageReads.requestId, requestMessages.requestId), eq(messageReads.userId, actor.id)))

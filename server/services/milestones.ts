@@ -13,7 +13,7 @@ import { isCorrectionStandard } from '../../shared/engine/correction'
 import type { DeliveryPullFields, SubmitMilestoneInput } from '../../shared/schemas/deals'
 import type { MilestoneView, OrderView } from '../../shared/types/deals'
 import {
-  builderProfiles, dealEvents, deliveryPulls, dynoPulls, files, milestoneProofs, milestones, orders, payments, quoteRequests,
+  shops, dealEvents, deliveryPulls, dynoPulls, files, milestoneProofs, milestones, orders, payments, quoteRequests,
   quoteRevisions, users, type Milestone, type Order,
 } from '../database/schema'
 import {
@@ -39,7 +39,7 @@ async function guaranteeOf(tx: DbTransaction, order: Order) {
 /**
  * Records a delivery pull for a milestone: parses the stored file, computes its figures under the
  * quoted standard with shared/engine, runs the evidence checks (including whether the same curve is
- * already on a listing), and checks the request's displacement cap and the guarantee.
+ * already on a build), and checks the request's displacement cap and the guarantee.
  */
 export async function recordDeliveryPull(ctx: DealContext, storage: UploadStore, actor: DealActor, milestoneId: number, fileId: number, fields: DeliveryPullFields) {
   return inRetriedTransaction(ctx.db, async (tx) => {
@@ -113,7 +113,7 @@ async function approveLocked(ctx: DealContext, tx: DbTransaction, order: Order, 
   const parties = await partiesOf(tx, order.requestId)
   const mail = { kind: 'milestone_approved' as const, milestone: milestone.title, automatic, link: link(ctx, order.id) }
   await enqueueMail(tx, parties.racerEmail, { ...mail, recipientName: parties.racerName }, `approved:${milestone.id}:racer`)
-  await enqueueMail(tx, parties.builderEmail, { ...mail, recipientName: parties.shopName }, `approved:${milestone.id}:builder`)
+  await enqueueMail(tx, parties.shopEmail, { ...mail, recipientName: parties.shopName }, `approved:${milestone.id}:builder`)
 }
 
 /**
@@ -211,7 +211,7 @@ export async function settleDispute(ctx: DealContext, actor: DealActor, mileston
       : `Torquewright settled the dispute over "${milestone.title}": the deposit of ${amount} is released to the shop. Note: ${text}`, now)
     const mail = { kind: 'dispute_settled' as const, shopName: parties.shopName, title: parties.title, milestone: milestone.title, outcome, amountCents: milestone.amountCents, note: text, link: link(ctx, order.id) }
     await enqueueMail(tx, parties.racerEmail, { ...mail, recipientName: parties.racerName, side: 'racer' }, `settled:${milestoneId}:racer`)
-    await enqueueMail(tx, parties.builderEmail, { ...mail, recipientName: parties.shopName, side: 'builder' }, `settled:${milestoneId}:builder`)
+    await enqueueMail(tx, parties.shopEmail, { ...mail, recipientName: parties.shopName, side: 'builder' }, `settled:${milestoneId}:builder`)
   })
   const problem = outcome === 'release' ? await tryRelease(ctx, milestoneId) : null
   const [row] = await ctx.db.select({ state: milestones.state }).from(milestones).where(eq(milestones.id, milestoneId)).limit(1)
@@ -278,10 +278,10 @@ export async function autoApproveDue(ctx: DealContext): Promise<{ approved: numb
 
 /** An order with its milestone tracker, payments (with their Stripe ids), documents and history, for its parties. */
 export async function getOrderView(ctx: DealContext, actor: DealActor, orderId: number): Promise<OrderView> {
-  const [row] = await ctx.db.select({ order: orders, request: quoteRequests, racerName: users.name, shop: builderProfiles }).from(orders)
+  const [row] = await ctx.db.select({ order: orders, request: quoteRequests, racerName: users.name, shop: shops }).from(orders)
     .innerJoin(quoteRequests, eq(quoteRequests.id, orders.requestId))
     .innerJoin(users, eq(users.id, orders.racerId))
-    .innerJoin(builderProfiles, eq(builderProfiles.id, orders.builderId))
+    .innerJoin(shops, eq(shops.id, orders.shopId))
     .where(eq(orders.id, orderId)).limit(1)
   if (!row) throw notFound('That order')
   let side: OrderView['side']
@@ -331,7 +331,7 @@ export async function getOrderView(ctx: DealContext, actor: DealActor, orderId: 
   return {
     id: order.id, side, status: order.status, requestId: order.requestId, title: row.request.title,
     racer: { id: order.racerId, name: row.racerName },
-    builder: { id: row.shop.id, slug: row.shop.slug, shopName: row.shop.shopName },
+    shop: { id: row.shop.id, slug: row.shop.slug, shopName: row.shop.shopName },
     totalCents: order.totalCents, platformFeeCents: order.platformFeeCents, revision: r?.revision ?? 1,
     guarantee: r && r.guaranteeHp !== null ? { hp: r.guaranteeHp, tolerancePct: r.guaranteeTolerancePct ?? 0, standard: r.guaranteeStandard ?? 'SAE_J1349_2004' } : null,
     displacementCapCi: row.request.displacementCapCi,

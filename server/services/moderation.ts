@@ -1,9 +1,9 @@
 import { createError } from 'h3'
 import { and, count, desc, eq, inArray, like, or, type SQL } from 'drizzle-orm'
-import type { AdminListingsQuery } from '../../shared/schemas/admin'
-import type { AdminListingRow } from '../../shared/types/admin'
-import type { Page } from '../../shared/types/listings'
-import { auditLog, builderProfiles, builds, dynoPulls, users } from '../database/schema'
+import type { AdminBuildsQuery } from '../../shared/schemas/admin'
+import type { AdminBuildRow } from '../../shared/types/admin'
+import type { Page } from '../../shared/types/builds'
+import { auditLog, shops, builds, dynoPulls, users } from '../database/schema'
 import type { Database } from '../database/types'
 import { inRetriedTransaction } from '../utils/transaction'
 import { writeAudit } from './audit'
@@ -11,22 +11,22 @@ import { recordBuildChange } from './search-feed'
 
 const likePattern = (text: string) => `%${text.replace(/[\\%_]/g, c => `\\${c}`)}%`
 
-/** Every listing for the moderation page, newest change first, searchable by title, address or shop. */
-export async function listListings(db: Database, query: AdminListingsQuery): Promise<Page<AdminListingRow>> {
+/** Every build for the moderation page, newest change first, searchable by title, address or shop. */
+export async function listBuilds(db: Database, query: AdminBuildsQuery): Promise<Page<AdminBuildRow>> {
   const filters: SQL[] = []
   if (query.status) filters.push(eq(builds.status, query.status))
   if (query.q) {
     const p = likePattern(query.q)
-    filters.push(or(like(builds.title, p), like(builds.slug, p), like(builderProfiles.shopName, p))!)
+    filters.push(or(like(builds.title, p), like(builds.slug, p), like(shops.shopName, p))!)
   }
   const where = filters.length ? and(...filters) : undefined
   const [rows, totals] = await Promise.all([
-    db.select({ build: builds, shopSlug: builderProfiles.slug, shopName: builderProfiles.shopName }).from(builds)
-      .innerJoin(builderProfiles, eq(builderProfiles.id, builds.builderId))
+    db.select({ build: builds, shopSlug: shops.slug, shopName: shops.shopName }).from(builds)
+      .innerJoin(shops, eq(shops.id, builds.shopId))
       .where(where)
       .orderBy(desc(builds.updatedAt), desc(builds.id))
       .limit(query.perPage).offset((query.page - 1) * query.perPage),
-    db.select({ n: count() }).from(builds).innerJoin(builderProfiles, eq(builderProfiles.id, builds.builderId)).where(where),
+    db.select({ n: count() }).from(builds).innerJoin(shops, eq(shops.id, builds.shopId)).where(where),
   ])
   const ids = rows.map(r => r.build.id)
   const [pullCounts, takedowns] = ids.length
@@ -63,14 +63,14 @@ export async function listListings(db: Database, query: AdminListingsQuery): Pro
 }
 
 /**
- * Takes a published listing off the public site: it becomes a draft its shop can put right and
+ * Takes a published build off the public site: it becomes a draft its shop can put right and
  * publish again. One audit row carries the reason, in the same transaction. Returns what the e-mail needs.
  */
-export async function unpublishListing(db: Database, input: { actorId: number, buildId: number, reason: string }) {
+export async function unpublishBuild(db: Database, input: { actorId: number, buildId: number, reason: string }) {
   return inRetriedTransaction(db, async (tx) => {
     const [build] = await tx.select().from(builds).where(eq(builds.id, input.buildId)).for('update')
-    if (!build) throw createError({ status: 404, message: 'No listing has that id.' })
-    if (build.status !== 'published') throw createError({ status: 409, message: `That listing is ${build.status}, not published; only a published listing can be taken down.` })
+    if (!build) throw createError({ status: 404, message: 'No build has that id.' })
+    if (build.status !== 'published') throw createError({ status: 409, message: `That build is ${build.status}, not published; only a published build can be taken down.` })
     const now = new Date()
     await tx.update(builds).set({ status: 'draft', updatedAt: now }).where(and(eq(builds.id, build.id), eq(builds.status, 'published')))
     await writeAudit(tx, {
@@ -83,8 +83,8 @@ export async function unpublishListing(db: Database, input: { actorId: number, b
       note: input.reason,
       at: now,
     })
-    const [owner] = await tx.select({ email: users.email, name: users.name }).from(builderProfiles)
-      .innerJoin(users, eq(users.id, builderProfiles.userId)).where(eq(builderProfiles.id, build.builderId))
+    const [owner] = await tx.select({ email: users.email, name: users.name }).from(shops)
+      .innerJoin(users, eq(users.id, shops.userId)).where(eq(shops.id, build.shopId))
     await recordBuildChange(tx, build.id)
     return { buildId: build.id, buildSlug: build.slug, buildTitle: build.title, email: owner!.email, name: owner!.name }
   })

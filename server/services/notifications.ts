@@ -35,9 +35,9 @@ export const MAIL_GROUP: Record<DealMail['kind'], EmailGroup | null> = {
 /** The events of deals the actor is a party to, less their own actions; null for an admin (who is a party to none). */
 function partyEvents(actor: DealActor): SQL | null {
   if (actor.role === 'admin') return null
-  const party = actor.builderId === null
+  const party = actor.shopId === null
     ? eq(quoteRequests.racerId, actor.id)
-    : or(eq(quoteRequests.racerId, actor.id), eq(quoteRequests.builderId, actor.builderId))
+    : or(eq(quoteRequests.racerId, actor.id), eq(quoteRequests.shopId, actor.shopId))
   return and(party, sql`(${dealEvents.actorId} IS NULL OR ${dealEvents.actorId} <> ${actor.id})`)!
 }
 

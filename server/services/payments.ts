@@ -6,7 +6,7 @@ import { createError } from 'h3'
 import type Stripe from 'stripe'
 import { CURRENCY } from '../../shared/money'
 import {
-  builderProfiles, milestones, orders, payments, payoutAccounts, stripeEvents, users, type Milestone, type Order, type Payment,
+  shops, milestones, orders, payments, payoutAccounts, stripeEvents, users, type Milestone, type Order, type Payment,
 } from '../database/schema'
 import { inRetriedTransaction } from '../utils/transaction'
 import {
@@ -32,7 +32,7 @@ export async function lockMilestone(tx: DbTransaction, milestoneId: number): Pro
 /** 404 unless the actor is a party to the order (or an admin). */
 export function assertParty(actor: DealActor, order: Order): 'racer' | 'builder' | 'admin' {
   if (order.racerId === actor.id) return 'racer'
-  if (actor.builderId !== null && order.builderId === actor.builderId) return 'builder'
+  if (actor.shopId !== null && order.shopId === actor.shopId) return 'builder'
   if (actor.role === 'admin') return 'admin'
   throw notFound('That milestone')
 }
@@ -193,7 +193,7 @@ async function onCheckoutCompleted(ctx: DealContext, tx: DbTransaction, session:
     const link = `${ctx.config.siteUrl}/deals/orders/${order.id}`
     const mail = { kind: 'milestone_funded' as const, milestone: milestone.title, amountCents: milestone.amountCents, title: parties.title, link }
     await enqueueMail(tx, parties.racerEmail, { ...mail, recipientName: parties.racerName }, `funded:${milestone.id}:racer`)
-    await enqueueMail(tx, parties.builderEmail, { ...mail, recipientName: parties.shopName }, `funded:${milestone.id}:builder`)
+    await enqueueMail(tx, parties.shopEmail, { ...mail, recipientName: parties.shopName }, `funded:${milestone.id}:builder`)
     return `milestone ${milestone.id} funded`
   }
   // Money arrived for a milestone that is cancelled, or already paid by another session: give it back.
@@ -301,15 +301,15 @@ async function onTransferCreated(ctx: DealContext, tx: DbTransaction, transfer: 
 }
 
 /** The shop's connected account, created once (by idempotency key) the first time it is paid out. */
-export async function ensurePayoutAccount(ctx: DealContext, tx: DbTransaction, builderId: number): Promise<string> {
-  const [existing] = await tx.select().from(payoutAccounts).where(eq(payoutAccounts.builderId, builderId)).limit(1)
+export async function ensurePayoutAccount(ctx: DealContext, tx: DbTransaction, shopId: number): Promise<string> {
+  const [existing] = await tx.select().from(payoutAccounts).where(eq(payoutAccounts.shopId, shopId)).limit(1)
   if (existing) return existing.stripeAccountId
-  const [shop] = await tx.select({ shopName: builderProfiles.shopName, email: users.email }).from(builderProfiles)
-    .innerJoin(users, eq(users.id, builderProfiles.userId)).where(eq(builderProfiles.id, builderId)).limit(1)
+  const [shop] = await tx.select({ shopName: shops.shopName, email: users.email }).from(shops)
+    .innerJoin(users, eq(users.id, shops.userId)).where(eq(shops.id, shopId)).limit(1)
   const account = await ctx.stripe.accounts.create({
-    type: 'express', email: shop?.email, business_profile: { name: shop?.shopName }, metadata: { builder_id: String(builderId) },
-  }, { idempotencyKey: `builder-${builderId}-payout-account` })
-  await tx.insert(payoutAccounts).values({ builderId, stripeAccountId: account.id, createdAt: ctx.now() })
+    type: 'express', email: shop?.email, business_profile: { name: shop?.shopName }, metadata: { builder_id: String(shopId) },
+  }, { idempotencyKey: `builder-${shopId}-payout-account` })
+  await tx.insert(payoutAccounts).values({ shopId, stripeAccountId: account.id, createdAt: ctx.now() })
   return account.id
 }
 
@@ -317,7 +317,7 @@ export async function ensurePayoutAccount(ctx: DealContext, tx: DbTransaction, b
 export async function transferRelease(ctx: DealContext, tx: DbTransaction, order: Order, milestone: Milestone): Promise<Stripe.Transfer> {
   const funding = await fundingPayment(tx, milestone.id)
   if (!funding?.stripeChargeId) throw conflict('This milestone has no recorded payment to release from.')
-  const destination = await ensurePayoutAccount(ctx, tx, order.builderId)
+  const destination = await ensurePayoutAccount(ctx, tx, order.shopId)
   return ctx.stripe.transfers.create({
     amount: milestone.amountCents - milestone.feeCents,
     currency: CURRENCY,
@@ -341,7 +341,7 @@ export async function markReleased(ctx: DealContext, tx: DbTransaction, order: O
   await recordDealEvent(tx, { requestId: order.requestId, orderId: order.id, milestoneId: milestone.id, action: 'milestone_released', detail: `transfer ${transfer.id}` })
   await postEvent(tx, order.requestId, null, `"${milestone.title}" was paid out to the shop.`, now)
   const parties = await partiesOf(tx, order.requestId)
-  await enqueueMail(tx, parties.builderEmail, {
+  await enqueueMail(tx, parties.shopEmail, {
     kind: 'milestone_released', shopName: parties.shopName, milestone: milestone.title, payoutCents: transfer.amount, feeCents: milestone.feeCents,
     link: `${ctx.config.siteUrl}/deals/orders/${order.id}`,
   }, `released:${milestone.id}`)
@@ -387,7 +387,7 @@ export async function refundHeld(
     const parties = await partiesOf(tx, order.requestId)
     const mail = { kind: 'milestone_refunded' as const, milestone: milestone.title, amountCents: refund.amount, reason: `Reason: ${reason}`, link: `${ctx.config.siteUrl}/deals/orders/${order.id}` }
     await enqueueMail(tx, parties.racerEmail, { ...mail, recipientName: parties.racerName }, `refunded:${milestone.id}:racer`)
-    await enqueueMail(tx, parties.builderEmail, { ...mail, recipientName: parties.shopName }, `refunded:${milestone.id}:builder`)
+    await enqueueMail(tx, parties.shopEmail, { ...mail, recipientName: parties.shopName }, `refunded:${milestone.id}:builder`)
   }
   return refund
 }

@@ -9,7 +9,7 @@ import { PULL_FIGURES_VERSION, declaredStandardOf, derivePullFigures, weatherOf,
 import { dynoPulls, files, pullFigures } from '../database/schema'
 import type { Database } from '../database/types'
 import type { ReadStoredText } from './curves'
-import type { Tx } from './listing-files'
+import type { Tx } from './build-files'
 
 /** Writes (or replaces) a pull's derived figures; call it in the transaction that saves the pull. */
 export async function storePullFigures(tx: Tx | Database, pullId: number, figures: DerivedPullFigures): Promise<void> {

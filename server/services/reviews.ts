@@ -3,7 +3,7 @@
 // with a reason (one audit row). Shown on the shop's page and on the build the request came from.
 import { and, asc, desc, eq, inArray, isNull } from 'drizzle-orm'
 import {
-  builderProfiles, builds, deliveryPulls, milestones, orders, quoteRequests, reviewEdits, reviews, users,
+  shops, builds, deliveryPulls, milestones, orders, quoteRequests, reviewEdits, reviews, users,
   type DeliveryReport, type Review,
 } from '../database/schema'
 import type { Database } from '../database/types'
@@ -57,7 +57,7 @@ async function toViews(db: Executor, rows: Review[]): Promise<ReviewView[]> {
   return views
 }
 
-async function listWhere(db: Executor, column: typeof reviews.builderId | typeof reviews.buildId, id: number): Promise<ReviewList> {
+async function listWhere(db: Executor, column: typeof reviews.shopId | typeof reviews.buildId, id: number): Promise<ReviewList> {
   const rows = await db.select().from(reviews).where(eq(column, id)).orderBy(desc(reviews.createdAt), desc(reviews.id))
   const visible = rows.filter(r => r.hiddenAt === null)
   return { summary: summariseRatings(visible), reviews: await toViews(db, visible), hiddenCount: rows.length - visible.length }
@@ -65,8 +65,8 @@ async function listWhere(db: Executor, column: typeof reviews.builderId | typeof
 
 /** The visible reviews of a shop with their summary; null when no shop has the slug. */
 export async function shopReviews(db: Executor, slug: string): Promise<ReviewList | null> {
-  const [shop] = await db.select({ id: builderProfiles.id }).from(builderProfiles).where(eq(builderProfiles.slug, slug)).limit(1)
-  return shop ? listWhere(db, reviews.builderId, shop.id) : null
+  const [shop] = await db.select({ id: shops.id }).from(shops).where(eq(shops.slug, slug)).limit(1)
+  return shop ? listWhere(db, reviews.shopId, shop.id) : null
 }
 
 /** The visible reviews of orders whose request came from this published build; null when there is no such build. */
@@ -84,7 +84,7 @@ export async function orderReview(db: Executor, actor: DealActor, orderId: numbe
   return {
     review: view ? { ...view, showDeliveryPull: row!.showDeliveryPull, hidden: row!.hiddenAt !== null, hiddenReason: row!.hiddenReason, canEdit: row!.authorId === actor.id && row!.hiddenAt === null && canEditReview(row!.createdAt, new Date()) } : null,
     canReview: !row && order.status === 'completed' && order.racerId === actor.id,
-    canAnswer: !!row && row.answer === null && row.hiddenAt === null && actor.builderId === row.builderId,
+    canAnswer: !!row && row.answer === null && row.hiddenAt === null && actor.shopId === row.shopId,
   }
 }
 
@@ -103,7 +103,7 @@ export interface ReviewWrite {
 async function noticeToShop(tx: Executor, w: { requestId: number, orderId: number, actor: DealActor, rating: number, body: string, edited: boolean, dedupeKey: string, siteUrl: string }) {
   await recordDealEvent(tx, { requestId: w.requestId, orderId: w.orderId, actorId: w.actor.id, action: w.edited ? 'review_edited' : 'review_posted', detail: `${w.rating} of 5` })
   const parties = await partiesOf(tx, w.requestId)
-  await enqueueMail(tx, parties.builderEmail, {
+  await enqueueMail(tx, parties.shopEmail, {
     kind: 'review_written', shopName: parties.shopName, racerName: parties.racerName, title: parties.title, rating: w.rating, edited: w.edited,
     excerpt: w.body.length > 280 ? `${w.body.slice(0, 277)}…` : w.body,
     link: `${w.siteUrl}/deals/orders/${w.orderId}#order-review-title`,
@@ -125,7 +125,7 @@ export async function createReview(db: Database, actor: DealActor, orderId: numb
       if (existing) throw conflict('This order has been reviewed already; edit that review instead.')
       const [request] = await tx.select({ buildId: quoteRequests.buildId }).from(quoteRequests).where(eq(quoteRequests.id, order.requestId)).limit(1)
       const [{ id }] = await tx.insert(reviews).values({
-        orderId, builderId: order.builderId, buildId: request?.buildId ?? null, authorId: actor.id,
+        orderId, shopId: order.shopId, buildId: request?.buildId ?? null, authorId: actor.id,
         rating: input.rating, aspects: input.aspects, body: input.body, showDeliveryPull: input.showDeliveryPull, createdAt: now,
       }).$returningId() as [{ id: number }]
       await noticeToShop(tx, { requestId: order.requestId, orderId, actor, rating: input.rating, body: input.body, edited: false, dedupeKey: `review:${id}`, siteUrl })
@@ -160,7 +160,7 @@ export async function answerReview(db: Database, actor: DealActor, reviewId: num
   await inRetriedTransaction(db, async (tx) => {
     const [row] = await tx.select().from(reviews).where(eq(reviews.id, reviewId)).limit(1).for('update')
     if (!row) throw notFound('That review')
-    if (actor.builderId === null || actor.builderId !== row.builderId) throw forbidden('Only the reviewed shop answers a review.')
+    if (actor.shopId === null || actor.shopId !== row.shopId) throw forbidden('Only the reviewed shop answers a review.')
     if (row.hiddenAt !== null) throw conflict('This review was hidden by Torquewright; it takes no answer.')
     if (row.answer !== null) throw conflict('The shop has answered this review already; a review takes one answer.')
     const [res] = await tx.update(reviews).set({ answer: body, answeredAt: now }).where(and(eq(reviews.id, reviewId), isNull(reviews.answer)))
@@ -184,8 +184,8 @@ export async function hideReview(db: Database, adminId: number, reviewId: number
 
 /** Every review, newest first, for the admin's moderation page (with the shop and whether it is hidden). */
 export async function adminReviews(db: Executor, limit = 100): Promise<AdminReviewRow[]> {
-  const rows = await db.select({ review: reviews, shopName: builderProfiles.shopName, shopSlug: builderProfiles.slug }).from(reviews)
-    .innerJoin(builderProfiles, eq(builderProfiles.id, reviews.builderId))
+  const rows = await db.select({ review: reviews, shopName: shops.shopName, shopSlug: shops.slug }).from(reviews)
+    .innerJoin(shops, eq(shops.id, reviews.shopId))
     .orderBy(desc(reviews.createdAt), desc(reviews.id)).limit(limit)
   return rows.map(r => ({
     id: r.review.id, orderId: r.review.orderId, shop: { name: r.shopName, slug: r.shopSlug }, rating: r.review.rating, body: r.review.body,

@@ -1,5 +1,5 @@
 // Saved searches: a signed-in user keeps the filters of a search, sees how many builds match now,
-// and is e-mailed (through the outbox) when a build that matches becomes a verified listing.
+// and is e-mailed (through the outbox) when a build that matches becomes a verified build.
 import { createError } from 'h3'
 import { and, asc, eq, isNull, lte, ne, notExists, sql } from 'drizzle-orm'
 import { MAX_SAVED_SEARCHES, type SavedSearchCreate, type SavedSearchPatch } from '#shared/schemas/saved-search'
@@ -7,7 +7,7 @@ import { searchFilters, type SearchFilterParams } from '#shared/schemas/search'
 import { canonicalFilters, searchPath } from '#shared/search/saved'
 import type { SavedSearchList, SavedSearchView } from '#shared/types/saved-search'
 import type { SearchIndex } from '../../search/index'
-import { builderProfiles, builds, savedSearchAnnouncements, savedSearches, users, type SavedSearch } from '../database/schema'
+import { shops, builds, savedSearchAnnouncements, savedSearches, users, type SavedSearch } from '../database/schema'
 import type { Database } from '../database/types'
 import { inRetriedTransaction } from '../utils/transaction'
 import { renderSavedSearchMail } from './mail-templates'
@@ -104,7 +104,7 @@ export interface Announcement {
  * Announces a build to the saved searches it is new for. Runs after every committed change of a
  * build (the build-changed hook, once the index is in step) and does something only for a
  * published build with verified evidence. A build is new for a search saved before it became a
- * verified listing (the later of its first verification and its first publish), whose filters it
+ * verified build (the later of its first verification and its first publish), whose filters it
  * matches in the live index — the same filters and words as the search page — and which has not
  * announced it yet. A shop's own builds are never announced to its owner, nor anything to a
  * suspended account. Each announcement is one row (unique per search and build) and, with the
@@ -115,8 +115,8 @@ export async function announceBuild(db: Database, index: SearchIndex, buildId: n
   const none = { announced: 0, mailed: 0 }
   const [row] = await db.select({
     status: builds.status, slug: builds.slug, title: builds.title, verifiedAt: builds.verifiedAt, publishedAt: builds.publishedAt,
-    shopName: builderProfiles.shopName, shopOwnerId: builderProfiles.userId,
-  }).from(builds).innerJoin(builderProfiles, eq(builderProfiles.id, builds.builderId)).where(eq(builds.id, buildId)).limit(1)
+    shopName: shops.shopName, shopOwnerId: shops.userId,
+  }).from(builds).innerJoin(shops, eq(shops.id, builds.shopId)).where(eq(builds.id, buildId)).limit(1)
   if (!row || row.status !== 'published' || !row.verifiedAt) return none
   const entry = index.get(buildId)
   if (!entry?.verified) return none

@@ -2,13 +2,13 @@ import { headlinePull } from '#shared/pulls/headline'
 import { and, asc, eq, inArray, sql } from 'drizzle-orm'
 import { displacementCi } from '#shared/engine/geometry'
 import type { DerivedPullFigures } from '#shared/pulls/figures'
-import { LISTING_STANDARD } from '#shared/pulls/summary'
+import { BUILD_STANDARD } from '#shared/pulls/summary'
 import { createSearchIndex, type SearchDocument, type SearchIndex } from '../../search/index'
 import { syntheticDocuments } from '../../search/synthetic'
-import { builderProfiles, buildParts, builds, dynoPulls, type Build, type BuilderProfile, type DynoPull } from '../database/schema'
+import { shops, buildParts, builds, dynoPulls, type Build, type Shop, type DynoPull } from '../database/schema'
 import type { Database } from '../database/types'
 import type { ReadStoredText } from './curves'
-import { asPublished } from './listings'
+import { asPublished } from './builds'
 import { pullFiguresFor } from './pull-figures'
 
 /** The one index of this server process: swapped whole by a rebuild, changed in place by syncBuild. */
@@ -34,10 +34,10 @@ function stampQuery(db: Database) {
   return db.select({
     id: builds.id,
     build: builds.updatedAt,
-    shop: builderProfiles.updatedAt,
+    shop: shops.updatedAt,
     pulls: sql<string | null>`(select concat(count(*), '@', coalesce(max(${dynoPulls.updatedAt}), '')) from ${dynoPulls} where ${dynoPulls.buildId} = ${builds.id})`,
     parts: sql<number>`(select count(*) from ${buildParts} where ${buildParts.buildId} = ${builds.id})`,
-  }).from(builds).innerJoin(builderProfiles, eq(builderProfiles.id, builds.builderId))
+  }).from(builds).innerJoin(shops, eq(shops.id, builds.shopId))
 }
 
 type StampRow = Awaited<ReturnType<typeof stampQuery>>[number]
@@ -52,11 +52,11 @@ async function publishedStamps(db: Database, ids?: number[]): Promise<Map<number
 
 type Figures = Pick<SearchDocument, 'peakHp' | 'peakHpRpm' | 'peakTq' | 'peakTqRpm' | 'curve'>
 
-/** The headline pull's peaks and grid curve under the listing standard, as stored with the pull; its summary alone when no figures are stored. */
+/** The headline pull's peaks and grid curve under the build standard, as stored with the pull; its summary alone when no figures are stored. */
 function headlineFiguresOf(pull: DynoPull | undefined, stored: DerivedPullFigures | undefined): Figures {
   if (!pull) return { peakHp: null, peakHpRpm: null, peakTq: null, peakTqRpm: null, curve: null }
   if (!stored) return { peakHp: pull.summary.peakHp, peakHpRpm: pull.summary.peakHpRpm, peakTq: pull.summary.peakTq, peakTqRpm: pull.summary.peakTqRpm, curve: null }
-  const under = stored.standards[LISTING_STANDARD]
+  const under = stored.standards[BUILD_STANDARD]
   return {
     peakHp: under.peakHp,
     peakHpRpm: under.peakHpRpm,
@@ -66,7 +66,7 @@ function headlineFiguresOf(pull: DynoPull | undefined, stored: DerivedPullFigure
   }
 }
 
-function documentOf(row: Build, shop: BuilderProfile, parts: string[], figures: Figures, stamp: string): SearchDocument {
+function documentOf(row: Build, shop: Shop, parts: string[], figures: Figures, stamp: string): SearchDocument {
   const build = asPublished(row)
   return {
     id: build.id,
@@ -77,7 +77,7 @@ function documentOf(row: Build, shop: BuilderProfile, parts: string[], figures: 
     heads: build.cylinderHeads,
     camshaft: `${build.camIntakeDurationDeg}°/${build.camExhaustDurationDeg}° at 0.050 in, ${build.camIntakeLiftIn.toFixed(3)}/${build.camExhaustLiftIn.toFixed(3)} in lift, ${build.camLobeSeparationDeg}° lobe separation`,
     intake: `${build.intakeManifold}, ${build.throttleBody}`,
-    builder: { id: shop.id, slug: shop.slug, name: shop.shopName },
+    shop: { id: shop.id, slug: shop.slug, name: shop.shopName },
     family: build.engineFamily,
     displacementCi: displacementCi(build.boreIn, build.strokeIn, build.cylinders),
     ...figures,
@@ -98,7 +98,7 @@ export async function loadSearchDocuments(db: Database, read: ReadStoredText, id
   const published = eq(builds.status, 'published')
   const where = ids ? and(published, inArray(builds.id, ids)) : published
   const [rows, partRows, pullRows, stamps] = await Promise.all([
-    db.select({ build: builds, shop: builderProfiles }).from(builds).innerJoin(builderProfiles, eq(builderProfiles.id, builds.builderId)).where(where),
+    db.select({ build: builds, shop: shops }).from(builds).innerJoin(shops, eq(shops.id, builds.shopId)).where(where),
     db.select({ buildId: buildParts.buildId, category: buildParts.category, part: buildParts.part, partNumber: buildParts.partNumber })
       .from(buildParts).innerJoin(builds, eq(builds.id, buildParts.buildId)).where(where).orderBy(asc(buildParts.buildId), asc(buildParts.position)),
     db.select({ pull: dynoPulls }).from(dynoPulls).innerJoin(builds, eq(builds.id, dynoPulls.buildId)).where(where),
@@ -188,7 +188,7 @@ export function checkIndex(db: Database, read: ReadStoredText): Promise<IndexChe
   })
 }
 
-/** Bench only (TW_BENCH=1): fills the index with invented listings instead of MariaDB's, see README "Search". */
+/** Bench only (TW_BENCH=1): fills the index with invented builds instead of MariaDB's, see README "Search". */
 export function loadSyntheticIndex(count: number): Promise<{ documents: number, ms: number }> {
   const work = exclusive(async () => {
     const t0 = performance.now()

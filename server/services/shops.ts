@@ -1,16 +1,16 @@
 import { count, desc, eq } from 'drizzle-orm'
 import { displacementCi } from '../../shared/engine/geometry'
 import type { OwnBuildRow } from '../../shared/types/auth'
-import { builderProfiles, builds, dynoPulls, type BuilderProfile } from '../database/schema'
+import { shops, builds, dynoPulls, type Shop } from '../database/schema'
 import type { Database } from '../database/types'
 import { inRetriedTransaction } from '../utils/transaction'
 import { recordBuildChanges } from './search-feed'
 
 /** A shop's own builds for its dashboard, drafts and archived ones included, most recently changed first. */
-export async function listOwnBuilds(db: Database, builderId: number): Promise<OwnBuildRow[]> {
+export async function listOwnBuilds(db: Database, shopId: number): Promise<OwnBuildRow[]> {
   const rows = await db.select({ build: builds, pulls: count(dynoPulls.id) }).from(builds)
     .leftJoin(dynoPulls, eq(dynoPulls.buildId, builds.id))
-    .where(eq(builds.builderId, builderId))
+    .where(eq(builds.shopId, shopId))
     .groupBy(builds.id)
     .orderBy(desc(builds.updatedAt), desc(builds.id))
   return rows.map(({ build, pulls }) => ({
@@ -34,12 +34,12 @@ export async function listOwnBuilds(db: Database, builderId: number): Promise<Ow
  * change goes to the feed in the same transaction: other instances re-index them and drop their cached
  * pages. Answers the shop as it now stands and the builds, for this instance's own hook after the commit.
  */
-export async function updateShop(db: Database, shopId: number, patch: { shopName?: string, region?: string, bio?: string }): Promise<{ shop: BuilderProfile, buildIds: number[] }> {
+export async function updateShop(db: Database, shopId: number, patch: { shopName?: string, region?: string, bio?: string }): Promise<{ shop: Shop, buildIds: number[] }> {
   // Safe to repeat: it sets the same fields and records the same builds' changes again.
   return inRetriedTransaction(db, async (tx) => {
-    await tx.update(builderProfiles).set(patch).where(eq(builderProfiles.id, shopId))
-    const [updated] = await tx.select().from(builderProfiles).where(eq(builderProfiles.id, shopId))
-    const shopBuilds = await tx.select({ id: builds.id }).from(builds).where(eq(builds.builderId, shopId))
+    await tx.update(shops).set(patch).where(eq(shops.id, shopId))
+    const [updated] = await tx.select().from(shops).where(eq(shops.id, shopId))
+    const shopBuilds = await tx.select({ id: builds.id }).from(builds).where(eq(builds.shopId, shopId))
     const buildIds = shopBuilds.map(b => b.id)
     // The feed's rows last (recordBuildChange's rule), one per build.
     await recordBuildChanges(tx, buildIds)

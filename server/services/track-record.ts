@@ -1,11 +1,11 @@
 // A shop's track record, computed from its deals on read. The rows come from a handful of indexed
-// queries per set of shops and are cached per shop, keyed on the newest deal event, thread message and
+// queries per set of shopRows and are cached per shop, keyed on the newest deal event, thread message and
 // delivery pull ids: every change of a deal's state writes a deal event in its own transaction, so the
 // cache is stale the moment that commits, on every app instance alike, and one cheap query of three
 // primary-key maxima tells. Storing the figures instead would add a write to every state change.
 import { and, asc, eq, inArray, isNotNull, sql } from 'drizzle-orm'
 import {
-  builderProfiles, dealEvents, deliveryPulls, milestones, orders, quoteRequests, quotes, requestMessages,
+  shops, dealEvents, deliveryPulls, milestones, orders, quoteRequests, quotes, requestMessages,
 } from '../database/schema'
 import type { Executor } from './deal-context'
 import { type RecordFigure, type TrackRecord, median, pct } from '#shared/reviews/track-record'
@@ -35,15 +35,15 @@ async function dealsVersion(db: Executor): Promise<string> {
 
 const cache = new Map<number, { version: string, deals: ShopDeals }>()
 
-/** Computes the records of the given shops from their deals, uncached. */
-export async function computeShopDeals(db: Executor, builderIds: number[]): Promise<Map<number, ShopDeals>> {
+/** Computes the records of the given shopRows from their deals, uncached. */
+export async function computeShopDeals(db: Executor, shopIds: number[]): Promise<Map<number, ShopDeals>> {
   const out = new Map<number, ShopDeals>()
-  if (builderIds.length === 0) return out
-  const shops = await db.select({ id: builderProfiles.id, userId: builderProfiles.userId }).from(builderProfiles).where(inArray(builderProfiles.id, builderIds))
-  const requests = await db.select({ id: quoteRequests.id, builderId: quoteRequests.builderId, racerId: quoteRequests.racerId, title: quoteRequests.title, createdAt: quoteRequests.createdAt })
-    .from(quoteRequests).where(inArray(quoteRequests.builderId, builderIds)).orderBy(asc(quoteRequests.id))
+  if (shopIds.length === 0) return out
+  const shopRows = await db.select({ id: shops.id, userId: shops.userId }).from(shops).where(inArray(shops.id, shopIds))
+  const requests = await db.select({ id: quoteRequests.id, shopId: quoteRequests.shopId, racerId: quoteRequests.racerId, title: quoteRequests.title, createdAt: quoteRequests.createdAt })
+    .from(quoteRequests).where(inArray(quoteRequests.shopId, shopIds)).orderBy(asc(quoteRequests.id))
   const requestIds = requests.map(r => r.id)
-  const orderRows = await db.select().from(orders).where(inArray(orders.builderId, builderIds))
+  const orderRows = await db.select().from(orders).where(inArray(orders.shopId, shopIds))
   const orderIds = orderRows.map(o => o.id)
   const milestoneRows = orderIds.length === 0
     ? []
@@ -66,29 +66,29 @@ export async function computeShopDeals(db: Executor, builderIds: number[]): Prom
         .where(and(inArray(requestMessages.requestId, requestIds), eq(requestMessages.kind, 'message'), isNotNull(requestMessages.senderId)))
         .groupBy(requestMessages.requestId, requestMessages.senderId)
 
-  const shopUser = new Map(shops.map(s => [s.id, s.userId]))
+  const shopUser = new Map(shopRows.map(s => [s.id, s.userId]))
   const requestById = new Map(requests.map(r => [r.id, r]))
   const dealNo = new Map<number, number>()
-  for (const id of builderIds) {
-    requests.filter(r => r.builderId === id).forEach((r, i) => dealNo.set(r.id, i + 1))
+  for (const id of shopIds) {
+    requests.filter(r => r.shopId === id).forEach((r, i) => dealNo.set(r.id, i + 1))
   }
   const orderById = new Map(orderRows.map(o => [o.id, o]))
   const quoteAt = new Map(firstQuotes.map(q => [q.requestId, q.at]))
   const asDate = (v: string | Date) => v instanceof Date ? v : new Date(`${v.replace(' ', 'T')}Z`)
 
-  for (const builderId of builderIds) {
+  for (const shopId of shopIds) {
     const items: ShopDeals['items'] = { 'orders': [], 'on-time': [], 'guarantees': [], 'disputes': [], 'first-reply': [], 'quote-time': [] }
     const item = (requestId: number, at: Date, outcome: string, orderId: number | null): Counted => {
       const r = requestById.get(requestId)!
       return { deal: dealNo.get(requestId)!, month: month(at), outcome, requestId, racerId: r.racerId, orderId, title: r.title }
     }
-    const shopOrders = orderRows.filter(o => o.builderId === builderId)
+    const shopOrders = orderRows.filter(o => o.shopId === shopId)
     const ordersFig = { completed: 0, active: 0, cancelled: 0, total: shopOrders.length }
     for (const o of shopOrders) {
       ordersFig[o.status] += 1
       items.orders.push(item(o.requestId, o.completedAt ?? o.createdAt, o.status === 'completed' ? 'completed' : o.status === 'active' ? 'in progress' : 'cancelled', o.id))
     }
-    const shopMilestones = milestoneRows.filter(m => orderById.get(m.orderId)?.builderId === builderId)
+    const shopMilestones = milestoneRows.filter(m => orderById.get(m.orderId)?.shopId === shopId)
     let onTime = 0
     let submitted = 0
     let met = 0
@@ -125,10 +125,10 @@ export async function computeShopDeals(db: Executor, builderIds: number[]): Prom
         items.disputes.push(item(order.requestId, m.disputedAt, ended === 'open' ? 'still open' : ended === 'released' ? 'ended: released to the shop' : 'ended: refunded to the racer', order.id))
       }
     }
-    const shopRequests = requests.filter(r => r.builderId === builderId)
+    const shopRequests = requests.filter(r => r.shopId === shopId)
     const replyHours: number[] = []
     const quoteHours: number[] = []
-    const owner = shopUser.get(builderId)
+    const owner = shopUser.get(shopId)
     for (const r of shopRequests) {
       const order = shopOrders.find(o => o.requestId === r.id)
       const message = firstMessages.filter(m => m.requestId === r.id && m.senderId === owner).map(m => asDate(m.at))[0]
@@ -148,7 +148,7 @@ export async function computeShopDeals(db: Executor, builderIds: number[]): Prom
     }
     const medianReply = median(replyHours)
     const medianQuote = median(quoteHours)
-    out.set(builderId, {
+    out.set(shopId, {
       record: {
         orders: ordersFig,
         onTime: { onTime, submitted, sharePct: pct(onTime, submitted) },
@@ -163,12 +163,12 @@ export async function computeShopDeals(db: Executor, builderIds: number[]): Prom
   return out
 }
 
-/** The records of the given shops, from the cache while no deal has moved since. */
-export async function shopDeals(db: Executor, builderIds: number[]): Promise<Map<number, ShopDeals>> {
+/** The records of the given shopRows, from the cache while no deal has moved since. */
+export async function shopDeals(db: Executor, shopIds: number[]): Promise<Map<number, ShopDeals>> {
   const version = await dealsVersion(db)
   const out = new Map<number, ShopDeals>()
   const missing: number[] = []
-  for (const id of builderIds) {
+  for (const id of shopIds) {
     const hit = cache.get(id)
     if (hit && hit.version === version) out.set(id, hit.deals)
     else missing.push(id)
@@ -183,19 +183,19 @@ export async function shopDeals(db: Executor, builderIds: number[]): Promise<Map
   return out
 }
 
-export async function trackRecords(db: Executor, builderIds: number[]): Promise<Map<number, TrackRecord>> {
-  const all = await shopDeals(db, builderIds)
+export async function trackRecords(db: Executor, shopIds: number[]): Promise<Map<number, TrackRecord>> {
+  const all = await shopDeals(db, shopIds)
   return new Map([...all].map(([id, d]) => [id, d.record]))
 }
 
 /** Who is looking at a figure's list: the parties of a deal (and admins) see its title and a link; others see a number. */
-export interface RecordViewer { userId: number, role: string, builderId: number | null }
+export interface RecordViewer { userId: number, role: string, shopId: number | null }
 
 /** The deals behind one figure, anonymised for anyone who is not a party to them. */
-export function figureItems(deals: ShopDeals, figure: RecordFigure, builderId: number, viewer: RecordViewer | null): RecordItem[] {
+export function figureItems(deals: ShopDeals, figure: RecordFigure, shopId: number, viewer: RecordViewer | null): RecordItem[] {
   return deals.items[figure].map((c) => {
     const base: RecordItem = { deal: c.deal, month: c.month, outcome: c.outcome }
-    const party = viewer !== null && (viewer.role === 'admin' || viewer.userId === c.racerId || viewer.builderId === builderId)
+    const party = viewer !== null && (viewer.role === 'admin' || viewer.userId === c.racerId || viewer.shopId === shopId)
     if (!party) return base
     return { ...base, title: c.title, link: c.orderId === null ? `/deals/requests/${c.requestId}` : `/deals/orders/${c.orderId}` }
   })
@@ -203,7 +203,7 @@ export function figureItems(deals: ShopDeals, figure: RecordFigure, builderId: n
 
 /** A shop by slug with its record; null when no shop has the slug. */
 export async function shopRecord(db: Executor, slug: string) {
-  const [shop] = await db.select({ id: builderProfiles.id, slug: builderProfiles.slug, shopName: builderProfiles.shopName }).from(builderProfiles).where(eq(builderProfiles.slug, slug)).limit(1)
+  const [shop] = await db.select({ id: shops.id, slug: shops.slug, shopName: shops.shopName }).from(shops).where(eq(shops.slug, slug)).limit(1)
   if (!shop) return null
   const deals = (await shopDeals(db, [shop.id])).get(shop.id)!
   return { shop, deals }

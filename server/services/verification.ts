@@ -1,14 +1,14 @@
 import { createError } from 'h3'
-import type { PublishedBuild } from './listings'
+import type { PublishedBuild } from './builds'
 import { REQUIRED_FOR_PUBLISH } from '#shared/schemas/build'
 import { and, asc, count, desc, eq, inArray, ne } from 'drizzle-orm'
 import {
   CORRECTION_STANDARDS, FINGERPRINT_TOLERANCE, displacementCi, evidenceOutcome, fingerprintDistance, type EvidenceCheck, type EvidenceOutcome,
 } from '../../shared/engine'
 import { curveUnder, declaredStandardOf, weatherOf, type StandardFigures } from '../../shared/pulls/figures'
-import { LISTING_STANDARD } from '../../shared/pulls/summary'
+import { BUILD_STANDARD } from '../../shared/pulls/summary'
 import type { DuplicateLink, EvidenceQueueItem, EvidenceReview, PeakFigures } from '../../shared/types/admin'
-import { builderProfiles, builds, dynoPulls, files, users, type Build, type DynoPull } from '../database/schema'
+import { shops, builds, dynoPulls, files, users, type Build, type DynoPull } from '../database/schema'
 import type { Database } from '../database/types'
 import { inRetriedTransaction } from '../utils/transaction'
 import { adminEmails } from './mail-templates'
@@ -31,8 +31,8 @@ const duplicateCheck = (checks: EvidenceCheck[] | null) => checks?.find(c => c.i
 /** Builds with the given ids, as duplicate links. */
 async function linksFor(db: Database, found: { buildId: number, outcome: EvidenceOutcome }[]): Promise<DuplicateLink[]> {
   if (!found.length) return []
-  const rows = await db.select({ id: builds.id, slug: builds.slug, title: builds.title, status: builds.status, shopName: builderProfiles.shopName })
-    .from(builds).innerJoin(builderProfiles, eq(builderProfiles.id, builds.builderId))
+  const rows = await db.select({ id: builds.id, slug: builds.slug, title: builds.title, status: builds.status, shopName: shops.shopName })
+    .from(builds).innerJoin(shops, eq(shops.id, builds.shopId))
     .where(inArray(builds.id, found.map(f => f.buildId)))
   const byId = new Map(rows.map(r => [r.id, r]))
   return found.flatMap((f) => {
@@ -66,10 +66,10 @@ async function matchingBuilds(db: Database, pull: Pick<DynoPull, 'buildId' | 'fi
 
 /** The admin's queue: submitted pulls, oldest first, with their build, shop, flagged checks and the build a duplicate matches. */
 export async function evidenceQueue(db: Database): Promise<EvidenceQueueItem[]> {
-  const rows = await db.select({ pull: dynoPulls, build: builds, shopName: builderProfiles.shopName, shopSlug: builderProfiles.slug })
+  const rows = await db.select({ pull: dynoPulls, build: builds, shopName: shops.shopName, shopSlug: shops.slug })
     .from(dynoPulls)
     .innerJoin(builds, eq(builds.id, dynoPulls.buildId))
-    .innerJoin(builderProfiles, eq(builderProfiles.id, builds.builderId))
+    .innerJoin(shops, eq(shops.id, builds.shopId))
     .where(eq(dynoPulls.status, 'submitted'))
     .orderBy(asc(dynoPulls.createdAt), asc(dynoPulls.id))
   if (!rows.length) return []
@@ -135,16 +135,16 @@ function combinationOf(row: Build): EvidenceReview['combination'] {
 }
 
 /**
- * One pull with everything its decision needs: the raw file, its curve as filed and under the listing
+ * One pull with everything its decision needs: the raw file, its curve as filed and under the build
  * standard (with the nearest matching curve of another build beside it), declared against recomputed
  * figures, the stored check report, the combination and the build's earlier decisions. 404 when missing.
  */
 export async function evidenceReview(db: Database, read: ReadStoredText, pullId: number): Promise<EvidenceReview> {
-  const [row] = await db.select({ pull: dynoPulls, build: builds, shop: builderProfiles, owner: { name: users.name, email: users.email }, file: files })
+  const [row] = await db.select({ pull: dynoPulls, build: builds, shop: shops, owner: { name: users.name, email: users.email }, file: files })
     .from(dynoPulls)
     .innerJoin(builds, eq(builds.id, dynoPulls.buildId))
-    .innerJoin(builderProfiles, eq(builderProfiles.id, builds.builderId))
-    .innerJoin(users, eq(users.id, builderProfiles.userId))
+    .innerJoin(shops, eq(shops.id, builds.shopId))
+    .innerJoin(users, eq(users.id, shops.userId))
     .innerJoin(files, eq(files.id, dynoPulls.fileId))
     .where(eq(dynoPulls.id, pullId)).limit(1)
   if (!row) throw createError({ status: 404, message: 'No pull has that id.' })
@@ -159,7 +159,7 @@ export async function evidenceReview(db: Database, read: ReadStoredText, pullId:
   const stored = await pullFiguresFor(db, read, nearest ? [pull.id, nearest.pullId] : [pull.id])
   const own = stored.get(pull.id)
   if (!own) throw createError({ status: 500, message: `The stored pull file ${file.storageKey} no longer parses.` })
-  const normalised = own.standards[LISTING_STANDARD]
+  const normalised = own.standards[BUILD_STANDARD]
   const lines = text.split(/\r?\n/)
   while (lines.length && lines[lines.length - 1] === '') lines.pop()
 
@@ -170,12 +170,12 @@ export async function evidenceReview(db: Database, read: ReadStoredText, pullId:
 
   const curves = [
     curveOf(`As filed (${standardLabel(declaredStandard)})`, declaredStandard, curveUnder(own, declaredStandard)),
-    ...(declaredStandard === LISTING_STANDARD ? [] : [curveOf(normalised.uncorrected ? 'Uncorrected (no weather)' : `Under ${standardLabel(LISTING_STANDARD)}`, normalised.uncorrected ? 'UNCORRECTED' : LISTING_STANDARD, curveUnder(own, LISTING_STANDARD))]),
+    ...(declaredStandard === BUILD_STANDARD ? [] : [curveOf(normalised.uncorrected ? 'Uncorrected (no weather)' : `Under ${standardLabel(BUILD_STANDARD)}`, normalised.uncorrected ? 'UNCORRECTED' : BUILD_STANDARD, curveUnder(own, BUILD_STANDARD))]),
   ]
   const other = nearest ? stored.get(nearest.pullId) : undefined
   if (nearest && other) {
     const title = duplicates.find(d => d.buildId === nearest.buildId)?.title ?? `build ${nearest.buildId}`
-    curves.push(curveOf(`Matching curve: ${title}`, LISTING_STANDARD, curveUnder(other, LISTING_STANDARD)))
+    curves.push(curveOf(`Matching curve: ${title}`, BUILD_STANDARD, curveUnder(other, BUILD_STANDARD)))
   }
 
   const [sheet] = pull.sheetFileId ? await db.select().from(files).where(eq(files.id, pull.sheetFileId)) : []
@@ -206,7 +206,7 @@ export async function evidenceReview(db: Database, read: ReadStoredText, pullId:
     },
     recomputed: {
       asFiled: { standard: pull.declaredStandard, ...peakFigures(own.standards[declaredStandard]) },
-      normalised: { standard: normalised.uncorrected ? 'UNCORRECTED' : LISTING_STANDARD, uncorrected: normalised.uncorrected, ...peakFigures(normalised) },
+      normalised: { standard: normalised.uncorrected ? 'UNCORRECTED' : BUILD_STANDARD, uncorrected: normalised.uncorrected, ...peakFigures(normalised) },
     },
     curves,
     checks: pull.checks ?? [],
@@ -226,7 +226,7 @@ export async function pullFile(db: Database, pullId: number, which: 'pull' | 'sh
 
 /**
  * Locks a pull for a decision with its build: the build row first, then the pull, the order the
- * listing editor takes them in (a build change sends its verified pulls back under the build's lock),
+ * build editor takes them in (a build change sends its verified pulls back under the build's lock),
  * so a decision and an edit never wait on each other in a circle. 404 when missing, 409 when the pull
  * is no longer awaiting a decision.
  */
@@ -244,7 +244,7 @@ const listedPeaksOf = (b: Pick<Build, 'peakHp' | 'peakHpRpm' | 'peakTq' | 'peakT
   ({ peakHp: b.peakHp, peakHpRpm: b.peakHpRpm, peakTq: b.peakTq, peakTqRpm: b.peakTqRpm })
 
 /**
- * Verifies a pull: the build gets its checked mark and its headline figures (under the listing
+ * Verifies a pull: the build gets its checked mark and its headline figures (under the build
  * standard) from this pull, and one audit row records the change, all in one transaction. Returns the build id.
  */
 export async function approvePull(db: Database, input: { actorId: number, pullId: number, note?: string | null, siteUrl?: string }): Promise<number> {
@@ -267,8 +267,8 @@ export async function approvePull(db: Database, input: { actorId: number, pullId
     })
     // The shop hears of it through the outbox, in this same transaction: once, and never for a decision rolled back.
     const [owner] = await tx.select({ email: users.email, name: users.name })
-      .from(builderProfiles).innerJoin(users, eq(users.id, builderProfiles.userId))
-      .where(eq(builderProfiles.id, build!.builderId))
+      .from(shops).innerJoin(users, eq(users.id, shops.userId))
+      .where(eq(shops.id, build!.shopId))
     if (owner) {
       const mail = adminEmails.pullVerified({ name: owner.name, pullLabel: pull.label, buildTitle: build!.title, buildUrl: `${input.siteUrl ?? ''}/builds/${build!.slug}` })
       await enqueueRendered(tx, owner.email, mail, `pull-verified:${pull.id}`)
@@ -301,8 +301,8 @@ export async function rejectPull(db: Database, input: { actorId: number, pullId:
       at: now,
     })
     const [owner] = await tx.select({ email: users.email, name: users.name })
-      .from(builderProfiles).innerJoin(users, eq(users.id, builderProfiles.userId))
-      .where(eq(builderProfiles.id, build!.builderId))
+      .from(shops).innerJoin(users, eq(users.id, shops.userId))
+      .where(eq(shops.id, build!.shopId))
     await recordBuildChange(tx, pull.buildId)
     return { buildId: pull.buildId, buildSlug: build!.slug, buildTitle: build!.title, pullLabel: pull.label, email: owner!.email, name: owner!.name }
   })

@@ -6,7 +6,7 @@ import type { Role } from '#shared/domain'
 import type { SessionUser } from '#shared/types/auth'
 import { activeUser, assertOwner, assertRole, currentPasswordNeeded, SESSION_MAX_AGE_S, sessionCurrent, type AccountRow } from '../auth/policy'
 import { giveBackTokens, signInBuckets, takeTokens } from '../auth/rate-limit'
-import { builderProfiles, users, type BuilderProfile } from '../database/schema'
+import { shops, users, type Shop } from '../database/schema'
 
 /** The full address of the sign-in routes (AUTH_ORIGIN), which also says whether cookies are https-only. */
 export function authOrigin(event?: H3Event): URL {
@@ -130,18 +130,18 @@ export async function requireRole(event: H3Event, ...roles: Role[]): Promise<Ses
   return assertRole(await requireUser(event), roles)
 }
 
-/** The signed-in builder and their shop: every route that acts for a shop starts here. */
-export async function requireCallerShop(event: H3Event): Promise<{ user: SessionUser, shop: BuilderProfile }> {
+/** The signed-in shop and their shop: every route that acts for a shop starts here. */
+export async function requireCallerShop(event: H3Event): Promise<{ user: SessionUser, shop: Shop }> {
   const user = await requireRole(event, 'builder')
-  const [shop] = await useDb().select().from(builderProfiles).where(eq(builderProfiles.userId, user.id)).limit(1)
+  const [shop] = await useDb().select().from(shops).where(eq(shops.userId, user.id)).limit(1)
   if (!shop) throw createError({ status: 403, message: 'This builder account has no shop profile yet.' })
   return { user, shop }
 }
 
 /** A shop the caller owns, by slug: 404 when no shop has it, 403 when it is someone else's (shops are public, so it is visible). */
-export async function requireOwnShop(event: H3Event, slug: string): Promise<{ user: SessionUser, shop: BuilderProfile }> {
+export async function requireOwnShop(event: H3Event, slug: string): Promise<{ user: SessionUser, shop: Shop }> {
   const user = await requireUser(event)
-  const [shop] = await useDb().select().from(builderProfiles).where(eq(builderProfiles.slug, slug)).limit(1)
+  const [shop] = await useDb().select().from(shops).where(eq(shops.slug, slug)).limit(1)
   if (!shop) throw createError({ status: 404, message: 'No shop has that address.' })
   assertOwner(user, shop.userId, 'shop')
   return { user, shop }

@@ -5,7 +5,7 @@ import { type DealActor, loadActor, requestVisibleTo } from './deal-scope'
 
 type Side = 'racer' | 'builder'
 
-/** The signed-in user as the deal services see them (with their shop, for a builder): 401 when anonymous. */
+/** The signed-in user as the deal services see them (with their shop, for a shop): 401 when anonymous. */
 export async function requireDealActor(event: H3Event): Promise<DealActor> {
   const user = await requireUser(event)
   const actor = await loadActor(useDb(), user.id)
@@ -22,10 +22,10 @@ async function guard(event: H3Event, requestId: number | undefined, side: Side |
   const actor = await requireDealActor(event)
   const [row] = requestId === undefined
     ? []
-    : await useDb().select({ racerId: quoteRequests.racerId, builderId: quoteRequests.builderId }).from(quoteRequests)
+    : await useDb().select({ racerId: quoteRequests.racerId, shopId: quoteRequests.shopId }).from(quoteRequests)
         .where(and(eq(quoteRequests.id, requestId), requestVisibleTo(actor))).limit(1)
   if (!row) throw createError({ status: 404, message: 'That deal was not found, or it is not yours to see.' })
-  const mine: Side | 'admin' = row.racerId === actor.id ? 'racer' : row.builderId === actor.builderId ? 'builder' : 'admin'
+  const mine: Side | 'admin' = row.racerId === actor.id ? 'racer' : row.shopId === actor.shopId ? 'builder' : 'admin'
   if (side === 'any') return { actor, side: mine }
   if (mine === 'admin') throw createError({ status: 403, message: 'Only the racer and the shop act on a deal; an admin may look, or settle a dispute.' })
   if (side !== 'party' && mine !== side) throw createError({ status: 403, message: side === 'racer' ? 'This is for the racer of the deal.' : 'This is for the shop of the deal.' })

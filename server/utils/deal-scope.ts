@@ -4,7 +4,7 @@
 import { eq, or, sql, type SQL } from 'drizzle-orm'
 import type Stripe from 'stripe'
 import type { Role } from '../../shared/domain'
-import { builderProfiles, quoteRequests, users } from '../database/schema'
+import { shops, quoteRequests, users } from '../database/schema'
 import type { Database } from '../database/types'
 
 export type DbTransaction = Parameters<Parameters<Database['transaction']>[0]>[0]
@@ -26,26 +26,26 @@ export interface DealContext {
   now: () => Date
 }
 
-/** The signed-in user as the deal services see them: their id, role and, for a builder, their shop. */
+/** The signed-in user as the deal services see them: their id, role and, for a shop, their shop. */
 export interface DealActor {
   id: number
   role: Role
   email: string
   name: string
-  builderId: number | null
+  shopId: number | null
 }
 
 /** Loads the acting user with their shop, or null when there is no such user (or they are suspended). */
 export async function loadActor(db: Executor, userId: number): Promise<DealActor | null> {
-  const [row] = await db.select({ user: users, builderId: builderProfiles.id }).from(users)
-    .leftJoin(builderProfiles, eq(builderProfiles.userId, users.id))
+  const [row] = await db.select({ user: users, shopId: shops.id }).from(users)
+    .leftJoin(shops, eq(shops.userId, users.id))
     .where(eq(users.id, userId)).limit(1)
   if (!row || row.user.suspendedAt) return null
-  return { id: row.user.id, role: row.user.role, email: row.user.email, name: row.user.name, builderId: row.builderId ?? null }
+  return { id: row.user.id, role: row.user.role, email: row.user.email, name: row.user.name, shopId: row.shopId ?? null }
 }
 
 /** The condition that limits quote requests to those the actor is a party to (admins see all). */
 export function requestVisibleTo(actor: DealActor): SQL {
   if (actor.role === 'admin') return sql`1 = 1`
-  return or(eq(quoteRequests.racerId, actor.id), actor.builderId === null ? sql`1 = 0` : eq(quoteRequests.builderId, actor.builderId))!
+  return or(eq(quoteRequests.racerId, actor.id), actor.shopId === null ? sql`1 = 0` : eq(quoteRequests.shopId, actor.shopId))!
 }

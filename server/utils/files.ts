@@ -1,5 +1,5 @@
 // The file service: where an upload is vetted (empty 422, size 413, sniffed type 415), how its name is
-// cleaned, how it is stored and read back, and the headers it is served under. Listing uploads (photos,
+// cleaned, how it is stored and read back, and the headers it is served under. Build uploads (photos,
 // pulls, sheets) and deal files alike go through it; the body reading and sniffing are in uploads.ts,
 // and the Nitro side (the uploads mount, answering with a stored file) in stored-files.ts.
 import contentDisposition from 'content-disposition'

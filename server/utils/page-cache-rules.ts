@@ -51,7 +51,7 @@ export function pageCacheKey(host: string, url: string): { key: string, seconds:
 
 /**
  * Stands in the stored HTML where the answer's nonce was. It carries random bytes of this process,
- * so no text a visitor wrote into a listing can spell it and receive the next answer's nonce.
+ * so no text a visitor wrote into a build can spell it and receive the next answer's nonce.
  */
 export const NONCE_PLACEHOLDER = `__tw_nonce_${randomBytes(12).toString('hex')}__`
 

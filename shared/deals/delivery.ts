@@ -9,7 +9,7 @@ import { peaks, torqueAt } from '../engine/curves'
 import { checkEvidence } from '../engine/evidence'
 import { displacementCi } from '../engine/geometry'
 import type { Aspiration, CorrectionStandard, EvidenceCheck, ParseColumns, PullPoint, Weather } from '../engine/types'
-import { displayCurve } from '../listings/display-curve'
+import { displayCurve } from '../builds/display-curve'
 
 export interface Guarantee {
   hp: number
@@ -64,7 +64,7 @@ export function evaluateDelivery(input: DeliveryInput): DeliveryEvaluation {
     { aspiration: input.aspiration, displacementCi: displacement, strokeIn: input.strokeIn, fingerprintsOfOtherBuilds: input.fingerprintsOfOtherBuilds ?? [] },
   )
   // Money moves on this pull, so a correction outside the standard's allowed band (a warning on a
-  // listing) is refused here too: the figure under the quoted standard depends on it.
+  // build) is refused here too: the figure under the quoted standard depends on it.
   const reasons = checks.filter(c => c.outcome === 'fail' || (c.id === 'correction-factor' && c.outcome === 'warn')).map(c => c.message)
   if (input.displacementCapCi !== null && displacement > input.displacementCapCi + 1e-9) {
     reasons.push(`The engine displaces ${displacement.toFixed(1)} ci, over the ${input.displacementCapCi} ci cap of the request.`)

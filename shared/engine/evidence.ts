@@ -257,7 +257,7 @@ function declaredPeaks(pull: EvidencePull, points: PullPoint[]): EvidenceCheck {
   const outcome = worst(grades.map(g => g.outcome))
   const off = grades.filter(g => g.outcome !== 'pass').map(g => g.note)
   if (outcome === 'pass') return check('declared-peaks', 'pass', `The declared peaks match the file (${fileText}).`, values)
-  return check('declared-peaks', outcome, `${off.join('; ')}. Ask the shop to correct the listing or send the file the figures came from.`, values)
+  return check('declared-peaks', outcome, `${off.join('; ')}. Ask the shop to correct the build or send the file the figures came from.`, values)
 }
 
 function correction(pull: EvidencePull): EvidenceCheck {

@@ -6,7 +6,7 @@ import { G_PER_LB } from './units'
 /**
  * Brake-specific fuel consumption of gasoline at full-load power mixtures, lb/(hp·h): about 0.50
  * naturally aspirated and 0.60 with a power adder, which runs richer for cooling (common practice
- * among engine builders; a tuner's measured figure always beats it).
+ * among engine shops; a tuner's measured figure always beats it).
  */
 export const GASOLINE_BSFC = { na: 0.5, boosted: 0.6 } as const
 

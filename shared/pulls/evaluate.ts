@@ -20,7 +20,7 @@ export type PullEvaluation
 
 /**
  * Everything Torquewright learns from one pull file before it is saved: the parse (errors by row),
- * the automatic evidence report, the headline figures under the listing standard, the curve's fingerprint
+ * the automatic evidence report, the headline figures under the build standard, the curve's fingerprint
  * and the derived figures under every standard (shared/pulls/figures.ts) that are stored with the pull.
  * The same path serves uploads, the parse preview and the demo seed.
  */

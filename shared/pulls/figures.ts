@@ -11,9 +11,9 @@
 import { convertCurve, isCorrectionStandard } from '../engine/correction'
 import { peaks, resample, torqueAt } from '../engine/curves'
 import { CORRECTION_STANDARDS, type CorrectionStandard, type DeclaredFigures, type PullPoint, type Weather } from '../engine/types'
-import { displayCurve } from '../listings/display-curve'
+import { displayCurve } from '../builds/display-curve'
 import { CURVE_STEP_RPM } from '../../search/types'
-import { LISTING_STANDARD } from './summary'
+import { BUILD_STANDARD } from './summary'
 
 /** Raise when the derivation changes: stored rows of an older version are recomputed on their next read. */
 export const PULL_FIGURES_VERSION = 1
@@ -44,7 +44,7 @@ export interface DerivedPullFigures {
   standards: Record<CorrectionStandard, StandardFigures>
   /** The display curve (at most DISPLAY_MAX_POINTS points) as filed. */
   curve: StoredCurvePoint[]
-  /** Power under the listing standard on the search index's fixed grid (0.1 hp), for band queries. */
+  /** Power under the build standard on the search index's fixed grid (0.1 hp), for band queries. */
   searchCurve: { startRpm: number, hp: number[] } | null
 }
 
@@ -92,10 +92,10 @@ export function derivePullFigures(points: readonly PullPoint[], declared: Correc
   const filed = points.slice()
   const from = { standard: declared, weather }
   const standards = {} as Record<CorrectionStandard, StandardFigures>
-  let listing: PullPoint[] = filed
+  let build: PullPoint[] = filed
   for (const { id } of CORRECTION_STANDARDS) {
     const converted = convertCurve(filed, from, { standard: id, weather })
-    if (id === LISTING_STANDARD) listing = converted.points
+    if (id === BUILD_STANDARD) build = converted.points
     const pk = peaks(converted.points)
     standards[id] = {
       ratio: converted.ratio,
@@ -107,7 +107,7 @@ export function derivePullFigures(points: readonly PullPoint[], declared: Correc
       peakTqRpm: pk.peakTqRpm,
     }
   }
-  const grid = resample(listing, CURVE_STEP_RPM)
+  const grid = resample(build, CURVE_STEP_RPM)
   return {
     version: PULL_FIGURES_VERSION,
     standards,

@@ -2,7 +2,7 @@
  * Which pull speaks for a build: its headline figures on cards, in search (filters and sorts), on the
  * build page, in the shop's figures and in saved-search e-mails. One rule, used everywhere:
  *
- * 1. the strongest verified pull (peak power under the listing standard);
+ * 1. the strongest verified pull (peak power under the build standard);
  * 2. with none verified, the strongest pull still awaiting verification whose automatic report has no
  *    failure — shown as awaiting verification;
  * 3. otherwise none: a pull that fails one of its own automatic checks, or a rejected one, never sets

@@ -2,8 +2,8 @@ import { convertCurve } from '../engine/correction'
 import { peaks } from '../engine/curves'
 import type { CorrectionStandard, PullPoint, Weather } from '../engine/types'
 
-/** The standard every listing's headline figures are normalised to. */
-export const LISTING_STANDARD: CorrectionStandard = 'SAE_J1349_2004'
+/** The standard every build's headline figures are normalised to. */
+export const BUILD_STANDARD: CorrectionStandard = 'SAE_J1349_2004'
 
 export interface PullSummaryFigures {
   points: number
@@ -19,9 +19,9 @@ export interface PullSummaryFigures {
 
 const one = (n: number) => Math.round(n * 10) / 10
 
-/** Headline figures of a pull under the listing standard, recomputed from the raw points and the shop's weather. */
+/** Headline figures of a pull under the build standard, recomputed from the raw points and the shop's weather. */
 export function summarisePull(points: PullPoint[], declared: CorrectionStandard, weather: Weather | null): PullSummaryFigures {
-  const converted = convertCurve(points, { standard: declared, weather }, { standard: LISTING_STANDARD, weather })
+  const converted = convertCurve(points, { standard: declared, weather }, { standard: BUILD_STANDARD, weather })
   const pk = peaks(converted.points)
   const first = points[0]
   const last = points[points.length - 1]

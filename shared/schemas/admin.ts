@@ -4,7 +4,7 @@ import { idSchema, paginationQuery } from './common'
 /** Request shapes of the admin routes; the admin pages validate with these same schemas. */
 
 /**
- * Who reads an admin's reason, and what it is for them: a shop fixes its pull or listing; the racer
+ * Who reads an admin's reason, and what it is for them: a shop fixes its pull or build; the racer
  * whose review is hidden learns why.
  */
 export const REASON_READERS = {
@@ -27,8 +27,8 @@ export const rejectEvidenceSchema = z.strictObject({
   reason: reasonSchema('what is wrong with the pull', 'shop'),
 })
 
-export const unpublishListingSchema = z.strictObject({
-  reason: reasonSchema('why the listing comes down', 'shop'),
+export const unpublishBuildSchema = z.strictObject({
+  reason: reasonSchema('why the build comes down', 'shop'),
 })
 
 export const DISPUTE_OUTCOMES = ['refund', 'release'] as const
@@ -45,7 +45,7 @@ export type SettleDisputeInput = z.infer<typeof settleDisputeSchema>
 
 export const BUILD_STATUSES = ['draft', 'published', 'archived'] as const
 
-export const adminListingsQuery = paginationQuery.extend({
+export const adminBuildsQuery = paginationQuery.extend({
   q: z.string().trim().max(120, 'Search with at most 120 characters').optional(),
   status: z.enum(BUILD_STATUSES, { error: 'status is draft, published or archived' }).optional(),
 })
@@ -63,4 +63,4 @@ export const auditQuery = paginationQuery.extend({
 }).refine(v => !v.from || !v.to || v.from <= v.to, { message: 'The first day comes before the last day', path: ['from'] })
 
 export type AuditQuery = z.infer<typeof auditQuery>
-export type AdminListingsQuery = z.infer<typeof adminListingsQuery>
+export type AdminBuildsQuery = z.infer<typeof adminBuildsQuery>

@@ -43,7 +43,7 @@ const accountFields = {
   password: passwordSchema,
 }
 
-/** Sign-up: a racer, or a builder with the shop they run. Admins are never made by sign-up. */
+/** Sign-up: a racer, or a shop owner with the shop they run. Admins are never made by sign-up. */
 export const signUpSchema = z.discriminatedUnion('role', [
   z.object({ role: z.literal('racer'), ...accountFields }),
   z.object({ role: z.literal('builder'), ...accountFields, shopName: shopNameSchema, region: regionSchema }),

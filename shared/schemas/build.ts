@@ -4,7 +4,7 @@ import { dynamicCompressionRatio, staticCompressionRatio } from '../engine/geome
 import { ASPIRATIONS, CORRECTION_STANDARD_IDS, FUELS, USES } from '../domain'
 
 /**
- * The listing editor's schemas, used by the editor page (field messages as the builder types) and by
+ * The build editor's schemas, used by the editor page (field messages as the shop types) and by
  * the server (autosave, publish). The ranges are wide plausibility bounds for engines of this trade
  * (common practice, values from memory): they catch a slipped decimal point, not an unusual build.
  */
@@ -24,7 +24,7 @@ const text = (label: string, min: number, max: number) => z.string({ error: `${l
 // People read these messages in the editor's checklist: no stored codes (pump_gas, e85) in them.
 const choice = <T extends readonly [string, ...string[]]>(label: string, values: T) => z.enum(values, { error: `Pick the ${label.toLowerCase()} from the list` })
 
-/** Most a listing may ask, in cents (ten million dollars). */
+/** Most a build may ask, in cents (ten million dollars). */
 export const MAX_PRICE_CENTS = 1_000_000_000
 
 /** Every combination field with its own bounds; publishing needs them all (injectors stay optional for carburetted builds). */
@@ -58,7 +58,7 @@ export const combinationFields = {
 
 export type CombinationField = keyof typeof combinationFields
 
-/** Fields a published listing must have (every combination field). */
+/** Fields a published build must have (every combination field). */
 export const REQUIRED_FOR_PUBLISH = Object.keys(combinationFields) as CombinationField[]
 
 const optionalFields = {
@@ -94,7 +94,7 @@ const nullableAll = <T extends Record<string, z.ZodType>>(shape: T) =>
  * An autosave: any subset of the fields, each checked on its own, null clearing it. A parts list, when
  * sent, replaces the whole list (rows in their order).
  */
-export const buildDraftPatch = z.object({
+export const buildPatch = z.object({
   title: buildTitle.optional(),
   ...nullableAll(combinationFields),
   injectorSizeLbHr: optionalFields.injectorSizeLbHr.optional(),
@@ -102,7 +102,7 @@ export const buildDraftPatch = z.object({
   parts: partsListSchema.optional(),
 }).strict()
 
-export type BuildDraftPatch = z.infer<typeof buildDraftPatch>
+export type BuildPatch = z.infer<typeof buildPatch>
 
 export const newBuildSchema = z.object({ title: buildTitle }).strict()
 
@@ -139,14 +139,14 @@ const publishObject = z.object({
   injectorCount: optionalFields.injectorCount,
 })
 
-/** What a listing must hold to be published; the server runs it again over the stored row. */
+/** What a build must hold to be published; the server runs it again over the stored row. */
 export const buildPublishSchema = publishObject.superRefine(crossChecks)
 
 export type PublishableBuild = z.infer<typeof buildPublishSchema>
 
 /**
- * Everything that keeps a listing from being published, by field: the publish schema's issues, and
- * a pull to show. The editor shows these as the builder types; the server runs the same on publish.
+ * Everything that keeps a build from being published, by field: the publish schema's issues, and
+ * a pull to show. The editor shows these as the shop types; the server runs the same on publish.
  */
 export function publishProblems(fields: Record<string, unknown>, livePulls: number): { path: string, message: string }[] {
   const result = buildPublishSchema.safeParse(fields)
@@ -154,7 +154,7 @@ export function publishProblems(fields: Record<string, unknown>, livePulls: numb
   const issues = result.success
     ? []
     : result.error.issues.map(i => ({ path: i.path.join('.'), message: missing(i) ? 'Required to publish' : i.message }))
-  if (livePulls === 0) issues.push({ path: 'pulls', message: 'Add at least one dyno pull: a listing shows what the build has proven' })
+  if (livePulls === 0) issues.push({ path: 'pulls', message: 'Add at least one dyno pull: a published build shows what it has proven' })
   return issues
 }
 
@@ -169,7 +169,7 @@ const optionalFigure = (label: string, min: number, max: number) => num(label, m
 const optionalRpm = (label: string) => whole(label, 500, 20_000).nullable().default(null)
 
 /**
- * What the builder says about one pull, sent beside the file. Weather is all three readings or none;
+ * What the shop says about one pull, sent beside the file. Weather is all three readings or none;
  * a variant says what changed from the baseline.
  */
 export const pullMetaSchema = z.object({

@@ -15,7 +15,7 @@ const required = (max: number, what: string) => text(max, what).min(1, `${what} 
 const fileIds = z.array(idSchema).max(DEAL_LIMITS.attachments, `At most ${DEAL_LIMITS.attachments} files`).default([])
 
 export const quoteRequestSchema = z.object({
-  builder: slugSchema,
+  shop: slugSchema,
   build: slugSchema.optional(),
   title: required(160, 'A title'),
   targetHp: z.number({ error: 'The target power is a number' }).min(50, 'The target power is at least 50 hp').max(5000, 'The target power is at most 5,000 hp'),
@@ -102,7 +102,7 @@ const bounded = (label: string, min: number, max: number, unit: string) => z.num
 
 /**
  * Another combination a shop offers beside a quote's line items. Bore, stroke and cylinders carry
- * the listing editor's bounds (shared/schemas/build.ts); the displacement is always computed from
+ * the build editor's bounds (shared/schemas/build.ts); the displacement is always computed from
  * them with shared/engine, never typed. Cam durations are at 0.050 in lift.
  */
 export const alternativeSchema = z.object({

@@ -2,7 +2,7 @@
 import type { MilestoneStateName } from '../deals/constants'
 import type { EvidenceCheck, EvidenceOutcome } from '../engine/types'
 import type { BuildStatus } from './editor'
-import type { ListedCombination } from './listings'
+import type { ListedCombination } from './builds'
 import type { DealEventView, OrderView, ThreadMessageView } from './deals'
 
 export type PullStatus = 'submitted' | 'verified' | 'rejected'
@@ -76,7 +76,7 @@ export interface EvidenceReview {
   file: { name: string, mime: string, sizeBytes: number, sha256: string, lines: number, preview: string, truncated: boolean }
   sheet: { name: string, mime: string, sizeBytes: number } | null
   declared: PeakFigures & { standard: string, factor: number | null }
-  /** Peaks recomputed from the raw file: as filed (the shop's standard) and under the listing standard. */
+  /** Peaks recomputed from the raw file: as filed (the shop's standard) and under the build standard. */
   recomputed: { asFiled: PeakFigures & { standard: string }, normalised: PeakFigures & { standard: string, uncorrected: boolean } }
   curves: ReviewCurve[]
   checks: EvidenceCheck[]
@@ -98,8 +98,8 @@ export interface DecisionResult {
   mailed: boolean | null
 }
 
-/** One listing as the moderation page shows it. */
-export interface AdminListingRow {
+/** One build as the moderation page shows it. */
+export interface AdminBuildRow {
   id: number
   slug: string
   title: string

@@ -30,7 +30,7 @@ export interface AdminUserRow {
   shop: { slug: string, shopName: string } | null
 }
 
-/** A builder's own build as the shop dashboard lists it, drafts included. */
+/** A shop's own build as the shop dashboard lists it, drafts included. */
 export interface OwnBuildRow {
   id: number
   slug: string

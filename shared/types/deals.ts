@@ -91,7 +91,7 @@ export interface RequestView {
   title: string
   status: string
   racer: { id: number, name: string }
-  builder: { id: number, slug: string, shopName: string, region: string }
+  shop: { id: number, slug: string, shopName: string, region: string }
   build: { slug: string, title: string } | null
   targetHp: number
   targetTq: number | null
@@ -196,7 +196,7 @@ export interface OrderView {
   requestId: number
   title: string
   racer: { id: number, name: string }
-  builder: { id: number, slug: string, shopName: string }
+  shop: { id: number, slug: string, shopName: string }
   totalCents: number
   platformFeeCents: number
   revision: number

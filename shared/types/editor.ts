@@ -1,11 +1,11 @@
-/** The shapes the listing editor's routes answer with (the owner's view of a build). */
+/** The shapes the build editor's routes answer with (the owner's view of a build). */
 import type { EvidenceCheck, ParseError } from '../engine/types'
 import type { PullSummaryFigures } from '../pulls/summary'
-import type { BuildPartRow, BuildPhotoRow } from './listings'
+import type { BuildPartRow, BuildPhotoRow } from './builds'
 
 export type BuildStatus = 'draft' | 'published' | 'archived'
 
-/** Every editable field, null where the builder has not filled it in yet. */
+/** Every editable field, null where the shop has not filled it in yet. */
 export interface EditorFields {
   title: string
   summary: string | null
@@ -71,7 +71,7 @@ export interface EditorBuild {
   parts: BuildPartRow[]
   photos: BuildPhotoRow[]
   pulls: EditorPull[]
-  /** Empty when the listing can be published. */
+  /** Empty when the build can be published. */
   publishIssues: PublishIssue[]
 }
 

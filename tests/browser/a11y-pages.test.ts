@@ -8,7 +8,7 @@ import { AxeBuilder } from '@axe-core/playwright'
 import { and, asc, eq } from 'drizzle-orm'
 import type { Page } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { PERSONAS, BUILDER_SHOP } from '../support/auth'
+import { PERSONAS, SHOP } from '../support/auth'
 import { openBrowser, signInPage } from '../support/browser'
 import { baseUrl, schema } from '../support/context'
 import { dealTestContext, fundMilestone, makeDispute, makeOrder } from '../support/deals'
@@ -17,7 +17,7 @@ import type { DealContext } from '../../server/services/deal-context'
 import type { Database } from '../../server/database/types'
 
 type Role = 'visitor' | 'racer' | 'shop' | 'admin'
-const SIGN_IN: Record<Exclude<Role, 'visitor'>, string> = { racer: PERSONAS.racer, shop: PERSONAS.builder, admin: PERSONAS.admin }
+const SIGN_IN: Record<Exclude<Role, 'visitor'>, string> = { racer: PERSONAS.racer, shop: PERSONAS.shop, admin: PERSONAS.admin }
 
 let browser: Awaited<ReturnType<typeof openBrowser>>
 let page: Page
@@ -73,8 +73,8 @@ async function audit(role: Role, path: string): Promise<string[]> {
 describe('axe-core on every page, as its role (WCAG 2.1 AA)', () => {
   it('finds no serious or critical violation on any page, and covers every page file', async () => {
     const [build] = await db.select({ id: schema.builds.id, slug: schema.builds.slug }).from(schema.builds)
-      .innerJoin(schema.builderProfiles, eq(schema.builderProfiles.id, schema.builds.builderId))
-      .where(and(eq(schema.builds.status, 'published'), eq(schema.builderProfiles.slug, BUILDER_SHOP))).orderBy(asc(schema.builds.id)).limit(1)
+      .innerJoin(schema.shops, eq(schema.shops.id, schema.builds.shopId))
+      .where(and(eq(schema.builds.status, 'published'), eq(schema.shops.slug, SHOP))).orderBy(asc(schema.builds.id)).limit(1)
     const { pullId } = await makeSubmittedPull(db, build!.slug)
     const dispute = await makeDispute(ctx)
     const order = await makeOrder(ctx)
@@ -92,11 +92,11 @@ describe('axe-core on every page, as its role (WCAG 2.1 AA)', () => {
       '/sign-up': [['visitor', '/sign-up']],
       '/check-inbox': [['visitor', '/check-inbox?email=someone%40example.test']],
       '/builds/[slug]': [['visitor', `/builds/${build!.slug}`]],
-      '/builders/[slug]': [['visitor', `/builders/${BUILDER_SHOP}`]],
+      '/builders/[slug]': [['visitor', `/builders/${SHOP}`]],
       '/account': [['racer', '/account']],
       '/notifications': [['racer', '/notifications']],
       '/deals': [['racer', '/deals'], ['shop', '/deals'], ['admin', '/deals']],
-      '/deals/new': [['racer', `/deals/new?builder=${BUILDER_SHOP}&build=${build!.slug}`]],
+      '/deals/new': [['racer', `/deals/new?builder=${SHOP}&build=${build!.slug}`]],
       '/deals/requests/[id]': [['racer', `/deals/requests/${order.requestId}`], ['shop', `/deals/requests/${order.requestId}`]],
       '/deals/requests/[id]/quote': [['shop', `/deals/requests/${order.requestId}/quote`]],
       '/deals/orders/[id]': [['racer', `/deals/orders/${order.orderId}`], ['shop', `/deals/orders/${order.orderId}`]],
@@ -114,7 +114,7 @@ describe('axe-core on every page, as its role (WCAG 2.1 AA)', () => {
       '/admin/users': [['admin', '/admin/users']],
       '/admin/reviews': [['admin', '/admin/reviews']],
       '/swaps': [['visitor', '/swaps?change=camshaft']],
-      '/track-record/[slug]/[figure]': [['visitor', `/track-record/${BUILDER_SHOP}/on-time`]],
+      '/track-record/[slug]/[figure]': [['visitor', `/track-record/${SHOP}/on-time`]],
     }
     // A new page file fails here until it has a row above.
     expect(pageRoutes().filter(r => !visits[r])).toEqual([])

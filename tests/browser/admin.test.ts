@@ -74,7 +74,7 @@ describe('the admin desk in Chromium', () => {
     expect(browser.requests.filter(url => !isLocal(url))).toEqual([])
   })
 
-  it('a rejection with its reason reaches the builder\'s inbox', async () => {
+  it('a rejection with its reason reaches the shop\'s inbox', async () => {
     const owner = await makeAccount({ role: 'builder', name: 'Petra Linwood' })
     const { db, close } = await testDb()
     const { pullId, pullLabel } = await makeBuildAwaitingCheck(db, { shopId: (await shopOf(db, owner.id)).id })

@@ -63,13 +63,13 @@ describe('signing up and in, in Chromium', () => {
     await expect.poll(() => nav().getAttribute('data-role')).toBe('racer')
   })
 
-  it('a builder signs in to the shop dashboard, which lists the shop\'s builds', async () => {
+  it('a shop signs in to the shop dashboard, which lists the shop\'s builds', async () => {
     const { db, close } = await testDb()
-    const [shop] = await db.select().from(schema.builderProfiles).where(eq(schema.builderProfiles.slug, 'harrow-creek-engine-works'))
-    const builds = await db.select().from(schema.builds).where(eq(schema.builds.builderId, shop!.id))
+    const [shop] = await db.select().from(schema.shops).where(eq(schema.shops.slug, 'harrow-creek-engine-works'))
+    const builds = await db.select().from(schema.builds).where(eq(schema.builds.shopId, shop!.id))
     await close()
 
-    await signInWithForm(PERSONAS.builder, DEMO_PASSWORD)
+    await signInWithForm(PERSONAS.shop, DEMO_PASSWORD)
     await page.waitForURL(`${baseUrl()}/dashboard`)
     await expect.poll(() => nav().getAttribute('data-role')).toBe('builder')
     expect(await page.locator('[data-test="nav-dashboard"]').innerText()).toBe('Shop dashboard')
@@ -77,7 +77,7 @@ describe('signing up and in, in Chromium', () => {
     expect(await page.locator('[data-test="own-build-row"]').count()).toBe(builds.length)
   })
 
-  it('refuses a racer who opens the builder-only dashboard, whether typed or followed', async () => {
+  it('refuses a racer who opens the shop-only dashboard, whether typed or followed', async () => {
     await signInWithForm(PERSONAS.racer, DEMO_PASSWORD)
     await page.waitForURL(`${baseUrl()}/`)
     const res = await page.goto(`${baseUrl()}/dashboard`, { waitUntil: 'networkidle' })
@@ -89,7 +89,7 @@ describe('signing up and in, in Chromium', () => {
   it('sends an anonymous visitor of the account page to sign in, and back after', async () => {
     await page.goto(`${baseUrl()}/account`, { waitUntil: 'networkidle' })
     await page.waitForURL(/\/sign-in\?next=(%2F|\/)account$/)
-    await page.fill('#field-email', PERSONAS.otherBuilder)
+    await page.fill('#field-email', PERSONAS.otherShop)
     await page.fill('#field-password', DEMO_PASSWORD)
     await page.click('[data-test="password-form"] button[type="submit"]')
     await page.waitForURL(`${baseUrl()}/account`)
@@ -156,13 +156,13 @@ describe('suspension and units, in Chromium', () => {
     await expect.poll(() => power.innerText()).toMatch(/\d\s*kW$/)
 
     await page.evaluate(() => localStorage.clear())
-    await signInWithForm(PERSONAS.otherBuilder, DEMO_PASSWORD)
+    await signInWithForm(PERSONAS.otherShop, DEMO_PASSWORD)
     await page.waitForURL(`${baseUrl()}/dashboard`)
     await page.goto(`${baseUrl()}/account`, { waitUntil: 'networkidle' })
     await page.click('[data-test="units-metric"]')
     await expect.poll(async () => {
       const { db, close } = await testDb()
-      const [row] = await db.select().from(schema.users).where(eq(schema.users.email, PERSONAS.otherBuilder))
+      const [row] = await db.select().from(schema.users).where(eq(schema.users.email, PERSONAS.otherShop))
       await close()
       return row!.unitPreference
     }).toBe('metric')
@@ -173,7 +173,7 @@ describe('suspension and units, in Chromium', () => {
     await page.click('[data-test="units-toggle-imperial"]')
     await expect.poll(async () => {
       const { db, close } = await testDb()
-      const [row] = await db.select().from(schema.users).where(eq(schema.users.email, PERSONAS.otherBuilder))
+      const [row] = await db.select().from(schema.users).where(eq(schema.users.email, PERSONAS.otherShop))
       await close()
       return row!.unitPreference
     }).toBe('imperial')

@@ -35,7 +35,7 @@ describe('the composer\'s alternative combination at 390 px', () => {
     const { id } = await createRequest(ctx, racerActor, requestInput({ title: `Alternative in Chromium ${Math.random().toString(36).slice(2, 8)}`, displacementCapCi: 440 }))
     const { page } = shop
     await page.setViewportSize({ width: 390, height: 844 })
-    await signInPage(page, PERSONAS.builder)
+    await signInPage(page, PERSONAS.shop)
     await page.goto(`${baseUrl()}/deals/requests/${id}/quote`, { waitUntil: 'networkidle' })
     const line = page.locator('[data-test="line-item"]').first()
     await line.getByLabel('Description').fill('Bore, hone and deck the block')
@@ -80,7 +80,7 @@ async function orderWithRefund() {
   const order = await makeOrder(ctx)
   const [m1, m2, m3] = order.milestones as [typeof order.milestones[0], typeof order.milestones[0], typeof order.milestones[0]]
   await fundMilestone(ctx, order.racer, m1.id)
-  await submitMilestone(ctx, order.builder, m1.id, { notes: 'Parts ordered.', proofFileIds: [], deliveryPullId: null })
+  await submitMilestone(ctx, order.shop, m1.id, { notes: 'Parts ordered.', proofFileIds: [], deliveryPullId: null })
   await approveMilestone(ctx, order.racer, m1.id)
   await fundMilestone(ctx, order.racer, m2.id)
   await disputeMilestone(ctx, order.racer, m2.id, 'The block came back cracked.')
@@ -94,7 +94,7 @@ describe('the shop sending a change order', () => {
     const { page } = shop
     await page.setViewportSize({ width: 390, height: 844 })
     await page.goto(`${baseUrl()}/deals/orders/${order.orderId}`, { waitUntil: 'networkidle' })
-    if (await page.locator('[data-test="nav-account"]').count() === 0) await signInPage(page, PERSONAS.builder)
+    if (await page.locator('[data-test="nav-account"]').count() === 0) await signInPage(page, PERSONAS.shop)
     await page.goto(`${baseUrl()}/deals/orders/${order.orderId}`, { waitUntil: 'networkidle' })
     await page.click('[data-test="new-change-order"]')
     const form = page.locator('[data-test="change-order-form"]')
@@ -117,7 +117,7 @@ describe('the racer accepting a change order', () => {
   it('asks first with the amounts, changes nothing on "Not yet", and replaces the unpaid milestone on the yes', async () => {
     const ctx = deal.ctx
     const { order, m3 } = await orderWithRefund()
-    const { id: changeId } = await sendChangeOrder(ctx, order.builder, order.orderId, {
+    const { id: changeId } = await sendChangeOrder(ctx, order.shop, order.orderId, {
       totalCents: 900_000,
       milestones: [
         { title: 'Short block, second run', deliverable: 'Machined short block', amountCents: 500_000, dueDate: inDays(45) },

@@ -20,10 +20,10 @@ afterAll(async () => {
 
 describe('confirming a payout in Chromium', () => {
   it('asks with the amount before approving, moves nothing on "Not yet", and pays out on the yes', async () => {
-    const { racer, builder, orderId, milestones } = await makeOrder(deal.ctx)
+    const { racer, shop, orderId, milestones } = await makeOrder(deal.ctx)
     const first = milestones[0]!
     await fundMilestone(deal.ctx, racer, first.id)
-    await submitMilestone(deal.ctx, builder, first.id, { notes: 'Parts ordered; invoices attached to the thread.', proofFileIds: [], deliveryPullId: null })
+    await submitMilestone(deal.ctx, shop, first.id, { notes: 'Parts ordered; invoices attached to the thread.', proofFileIds: [], deliveryPullId: null })
 
     const { page } = browser
     await signInPage(page, PERSONAS.racer)

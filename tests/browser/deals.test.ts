@@ -3,7 +3,7 @@
 // fake's own page, and both see it funded; then a message from one appears on the other's open page.
 import { eq } from 'drizzle-orm'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { PERSONAS, BUILDER_SHOP } from '../support/auth'
+import { PERSONAS, SHOP } from '../support/auth'
 import { isLocal, openBrowser, signInPage } from '../support/browser'
 import { baseUrl, schema, testDb } from '../support/context'
 
@@ -25,13 +25,13 @@ describe('a deal in Chromium', () => {
   it('goes from a request to a funded first deposit, seen by both sides, and carries messages live', async () => {
     const { db, close } = await testDb()
     const [build] = await db.select({ slug: schema.builds.slug }).from(schema.builds)
-      .innerJoin(schema.builderProfiles, eq(schema.builderProfiles.id, schema.builds.builderId))
-      .where(eq(schema.builderProfiles.slug, BUILDER_SHOP)).limit(1)
+      .innerJoin(schema.shops, eq(schema.shops.id, schema.builds.shopId))
+      .where(eq(schema.shops.slug, SHOP)).limit(1)
     await close()
     const r = racer.page
     const s = shop.page
     await signInPage(r, PERSONAS.racer)
-    await signInPage(s, PERSONAS.builder)
+    await signInPage(s, PERSONAS.shop)
 
     // The racer asks for a quote from one of the shop's builds.
     await r.goto(`${baseUrl()}/builds/${build!.slug}`, { waitUntil: 'networkidle' })

@@ -4,7 +4,7 @@ import { PERSONAS } from '../support/auth'
 import { openBrowser, signInPage } from '../support/browser'
 import { baseUrl } from '../support/context'
 import { dealTestContext, fundMilestone, makeOrder } from '../support/deals'
-import { inventedPullCsv } from '../support/listings'
+import { inventedPullCsv } from '../support/builds'
 
 let browser: Awaited<ReturnType<typeof openBrowser>>
 let deal: Awaited<ReturnType<typeof dealTestContext>>
@@ -31,7 +31,7 @@ describe('a delivery pull in Chromium', () => {
     await fundMilestone(deal.ctx, racer, milestones[0]!.id)
 
     const { page } = browser
-    await signInPage(page, PERSONAS.builder)
+    await signInPage(page, PERSONAS.shop)
     await page.goto(`${baseUrl()}/deals/orders/${orderId}`, { waitUntil: 'networkidle' })
     await page.click('[data-test="open-submit"]')
     const form = page.locator('[data-test="delivery-pull-form"]')

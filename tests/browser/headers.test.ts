@@ -77,11 +77,11 @@ describe('pages under the CSP in Chromium', () => {
     // Anonymous, with no Auth.js cookie at all (the sign-in page above set its housekeeping cookies).
     await browser.context.clearCookies()
     const shop = 'tallgrass-racing-engines'
-    const [row] = await db.select({ shopName: schema.builderProfiles.shopName }).from(schema.builderProfiles).where(eq(schema.builderProfiles.slug, shop))
+    const [row] = await db.select({ shopName: schema.shops.shopName }).from(schema.shops).where(eq(schema.shops.slug, shop))
     await visit(`/builders/${shop}`, '[data-test="track-record"]')
     const first = await page.evaluate(() => document.querySelector('script[nonce]') ? (document.querySelector('script[nonce]') as HTMLScriptElement).nonce : '')
     // A rename written straight to MariaDB (no hook): a page that still shows the old name came from the cache.
-    await db.update(schema.builderProfiles).set({ shopName: `${row!.shopName} (round the app)` }).where(eq(schema.builderProfiles.slug, shop))
+    await db.update(schema.shops).set({ shopName: `${row!.shopName} (round the app)` }).where(eq(schema.shops.slug, shop))
     try {
       await visit(`/builders/${shop}`, '[data-test="track-record"]')
       await expect.poll(() => page.locator('[data-test="shop-name"]').textContent()).toBe(row!.shopName)
@@ -90,7 +90,7 @@ describe('pages under the CSP in Chromium', () => {
       expect(second).not.toBe(first)
     }
     finally {
-      await db.update(schema.builderProfiles).set({ shopName: row!.shopName }).where(eq(schema.builderProfiles.slug, shop))
+      await db.update(schema.shops).set({ shopName: row!.shopName }).where(eq(schema.shops.slug, shop))
     }
   })
 

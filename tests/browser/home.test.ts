@@ -30,7 +30,7 @@ describe('home page in Chromium', () => {
     expect(await page.locator('[data-test="parts-table"] tbody tr').count()).toBeGreaterThan(5)
     expect(await page.locator('[data-test="displacement"]').innerText()).toMatch(/\d{3}\.\d\s*ci/)
 
-    await page.locator('[data-test="builder-link"]').click()
+    await page.locator('[data-test="shop-link"]').click()
     await page.waitForURL(/\/builders\/[a-z0-9-]+$/)
     await page.locator('[data-test="shop-name"]').waitFor()
 

@@ -6,13 +6,13 @@ import { join, relative, resolve } from 'node:path'
 import { and, asc, eq } from 'drizzle-orm'
 import type { Page } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { PERSONAS, BUILDER_SHOP } from '../support/auth'
+import { PERSONAS, SHOP } from '../support/auth'
 import { openBrowser, signInPage } from '../support/browser'
 import { baseUrl, schema, testDb } from '../support/context'
 import { dealTestContext, makeDispute, requestInput, actorByEmail, PEOPLE } from '../support/deals'
 import { createRequest } from '../../server/services/deals'
 import { makeSubmittedPull } from '../support/fixtures'
-import { buildIds, COMPLETE_COMBINATION, inventedPullCsv, removeBuildsSince } from '../support/listings'
+import { buildIds, COMPLETE_COMBINATION, inventedPullCsv, removeBuildsSince } from '../support/builds'
 import { CARDS } from '../support/payments'
 import { VERIFICATION } from '../../shared/vocabulary'
 
@@ -27,7 +27,7 @@ const PRODUCT_MIN_WIDTH = 44
 const SHOTS = process.env.TW_SHOTS_DIR
 
 type Role = 'visitor' | 'racer' | 'shop' | 'admin'
-const EMAIL: Record<Exclude<Role, 'visitor'>, string> = { racer: PERSONAS.racer, shop: PERSONAS.builder, admin: PERSONAS.admin }
+const EMAIL: Record<Exclude<Role, 'visitor'>, string> = { racer: PERSONAS.racer, shop: PERSONAS.shop, admin: PERSONAS.admin }
 
 /** The page files, as paths under pages/ without ".vue" ("deals/orders/[id]/paid"). */
 function pageFiles(dir = resolve(import.meta.dirname, '..', '..', 'pages')): string[] {
@@ -141,14 +141,14 @@ async function actAs(role: Role) {
 beforeAll(async () => {
   const { ctx, db, close } = await dealTestContext()
   const [build, other] = await db.select({ slug: schema.builds.slug, id: schema.builds.id }).from(schema.builds)
-    .innerJoin(schema.builderProfiles, eq(schema.builderProfiles.id, schema.builds.builderId))
-    .where(and(eq(schema.builderProfiles.slug, BUILDER_SHOP), eq(schema.builds.status, 'published'))).orderBy(asc(schema.builds.id)).limit(2)
+    .innerJoin(schema.shops, eq(schema.shops.id, schema.builds.shopId))
+    .where(and(eq(schema.shops.slug, SHOP), eq(schema.builds.status, 'published'))).orderBy(asc(schema.builds.id)).limit(2)
   const dispute = await makeDispute(ctx, { title: `Phone check ${Date.now().toString(36)}` })
   const racer = await actorByEmail(db, PEOPLE.racer)
   const open = await createRequest(ctx, racer, requestInput({ title: 'Phone check, open request' }))
   const { pullId } = await makeSubmittedPull(db, build!.slug)
   seededBuilds = await buildIds(db)
-  ids = { build: build!.slug, other: other!.slug, buildId: build!.id, shop: BUILDER_SHOP, requestId: dispute.requestId, openRequestId: open.id, orderId: dispute.orderId, milestoneId: dispute.milestone.id, pullId }
+  ids = { build: build!.slug, other: other!.slug, buildId: build!.id, shop: SHOP, requestId: dispute.requestId, openRequestId: open.id, orderId: dispute.orderId, milestoneId: dispute.milestone.id, pullId }
   await close()
   browser = await openBrowser()
   page = browser.page
@@ -370,7 +370,7 @@ describe('the whole job on a phone', () => {
     await first.locator('[data-test="confirm-yes"]').click()
     await expect.poll(() => first.getAttribute('data-state'), { timeout: 15_000 }).toBe('released')
 
-    // The shop starts a listing and uploads a pull.
+    // The shop starts a build and uploads a pull.
     await actAs('shop')
     await page.setViewportSize(PHONE)
     await page.goto(`${baseUrl()}/dashboard`, { waitUntil: 'networkidle' })

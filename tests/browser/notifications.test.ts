@@ -27,7 +27,7 @@ describe('notifications in Chromium', () => {
     const racer = await makeAccount({ role: 'racer', name: 'Bell Racer' })
     const shop = await makeAccount({ role: 'builder', name: 'Bell Shop' })
     const title = `Bell deal ${Date.now().toString(36)}`
-    const { id: requestId } = await createRequest(ctx, (await loadActor(ctx.db, racer.id))!, requestInput({ builder: shop.shopSlug!, title }))
+    const { id: requestId } = await createRequest(ctx, (await loadActor(ctx.db, racer.id))!, requestInput({ shop: shop.shopSlug!, title }))
     await sendQuote(ctx, (await loadActor(ctx.db, shop.id))!, requestId, quoteInput())
 
     const { page, requests } = browser

@@ -4,7 +4,7 @@
 import AxeBuilder from '@axe-core/playwright'
 import { eq } from 'drizzle-orm'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { BUILDER_SHOP, makeAccount } from '../support/auth'
+import { SHOP, makeAccount } from '../support/auth'
 import { openBrowser, signInPage } from '../support/browser'
 import { baseUrl, schema, testDb } from '../support/context'
 
@@ -34,7 +34,7 @@ describe('a manual car\'s launch rpm', () => {
     await rules.locator('button[type="submit"]').click()
     await page.getByText('Your class rules are saved.').waitFor()
 
-    await page.goto(`${baseUrl()}/deals/new?builder=${BUILDER_SHOP}`, { waitUntil: 'networkidle' })
+    await page.goto(`${baseUrl()}/deals/new?builder=${SHOP}`, { waitUntil: 'networkidle' })
     const form = page.locator('[data-test="request-form"]')
     await page.locator('[data-test="request-from-class"]').waitFor()
     expect(await form.locator('[name="transmission"]').inputValue()).toBe('manual')

@@ -22,17 +22,17 @@ afterAll(async () => {
 
 describe('reviewing a finished order in Chromium', () => {
   it('lets the racer approve the last milestone, review the shop, and see the review and the new figures on the shop\'s page', async () => {
-    const { racer, builder, orderId, milestones } = await makeOrder(deal.ctx)
-    const before = (await api(`/api/builders/${PEOPLE.builderSlug}/record`)).body.record
+    const { racer, shop, orderId, milestones } = await makeOrder(deal.ctx)
+    const before = (await api(`/api/builders/${PEOPLE.shopSlug}/record`)).body.record
     // The first two milestones go through as they do every day: paid, submitted, approved and paid out.
     for (const m of milestones.slice(0, 2)) {
       await fundMilestone(deal.ctx, racer, m.id)
-      await submitMilestone(deal.ctx, builder, m.id, { notes: `Done: ${m.title}.`, proofFileIds: [], deliveryPullId: null })
+      await submitMilestone(deal.ctx, shop, m.id, { notes: `Done: ${m.title}.`, proofFileIds: [], deliveryPullId: null })
       expect((await approveMilestone(deal.ctx, racer, m.id)).released).toBe(true)
     }
     const last = milestones[2]!
     await fundMilestone(deal.ctx, racer, last.id)
-    await submitMilestone(deal.ctx, builder, last.id, { notes: 'Engine delivered with its dyno sheet.', proofFileIds: [], deliveryPullId: null })
+    await submitMilestone(deal.ctx, shop, last.id, { notes: 'Engine delivered with its dyno sheet.', proofFileIds: [], deliveryPullId: null })
 
     const { page } = browser
     await signInPage(page, PERSONAS.racer)
@@ -61,7 +61,7 @@ describe('reviewing a finished order in Chromium', () => {
     expect(rows.map(r => [r.rating, r.aspects.communication, r.aspects.keptToQuote, r.aspects.powerVsTarget])).toEqual([[4, 5, 4, null]])
 
     // The shop's page: the review and the track record with the order counted.
-    await page.goto(`${baseUrl()}/builders/${PEOPLE.builderSlug}`, { waitUntil: 'networkidle' })
+    await page.goto(`${baseUrl()}/builders/${PEOPLE.shopSlug}`, { waitUntil: 'networkidle' })
     const reviews = page.locator('[data-test="shop-reviews"]')
     expect(await reviews.locator('[data-test="review-body"]').allInnerTexts()).toContain(text)
     const completed = await page.locator('[data-test="record-orders"] dd span').first().innerText()
@@ -75,7 +75,7 @@ describe('reviewing a finished order in Chromium', () => {
     expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390)
     await page.goto(`${baseUrl()}/deals/orders/${orderId}`, { waitUntil: 'networkidle' })
     expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390)
-    await page.goto(`${baseUrl()}/track-record/${PEOPLE.builderSlug}/on-time`, { waitUntil: 'networkidle' })
+    await page.goto(`${baseUrl()}/track-record/${PEOPLE.shopSlug}/on-time`, { waitUntil: 'networkidle' })
     expect(await page.locator('[data-test="record-items"] li').count()).toBe(before.onTime.submitted + 3)
     expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390)
     await page.setViewportSize({ width: 1280, height: 900 })

@@ -62,7 +62,7 @@ describe('role × route matrix: the list itself', () => {
 
 describe.each(entries.map(e => [`${e.method} ${e.path}`, e] as const))('%s', (_name, entry) => {
   it.each(PERSONA_NAMES.map(p => [p] as const))('answers %s as the matrix says', async (persona) => {
-    const wanted = persona === 'otherBuilder' ? (entry.expect.otherBuilder ?? entry.expect.builder) : entry.expect[persona]
+    const wanted = persona === 'otherShop' ? (entry.expect.otherShop ?? entry.expect.shop) : entry.expect[persona]
     const res = await api(entry.path, request(entry, jars[persona] ?? null))
     expect(res.status, JSON.stringify(res.body)?.slice(0, 300)).toBe(wanted)
   })

@@ -227,10 +227,10 @@ describe('POST /api/me/email', () => {
 describe('a shop owner\'s routes', () => {
   it('lists only the caller\'s own builds, drafts included', async () => {
     const me = await signedInAccount('builder')
-    const [shop] = await ctx.db.select().from(schema.builderProfiles).where(eq(schema.builderProfiles.slug, me.shopSlug!))
+    const [shop] = await ctx.db.select().from(schema.shops).where(eq(schema.shops.slug, me.shopSlug!))
     const [template] = await ctx.db.select().from(schema.builds).limit(1)
     const { id: _id, slug: _slug, createdAt: _c, updatedAt: _u, ...columns } = template!
-    await ctx.db.insert(schema.builds).values({ ...columns, builderId: shop!.id, slug: `own-draft-${shop!.id}`, status: 'draft', publishedAt: null })
+    await ctx.db.insert(schema.builds).values({ ...columns, shopId: shop!.id, slug: `own-draft-${shop!.id}`, status: 'draft', publishedAt: null })
     const res = await api('/api/me/builds', { headers: { cookie: me.jar.header() } })
     expect(res.status).toBe(200)
     expect(res.body.shop.slug).toBe(me.shopSlug)
@@ -238,7 +238,7 @@ describe('a shop owner\'s routes', () => {
     expect(res.body.builds[0]).toMatchObject({ slug: `own-draft-${shop!.id}`, status: 'draft', pulls: 0 })
   })
 
-  it('changes the shop profile for its owner (the slug stays) and refuses another builder with 403', async () => {
+  it('changes the shop profile for its owner (the slug stays) and refuses another shop with 403', async () => {
     const owner = await signedInAccount('builder')
     const stranger = await signedInAccount('builder')
     const refused = await send('PATCH', `/api/builders/${owner.shopSlug}`, { shopName: 'Taken Over' }, stranger.jar)
@@ -246,7 +246,7 @@ describe('a shop owner\'s routes', () => {
     const ok = await send('PATCH', `/api/builders/${owner.shopSlug}`, { shopName: 'Larkspur Engine Room', bio: 'Small shop, big records.' }, owner.jar)
     expect(ok.status).toBe(200)
     expect(ok.body).toMatchObject({ slug: owner.shopSlug, shopName: 'Larkspur Engine Room', bio: 'Small shop, big records.' })
-    const [row] = await ctx.db.select().from(schema.builderProfiles).where(eq(schema.builderProfiles.slug, owner.shopSlug!))
+    const [row] = await ctx.db.select().from(schema.shops).where(eq(schema.shops.slug, owner.shopSlug!))
     expect(row!.shopName).toBe('Larkspur Engine Room')
     const bad = await send('PATCH', `/api/builders/${owner.shopSlug}`, { region: 'x' }, owner.jar)
     expect(bad.status).toBe(400)

@@ -69,7 +69,7 @@ describe('the audit log page', () => {
 })
 
 describe('the admin dashboard figures', () => {
-  it('counts the queue, the age of its oldest pull and the share of verified listings from the rows themselves', async () => {
+  it('counts the queue, the age of its oldest pull and the share of verified builds from the rows themselves', async () => {
     const res = await get('/api/admin/overview')
     expect(res.status).toBe(200)
     const o = res.body as AdminOverview

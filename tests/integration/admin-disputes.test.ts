@@ -12,19 +12,19 @@ import { adminOverview } from '../../server/services/admin-overview'
 import type { DealContext } from '../../server/services/deal-context'
 import { type CookieJar, as, freshAddress, json, signedIn, waitForMail } from '../support/auth'
 import { api } from '../support/context'
-import { testUploadsDir } from '../support/listings'
+import { testUploadsDir } from '../support/builds'
 import { PEOPLE, actorByEmail, dealTestContext, fundMilestone, makeDispute, makeOrder, milestoneRow, schema } from '../support/deals'
 import { eventually } from '../support/payments'
 
 let ctx: DealContext
 let close: () => Promise<void>
-const jar: Record<'admin' | 'racer' | 'builder', CookieJar> = {} as never
+const jar: Record<'admin' | 'racer' | 'shop', CookieJar> = {} as never
 const address = freshAddress()
 beforeAll(async () => {
   ({ ctx, close } = await dealTestContext())
   jar.admin = await signedIn(PEOPLE.admin)
   jar.racer = await signedIn(PEOPLE.racer)
-  jar.builder = await signedIn(PEOPLE.builder)
+  jar.shop = await signedIn(PEOPLE.shop)
 })
 afterAll(async () => {
   await close()
@@ -71,7 +71,7 @@ describe('the list and the review', () => {
     expect(list.open).toHaveLength(n)
     expect(list.open.find(d => d.milestoneId === first.milestone.id)).toMatchObject({
       orderId: first.orderId, requestId: first.requestId, title: first.title,
-      racer: { id: first.racer.id, name: first.racer.name }, shop: { slug: PEOPLE.builderSlug },
+      racer: { id: first.racer.id, name: first.racer.name }, shop: { slug: PEOPLE.shopSlug },
       milestone: { title: first.milestone.title, amountCents: first.milestone.amountCents }, reason: first.reason,
       disputedAt: first.milestone.disputedAt!.toISOString(),
     })
@@ -82,7 +82,7 @@ describe('the list and the review', () => {
     const res = await get(`/api/admin/disputes/${d.milestone.id}`, jar.admin)
     expect(res.status).toBe(200)
     const review = res.body as DisputeReview
-    expect(review).toMatchObject({ milestoneId: d.milestone.id, state: 'disputed', reason: d.reason, settlement: null, parties: { racer: { email: PEOPLE.racer }, shop: { ownerEmail: PEOPLE.builder } } })
+    expect(review).toMatchObject({ milestoneId: d.milestone.id, state: 'disputed', reason: d.reason, settlement: null, parties: { racer: { email: PEOPLE.racer }, shop: { ownerEmail: PEOPLE.shop } } })
     const m = review.order.milestones.find(x => x.id === d.milestone.id)!
     expect(m.submissionNotes).toBe(d.notes)
     expect(m.proofs.map(p => p.name)).toEqual([d.proofName])
@@ -98,7 +98,7 @@ describe('the list and the review', () => {
     expect((await get(`/api/attachments/${d.proofFileId}`, jar.admin)).status).toBe(200)
     // The parties themselves do not reach the admin's review.
     expect((await get(`/api/admin/disputes/${d.milestone.id}`, jar.racer)).status).toBe(403)
-    expect((await get(`/api/admin/disputes/${d.milestone.id}`, jar.builder)).status).toBe(403)
+    expect((await get(`/api/admin/disputes/${d.milestone.id}`, jar.shop)).status).toBe(403)
   })
 
   it('answers 404 for a milestone that was never disputed', async () => {
@@ -146,12 +146,12 @@ describe('settling by refund', () => {
     expect(thread.body.messages.filter((m: { body: string }) => m.body.includes(note))).toHaveLength(1)
     // One e-mail to each party, with the outcome and the note, plain and HTML.
     const mails = await ctx.db.select().from(schema.mailOutbox).where(like(schema.mailOutbox.dedupeKey, `settled:${d.milestone.id}:%`))
-    expect(mails.map(m => m.toAddress).sort()).toEqual([PEOPLE.builder, PEOPLE.racer].sort())
+    expect(mails.map(m => m.toAddress).sort()).toEqual([PEOPLE.shop, PEOPLE.racer].sort())
     const racerMail = await waitForMail(PEOPLE.racer, m => m.text.includes(note), OUTBOX_WAIT_MS)
     expect(racerMail.subject).toBe(`Dispute settled: ${d.milestone.title} refunded to the racer`)
     expect(racerMail.text).toContain('refunded to the card it was paid with')
     expect(racerMail.html).toContain('No forged crank was bought')
-    const shopMail = await waitForMail(PEOPLE.builder, m => m.text.includes(note), OUTBOX_WAIT_MS)
+    const shopMail = await waitForMail(PEOPLE.shop, m => m.text.includes(note), OUTBOX_WAIT_MS)
     expect(shopMail.text).toContain('goes back to the racer')
 
     // The racer's order page shows the outcome and the note.
@@ -210,9 +210,9 @@ describe('settling by release', () => {
 
     const racerMail = await waitForMail(PEOPLE.racer, m => m.text.includes(note), OUTBOX_WAIT_MS)
     expect(racerMail.subject).toBe(`Dispute settled: ${d.milestone.title} released to the shop`)
-    const shopMail = await waitForMail(PEOPLE.builder, m => m.text.includes(note), OUTBOX_WAIT_MS)
+    const shopMail = await waitForMail(PEOPLE.shop, m => m.text.includes(note), OUTBOX_WAIT_MS)
     expect(shopMail.text).toContain('is released to you')
-    const thread = await get(`/api/requests/${d.requestId}/messages`, jar.builder)
+    const thread = await get(`/api/requests/${d.requestId}/messages`, jar.shop)
     expect(thread.body.messages.some((m: { body: string }) => m.body.includes(note))).toBe(true)
   })
 })
@@ -251,7 +251,7 @@ describe('refusals write nothing', () => {
     const before = await footprint(d.milestone.id, d.requestId)
     const body = { outcome: 'refund', note: 'Give me my deposit back, please.' }
     expect((await settle(d.milestone.id, body, jar.racer)).status).toBe(403)
-    expect((await settle(d.milestone.id, body, jar.builder)).status).toBe(403)
+    expect((await settle(d.milestone.id, body, jar.shop)).status).toBe(403)
     expect((await api(`/api/admin/disputes/${d.milestone.id}/settle`, json('POST', body, null, address))).status).toBe(401)
     expect(await footprint(d.milestone.id, d.requestId)).toEqual(before)
   })

@@ -120,8 +120,8 @@ describe('verifying a pull over HTTP', () => {
 
     // The shop is told, once, through the outbox written with the decision.
     const [owner] = await ctx.db.select({ email: schema.users.email }).from(schema.builds)
-      .innerJoin(schema.builderProfiles, eq(schema.builderProfiles.id, schema.builds.builderId))
-      .innerJoin(schema.users, eq(schema.users.id, schema.builderProfiles.userId)).where(eq(schema.builds.id, buildId))
+      .innerJoin(schema.shops, eq(schema.shops.id, schema.builds.shopId))
+      .innerJoin(schema.users, eq(schema.users.id, schema.shops.userId)).where(eq(schema.builds.id, buildId))
     const label = pull.label
     const mail = await waitForMail(owner!.email, m => m.subject === `Dyno pull verified: ${label}`, 20_000)
     expect(mail.text).toContain(`/builds/${slug}`)
@@ -158,13 +158,13 @@ describe('verifying a pull over HTTP', () => {
     expect(await auditCount()).toBe(rows)
   })
 
-  it('refuses the shop that owns the pull, any other builder and racers (403), and anonymous visitors (401)', async () => {
+  it('refuses the shop that owns the pull, any other shop and racers (403), and anonymous visitors (401)', async () => {
     const owner = await makeAccount({ role: 'builder' })
     const shop = await shopOf(ctx.db, owner.id)
     const { pullId, buildId } = await makeBuildAwaitingCheck(ctx.db, { shopId: shop.id })
     const { jar: ownerJar } = await signIn('password', { email: owner.email, password: owner.password })
     const before = { pull: await pullRow(pullId), build: await buildRow(buildId) }
-    for (const [jar, status] of [[ownerJar, 403], [await signedIn(PERSONAS.racer), 403], [await signedIn(PERSONAS.otherBuilder), 403], [null, 401]] as const) {
+    for (const [jar, status] of [[ownerJar, 403], [await signedIn(PERSONAS.racer), 403], [await signedIn(PERSONAS.otherShop), 403], [null, 401]] as const) {
       expect((await post(`/api/admin/evidence/${pullId}/approve`, {}, jar)).status).toBe(status)
       expect((await post(`/api/admin/evidence/${pullId}/reject`, { reason: 'I would rather it were verified.' }, jar)).status).toBe(status)
       expect((await get(`/api/admin/evidence/${pullId}`, jar)).status).toBe(status)

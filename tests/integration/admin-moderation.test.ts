@@ -1,9 +1,9 @@
 import { count, desc, eq, ne } from 'drizzle-orm'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { unpublishListing } from '../../server/services/moderation'
+import { unpublishBuild } from '../../server/services/moderation'
 import type { Database } from '../../server/database/types'
-import type { AdminListingRow } from '../../shared/types/admin'
-import type { Page } from '../../shared/types/listings'
+import type { AdminBuildRow } from '../../shared/types/admin'
+import type { Page } from '../../shared/types/builds'
 import { freshAddress, json, makeAccount, PERSONAS, signedIn, signIn, waitForMail, type CookieJar } from '../support/auth'
 import { api, schema, testDb } from '../support/context'
 import { makeBuildAwaitingCheck, shopOf } from '../support/fixtures'
@@ -24,7 +24,7 @@ const auditCount = async () => (await ctx.db.select({ n: count() }).from(schema.
 const buildRow = async (id: number) => (await ctx.db.select().from(schema.builds).where(eq(schema.builds.id, id)))[0]!
 const otherBuilds = (id: number) => ctx.db.select().from(schema.builds).where(ne(schema.builds.id, id)).orderBy(schema.builds.id)
 
-describe('taking a listing down', () => {
+describe('taking a build down', () => {
   it('makes it a draft, hides it from the public, e-mails the reason to the shop and writes one audit row', async () => {
     const owner = await makeAccount({ role: 'builder', name: 'Wendell Ostrow' })
     const shop = await shopOf(ctx.db, owner.id)
@@ -49,7 +49,7 @@ describe('taking a listing down', () => {
     expect(mail.text).toContain(reason)
     expect(mail.text).toContain('Hello Wendell Ostrow')
 
-    const list = (await get(`/api/admin/listings?q=${encodeURIComponent(slug)}`)).body as Page<AdminListingRow>
+    const list = (await get(`/api/admin/listings?q=${encodeURIComponent(slug)}`)).body as Page<AdminBuildRow>
     expect(list.items).toHaveLength(1)
     expect(list.items[0]).toMatchObject({ id: buildId, status: 'draft', lastUnpublished: { reason } })
 
@@ -71,36 +71,36 @@ describe('taking a listing down', () => {
     expect(await auditCount()).toBe(before.audit)
   })
 
-  it('refuses the listing\'s own shop, other builders and racers (403) and anonymous visitors (401)', async () => {
+  it('refuses the build\'s own shop, other shops and racers (403) and anonymous visitors (401)', async () => {
     const owner = await makeAccount({ role: 'builder' })
     const shop = await shopOf(ctx.db, owner.id)
     const { buildId } = await makeBuildAwaitingCheck(ctx.db, { shopId: shop.id })
     const { jar: ownerJar } = await signIn('password', { email: owner.email, password: owner.password })
     const before = await buildRow(buildId)
-    for (const [jar, status] of [[ownerJar, 403], [await signedIn(PERSONAS.builder), 403], [await signedIn(PERSONAS.racer), 403], [null, 401]] as const) {
+    for (const [jar, status] of [[ownerJar, 403], [await signedIn(PERSONAS.shop), 403], [await signedIn(PERSONAS.racer), 403], [null, 401]] as const) {
       expect((await post(`/api/admin/listings/${buildId}/unpublish`, { reason: 'Taking my rival down for no reason.' }, jar)).status).toBe(status)
       expect((await get('/api/admin/listings', jar)).status).toBe(status)
     }
     expect(await buildRow(buildId)).toEqual(before)
   })
 
-  it('is all or nothing: when the audit row cannot be written the listing stays published', async () => {
+  it('is all or nothing: when the audit row cannot be written the build stays published', async () => {
     const { buildId } = await makeBuildAwaitingCheck(ctx.db)
     const before = await buildRow(buildId)
-    await expect(unpublishListing(ctx.db as unknown as Database, { actorId: 987_654_321, buildId, reason: 'A reason long enough to read.' })).rejects.toThrow()
+    await expect(unpublishBuild(ctx.db as unknown as Database, { actorId: 987_654_321, buildId, reason: 'A reason long enough to read.' })).rejects.toThrow()
     expect(await buildRow(buildId)).toEqual(before)
   })
 })
 
-describe('the listings list for moderation', () => {
+describe('the builds list for moderation', () => {
   it('shows every status, filters by status and searches title, address and shop', async () => {
-    const all = (await get('/api/admin/listings?perPage=100')).body as Page<AdminListingRow>
+    const all = (await get('/api/admin/listings?perPage=100')).body as Page<AdminBuildRow>
     const [{ n }] = await ctx.db.select({ n: count() }).from(schema.builds) as [{ n: number }]
     expect(all.total).toBe(n)
-    const published = (await get('/api/admin/listings?status=published&perPage=100')).body as Page<AdminListingRow>
+    const published = (await get('/api/admin/listings?status=published&perPage=100')).body as Page<AdminBuildRow>
     expect(published.items.length).toBeGreaterThan(0)
     expect(published.items.every(r => r.status === 'published')).toBe(true)
-    const byShop = (await get('/api/admin/listings?q=Harrow%20Creek&perPage=100')).body as Page<AdminListingRow>
+    const byShop = (await get('/api/admin/listings?q=Harrow%20Creek&perPage=100')).body as Page<AdminBuildRow>
     expect(byShop.items.length).toBeGreaterThan(0)
     expect(byShop.items.every(r => r.shop.shopName === 'Harrow Creek Engine Works')).toBe(true)
     const seeded = byShop.items.find(r => r.slug === 'harrow-362-na-race-gas-1')!

@@ -110,10 +110,10 @@ describe('making admins', () => {
     expect(all.status).toBe(200)
     expect(all.body.items.length).toBeGreaterThan(10)
     const found = await api('/api/admin/users?q=marisol', { headers: { cookie: admin.header() } })
-    expect(found.body.items.map((u: { email: string }) => u.email)).toEqual([PERSONAS.builder])
+    expect(found.body.items.map((u: { email: string }) => u.email)).toEqual([PERSONAS.shop])
     expect(found.body.items[0].shop.slug).toBe('harrow-creek-engine-works')
-    const builders = await api('/api/admin/users?role=builder&perPage=100', { headers: { cookie: admin.header() } })
-    expect(builders.body.items.every((u: { role: string }) => u.role === 'builder')).toBe(true)
+    const shops = await api('/api/admin/users?role=builder&perPage=100', { headers: { cookie: admin.header() } })
+    expect(shops.body.items.every((u: { role: string }) => u.role === 'builder')).toBe(true)
     const literal = await api(`/api/admin/users?q=${encodeURIComponent('%')}`, { headers: { cookie: admin.header() } })
     expect(literal.body.total).toBe(0)
   })
@@ -141,14 +141,14 @@ describe('npm run admin:create', () => {
     expect((await audits(row.id))[0]).toMatchObject({ action: 'account.create_admin', actorId: null })
   })
 
-  it('raises an existing racer, and refuses a builder with a message and a failing exit', async () => {
+  it('raises an existing racer, and refuses a shop with a message and a failing exit', async () => {
     const racer = await makeAccount({ role: 'racer' })
     const { stdout } = await script(racer.email)
     expect(stdout).toContain('is now an admin')
     expect((await ctx.db.select().from(schema.users).where(eq(schema.users.id, racer.id)))[0]!.role).toBe('admin')
 
-    const builder = await makeAccount({ role: 'builder' })
-    const failed = await script(builder.email).then(() => null, (err: { code: number, stderr: string }) => err)
+    const shop = await makeAccount({ role: 'builder' })
+    const failed = await script(shop.email).then(() => null, (err: { code: number, stderr: string }) => err)
     expect(failed?.code).toBe(1)
     expect(failed?.stderr).toContain('runs a shop')
   })

@@ -46,7 +46,7 @@ async function orderWithRefund() {
   const order = await makeOrder(ctx)
   const [m1, m2, m3] = order.milestones as [typeof order.milestones[0], typeof order.milestones[0], typeof order.milestones[0]]
   await fundMilestone(ctx, order.racer, m1.id)
-  await submitMilestone(ctx, order.builder, m1.id, { notes: 'Parts ordered.', proofFileIds: [], deliveryPullId: null })
+  await submitMilestone(ctx, order.shop, m1.id, { notes: 'Parts ordered.', proofFileIds: [], deliveryPullId: null })
   await approveMilestone(ctx, order.racer, m1.id)
   await fundMilestone(ctx, order.racer, m2.id)
   await disputeMilestone(ctx, order.racer, m2.id, 'The block came back cracked.')
@@ -60,28 +60,28 @@ async function orderWithRefund() {
 describe('sending a change order', () => {
   it('is refused with 409 before any milestone was refunded, writing nothing', async () => {
     const { orderId } = await makeOrder(ctx)
-    const res = await post(`/api/orders/${orderId}/change-orders`, changeOrder(), jar.builder)
+    const res = await post(`/api/orders/${orderId}/change-orders`, changeOrder(), jar.shop)
     expect(res.status).toBe(409)
     expect(res.body.message).toContain('refunded')
     expect(await changeRows(orderId)).toHaveLength(0)
-    expect((await get(`/api/orders/${orderId}`, jar.builder)).body.changeOrderAllowed).toBe(false)
+    expect((await get(`/api/orders/${orderId}`, jar.shop)).body.changeOrderAllowed).toBe(false)
   })
 
   it('is for the shop only: the racer 403, a stranger 404; bad input 400 and money that does not add up 422, nothing written', async () => {
     const { orderId } = await orderWithRefund()
-    expect((await get(`/api/orders/${orderId}`, jar.builder)).body.changeOrderAllowed).toBe(true)
+    expect((await get(`/api/orders/${orderId}`, jar.shop)).body.changeOrderAllowed).toBe(true)
     expect((await get(`/api/orders/${orderId}`, jar.racer)).body.changeOrderAllowed).toBe(false)
     expect((await post(`/api/orders/${orderId}/change-orders`, changeOrder(), jar.racer)).status).toBe(403)
-    expect((await post(`/api/orders/${orderId}/change-orders`, changeOrder(), jar.otherBuilder)).status).toBe(404)
+    expect((await post(`/api/orders/${orderId}/change-orders`, changeOrder(), jar.otherShop)).status).toBe(404)
     expect((await post(`/api/orders/${orderId}/change-orders`, changeOrder(), jar.otherRacer)).status).toBe(404)
-    expect((await post(`/api/orders/${orderId}/change-orders`, changeOrder({ milestones: [] }), jar.builder)).status).toBe(400)
-    expect((await post(`/api/orders/${orderId}/change-orders`, changeOrder({ totalCents: 12.5 }), jar.builder)).status).toBe(400)
-    const short = await post(`/api/orders/${orderId}/change-orders`, changeOrder({ totalCents: 900_001 }), jar.builder)
+    expect((await post(`/api/orders/${orderId}/change-orders`, changeOrder({ milestones: [] }), jar.shop)).status).toBe(400)
+    expect((await post(`/api/orders/${orderId}/change-orders`, changeOrder({ totalCents: 12.5 }), jar.shop)).status).toBe(400)
+    const short = await post(`/api/orders/${orderId}/change-orders`, changeOrder({ totalCents: 900_001 }), jar.shop)
     expect(short.status).toBe(422)
     expect(short.body.message).toContain('$9,000.00')
     const lines = await post(`/api/orders/${orderId}/change-orders`, changeOrder({
       lineItems: [{ category: 'Machine work', description: 'Re-sleeve the block', partNumber: '', quantity: 2, unitPriceCents: 400_000 }],
-    }), jar.builder)
+    }), jar.shop)
     expect(lines.status).toBe(422)
     expect(lines.body.message).toContain('$8,000.00')
     expect(await changeRows(orderId)).toHaveLength(0)
@@ -92,20 +92,20 @@ describe('answering a change order', () => {
   it('on accepting, replaces only the unpaid milestones and keeps paid, refunded and released ones as they were', async () => {
     const { orderId, requestId, plan, sessionId } = await orderWithRefund()
     const before = await orderRow(orderId)
-    const sent = await post(`/api/orders/${orderId}/change-orders`, changeOrder(), jar.builder)
+    const sent = await post(`/api/orders/${orderId}/change-orders`, changeOrder(), jar.shop)
     expect(sent.status).toBe(201)
     const changeId = sent.body.id as number
     // One open change order per order.
-    expect((await post(`/api/orders/${orderId}/change-orders`, changeOrder(), jar.builder)).status).toBe(409)
+    expect((await post(`/api/orders/${orderId}/change-orders`, changeOrder(), jar.shop)).status).toBe(409)
     expect(await changeRows(orderId)).toHaveLength(1)
     const [racerMail] = await ctx.db.select().from(schema.mailOutbox).where(eq(schema.mailOutbox.dedupeKey, `change-order:${changeId}`))
     expect(racerMail!.toAddress).toBe(PEOPLE.racer)
     const view = (await get(`/api/orders/${orderId}`, jar.racer)).body
     expect(view.changeOrder).toMatchObject({ id: changeId, status: 'open', totalCents: 900_000, replacedCents: plan[2]!.amountCents })
 
-    expect((await post(`/api/orders/${orderId}/change-orders/${changeId}/accept`, {}, jar.builder)).status).toBe(403)
+    expect((await post(`/api/orders/${orderId}/change-orders/${changeId}/accept`, {}, jar.shop)).status).toBe(403)
     expect((await post(`/api/orders/${orderId}/change-orders/${changeId}/accept`, {}, jar.otherRacer)).status).toBe(404)
-    expect((await post(`/api/orders/${orderId}/change-orders/${changeId}/accept`, {}, jar.otherBuilder)).status).toBe(404)
+    expect((await post(`/api/orders/${orderId}/change-orders/${changeId}/accept`, {}, jar.otherShop)).status).toBe(404)
     expect((await post(`/api/orders/${orderId}/change-orders/999999/accept`, {}, jar.racer)).status).toBe(404)
     expect((await planOf(orderId)).map(m => m.state)).toEqual(['released', 'refunded', 'awaiting_payment'])
 
@@ -137,7 +137,7 @@ describe('answering a change order', () => {
     const [notes] = await ctx.db.select({ n: count() }).from(schema.requestMessages).where(and(eq(schema.requestMessages.requestId, requestId), like(schema.requestMessages.body, '%change order%')))
     expect(notes!.n).toBe(2)
     const [shopMail] = await ctx.db.select().from(schema.mailOutbox).where(eq(schema.mailOutbox.dedupeKey, `change-order:${changeId}:accepted`))
-    expect(shopMail!.toAddress).toBe(PEOPLE.builder)
+    expect(shopMail!.toAddress).toBe(PEOPLE.shop)
     // Answered once.
     expect((await post(`/api/orders/${orderId}/change-orders/${changeId}/accept`, {}, jar.racer)).status).toBe(409)
     expect((await post(`/api/orders/${orderId}/change-orders/${changeId}/decline`, {}, jar.racer)).status).toBe(409)
@@ -147,11 +147,11 @@ describe('answering a change order', () => {
   it('on declining, leaves the order exactly as it was', async () => {
     const { orderId, plan } = await orderWithRefund()
     const before = await orderRow(orderId)
-    const sent = await post(`/api/orders/${orderId}/change-orders`, changeOrder(), jar.builder)
+    const sent = await post(`/api/orders/${orderId}/change-orders`, changeOrder(), jar.shop)
     expect(sent.status).toBe(201)
     const changeId = sent.body.id as number
     expect((await post(`/api/orders/${orderId}/change-orders/${changeId}/decline`, { reason: 'x'.repeat(1001) }, jar.racer)).status).toBe(400)
-    expect((await post(`/api/orders/${orderId}/change-orders/${changeId}/decline`, {}, jar.builder)).status).toBe(403)
+    expect((await post(`/api/orders/${orderId}/change-orders/${changeId}/decline`, {}, jar.shop)).status).toBe(403)
     expect((await post(`/api/orders/${orderId}/change-orders/${changeId}/decline`, {}, jar.otherRacer)).status).toBe(404)
     const declined = await post(`/api/orders/${orderId}/change-orders/${changeId}/decline`, { reason: 'I will find the block myself.' }, jar.racer)
     expect(declined.status).toBe(200)
@@ -160,8 +160,8 @@ describe('answering a change order', () => {
     expect({ total: order.totalCents, fee: order.platformFeeCents, status: order.status }).toEqual({ total: before.totalCents, fee: before.platformFeeCents, status: 'active' })
     expect((await changeRows(orderId))[0]).toMatchObject({ status: 'declined', declineReason: 'I will find the block myself.' })
     const [shopMail] = await ctx.db.select().from(schema.mailOutbox).where(eq(schema.mailOutbox.dedupeKey, `change-order:${changeId}:declined`))
-    expect(shopMail!.toAddress).toBe(PEOPLE.builder)
+    expect(shopMail!.toAddress).toBe(PEOPLE.shop)
     // Once answered, the shop may send another.
-    expect((await get(`/api/orders/${orderId}`, jar.builder)).body.changeOrderAllowed).toBe(true)
+    expect((await get(`/api/orders/${orderId}`, jar.shop)).body.changeOrderAllowed).toBe(true)
   })
 })

@@ -197,10 +197,10 @@ describe('automatic approvals with several instances', () => {
   it('approves and pays out a due milestone once when two instances run the approvals at the same moment', async () => {
     const [one, two] = await Promise.all([dealTestContext(), dealTestContext()])
     try {
-      const { racer, builder, milestones } = await makeOrder(one.ctx)
+      const { racer, shop, milestones } = await makeOrder(one.ctx)
       const m = milestones[0]!
       await fundMilestone(one.ctx, racer, m.id)
-      await submitMilestone(one.ctx, builder, m.id, { notes: 'Done.', proofFileIds: [], deliveryPullId: null })
+      await submitMilestone(one.ctx, shop, m.id, { notes: 'Done.', proofFileIds: [], deliveryPullId: null })
       const due = new Date((await milestoneRow(one.db, m.id)).submittedAt!.getTime() + 8 * 86_400_000)
       const runs = await Promise.all([autoApproveDue({ ...one.ctx, now: () => due }), autoApproveDue({ ...two.ctx, now: () => due })])
       // Other due milestones of earlier tests may be approved here too; this one counts once between the two runs.

@@ -7,7 +7,7 @@ import { averagePower, convertCurve, deltaCurve, parsePull, peaks, type Correcti
 import { loadConfig } from '../../scripts/lib/config'
 import { makeCurve, pullCsv } from '../../scripts/lib/demo-data'
 import { seededRandom } from '../../shared/random'
-import { DISPLAY_MAX_POINTS } from '../../shared/listings/display-curve'
+import { DISPLAY_MAX_POINTS } from '../../shared/builds/display-curve'
 import { api, baseUrl, schema, testDb } from '../support/context'
 import { makeBuildAwaitingCheck, makeSubmittedPull, testUploads } from '../support/fixtures'
 
@@ -179,7 +179,7 @@ describe('GET /api/builds/:slug/pulls/:id/curve.csv', () => {
 
 describe('GET /api/compare', () => {
   it('overlays two builds under one standard', async () => {
-    // Two seeded listings with a pull: the newest-first list may start with other files' fixture listings.
+    // Two seeded builds with a pull: the newest-first list may start with other files' fixture builds.
     const rows = await ctx.db.selectDistinct({ id: schema.builds.id, slug: schema.builds.slug }).from(schema.builds)
       .innerJoin(schema.dynoPulls, eq(schema.dynoPulls.buildId, schema.builds.id))
       .where(eq(schema.builds.status, 'published')).orderBy(schema.builds.id).limit(2)
@@ -240,10 +240,10 @@ describe('GET /api/compare', () => {
   })
 })
 
-describe('builder profile figures', () => {
+describe('shop figures', () => {
   it('counts only checked builds and takes the median of hp per ci', async () => {
-    const [shop] = await ctx.db.select().from(schema.builderProfiles).limit(1)
-    const rows = await ctx.db.select().from(schema.builds).where(and(eq(schema.builds.builderId, shop!.id), eq(schema.builds.status, 'published'), isNotNull(schema.builds.verifiedAt)))
+    const [shop] = await ctx.db.select().from(schema.shops).limit(1)
+    const rows = await ctx.db.select().from(schema.builds).where(and(eq(schema.builds.shopId, shop!.id), eq(schema.builds.status, 'published'), isNotNull(schema.builds.verifiedAt)))
     const res = await api(`/api/builders/${shop!.slug}`)
     expect(res.body.figures.verifiedBuilds).toBe(rows.length)
     const perCi = rows.map(r => r.peakHp! / ((Math.PI / 4) * r.boreIn! ** 2 * r.strokeIn! * r.cylinders!)).sort((a, b) => a - b)

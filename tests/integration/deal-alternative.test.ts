@@ -12,7 +12,7 @@ let close: () => Promise<void>
 let jar: Awaited<ReturnType<typeof signedInParties>>
 beforeAll(async () => {
   ({ db, close } = await dealTestContext())
-  jar = await signedInParties(['racer', 'builder', 'otherRacer'])
+  jar = await signedInParties(['racer', 'shop', 'otherRacer'])
 })
 afterAll(async () => {
   await close()
@@ -44,14 +44,14 @@ describe('an alternative combination on a quote', () => {
   it('is stored with the revision and shown to both sides, its displacement computed by shared/engine', async () => {
     const id = await newRequest()
     // A typed displacement is not part of the schema: the server never takes it.
-    const sent = await post(`/api/requests/${id}/quote`, { ...quoteInput(), alternative: { ...alternative, displacementCi: 999 } }, jar.builder)
+    const sent = await post(`/api/requests/${id}/quote`, { ...quoteInput(), alternative: { ...alternative, displacementCi: 999 } }, jar.shop)
     expect(sent.status).toBe(201)
     const [row] = await db.select().from(schema.quoteRevisions).where(eq(schema.quoteRevisions.quoteId, sent.body.quoteId))
     expect(row!.alternative).toEqual(alternative)
     const expected = displacementCi(4.155, 4, 8)
     // π/4 × 4.155² × 4.000 × 8 ≈ 433.9 ci (swept volume of a cylinder, textbook geometry).
     expect(expected).toBeCloseTo(433.9, 1)
-    for (const who of [jar.racer, jar.builder]) {
+    for (const who of [jar.racer, jar.shop]) {
       const view = (await get(`/api/requests/${id}`, who)).body
       expect(view.quote.current.alternative).toEqual({ ...alternative, displacementCi: expected })
       expect(view.quote.current.lineItems).toHaveLength(4)
@@ -61,7 +61,7 @@ describe('an alternative combination on a quote', () => {
 
   it('is optional: a quote without one shows none', async () => {
     const id = await newRequest()
-    expect((await post(`/api/requests/${id}/quote`, quoteInput(), jar.builder)).status).toBe(201)
+    expect((await post(`/api/requests/${id}/quote`, quoteInput(), jar.shop)).status).toBe(201)
     expect((await get(`/api/requests/${id}`, jar.racer)).body.quote.current.alternative).toBeNull()
   })
 
@@ -76,7 +76,7 @@ describe('an alternative combination on a quote', () => {
   ])('refuses %s with a 400 that names the field, writing nothing', async (_what, change, words) => {
     const id = await newRequest()
     const before = await revisions()
-    const res = await post(`/api/requests/${id}/quote`, { ...quoteInput(), alternative: { ...alternative, ...change } }, jar.builder)
+    const res = await post(`/api/requests/${id}/quote`, { ...quoteInput(), alternative: { ...alternative, ...change } }, jar.shop)
     expect(res.status).toBe(400)
     expect(JSON.stringify(res.body)).toContain(words)
     expect(await revisions()).toBe(before)

@@ -22,7 +22,7 @@ let shopJar: CookieJar
 beforeAll(async () => {
   ({ ctx, close } = await dealTestContext())
   racerJar = await signedIn(PEOPLE.racer)
-  shopJar = await signedIn(PEOPLE.builder)
+  shopJar = await signedIn(PEOPLE.shop)
 })
 afterEach(async () => {
   await fake('/_fake/webhooks/release', 'POST')
@@ -106,7 +106,7 @@ describe('state changes that post to the thread, while the parties write', () =>
   })
 
   it('submits and approves (with the payout) while both parties post: every call succeeds and every note is stored once', async () => {
-    const { racer, builder, milestones, requestId } = await makeOrder(ctx, { request: { title: `Racing transitions ${randomUUID().slice(0, 6)}` } })
+    const { racer, shop, milestones, requestId } = await makeOrder(ctx, { request: { title: `Racing transitions ${randomUUID().slice(0, 6)}` } })
     const m = milestones[0]!
     await fundMilestone(ctx, racer, m.id)
     const during = (label: string) => [
@@ -114,7 +114,7 @@ describe('state changes that post to the thread, while the parties write', () =>
       say(requestId, `Racer during ${label} (2)`, racerJar), say(requestId, `Shop during ${label} (2)`, shopJar),
     ]
     const [submitted, ...first] = await Promise.all([
-      submitMilestone(ctx, builder, m.id, { notes: 'Parts are on the bench; invoices attached.', proofFileIds: [], deliveryPullId: null }).then(() => 'ok'),
+      submitMilestone(ctx, shop, m.id, { notes: 'Parts are on the bench; invoices attached.', proofFileIds: [], deliveryPullId: null }).then(() => 'ok'),
       ...during('submit'),
     ])
     expect(submitted).toBe('ok')

@@ -67,9 +67,9 @@ describe('paying a milestone', () => {
   })
 
   it('refuses a deposit out of order, a payment by the shop, and a milestone already paid', async () => {
-    const { racer, builder, milestones } = await makeOrder(ctx)
+    const { racer, shop, milestones } = await makeOrder(ctx)
     expect(await statusOf(startCheckout(ctx, racer, milestones[1]!.id))).toBe(409)
-    expect(await statusOf(startCheckout(ctx, builder, milestones[0]!.id))).toBe(403)
+    expect(await statusOf(startCheckout(ctx, shop, milestones[0]!.id))).toBe(403)
     const stranger = await actorByEmail(ctx.db, PEOPLE.otherRacer)
     expect(await statusOf(startCheckout(ctx, stranger, milestones[0]!.id))).toBe(404)
     await fundMilestone(ctx, racer, milestones[0]!.id)
@@ -94,10 +94,10 @@ describe('paying a milestone', () => {
 
 describe('release', () => {
   it('submits, approves and releases: a transfer of the amount less the fee to the shop\'s connected account', async () => {
-    const { racer, builder, milestones } = await makeOrder(ctx)
+    const { racer, shop, milestones } = await makeOrder(ctx)
     const m = milestones[0]!
     await fundMilestone(ctx, racer, m.id)
-    await submitMilestone(ctx, builder, m.id, { notes: 'Parts ordered; invoices attached.', proofFileIds: [], deliveryPullId: null })
+    await submitMilestone(ctx, shop, m.id, { notes: 'Parts ordered; invoices attached.', proofFileIds: [], deliveryPullId: null })
     expect((await milestoneRow(ctx.db, m.id)).state).toBe('submitted')
     const result = await approveMilestone(ctx, racer, m.id)
     expect(result).toEqual({ released: true, problem: null })
@@ -106,19 +106,19 @@ describe('release', () => {
     const transfer = (await paymentsOf(m.id)).find(p => p.kind === 'transfer')!
     expect(transfer.amountCents).toBe(738_000 - 36_900)
     const atStripe = await ctx.stripe.transfers.retrieve(transfer.stripeTransferId!)
-    const [account] = await ctx.db.select().from(schema.payoutAccounts).where(eq(schema.payoutAccounts.builderId, builder.builderId!))
+    const [account] = await ctx.db.select().from(schema.payoutAccounts).where(eq(schema.payoutAccounts.shopId, shop.shopId!))
     expect(atStripe.destination).toBe(account!.stripeAccountId)
     expect(atStripe.amount).toBe(701_100)
   })
 
   it('never releases before funding, never twice, and never twice when two releases race', async () => {
-    const { racer, builder, milestones } = await makeOrder(ctx)
+    const { racer, shop, milestones } = await makeOrder(ctx)
     const m = milestones[0]!
     expect(await statusOf(releaseMilestone(ctx, m.id))).toBe(409)
-    expect(await statusOf(submitMilestone(ctx, builder, m.id, { notes: 'early', proofFileIds: [], deliveryPullId: null }))).toBe(409)
+    expect(await statusOf(submitMilestone(ctx, shop, m.id, { notes: 'early', proofFileIds: [], deliveryPullId: null }))).toBe(409)
     await fundMilestone(ctx, racer, m.id)
     expect(await statusOf(releaseMilestone(ctx, m.id))).toBe(409)
-    await submitMilestone(ctx, builder, m.id, { notes: 'Done.', proofFileIds: [], deliveryPullId: null })
+    await submitMilestone(ctx, shop, m.id, { notes: 'Done.', proofFileIds: [], deliveryPullId: null })
     // An approval whose payout is still to be made, as after a payment-service outage.
     await ctx.db.update(schema.milestones).set({ state: 'approved' }).where(eq(schema.milestones.id, m.id))
     const outcomes = await Promise.all([statusOf(releaseMilestone(ctx, m.id)), statusOf(releaseMilestone(ctx, m.id))])
@@ -129,10 +129,10 @@ describe('release', () => {
   })
 
   it('approves on its own after the configured days, and pays out', async () => {
-    const { racer, builder, milestones } = await makeOrder(ctx)
+    const { racer, shop, milestones } = await makeOrder(ctx)
     const m = milestones[0]!
     await fundMilestone(ctx, racer, m.id)
-    await submitMilestone(ctx, builder, m.id, { notes: 'Done.', proofFileIds: [], deliveryPullId: null })
+    await submitMilestone(ctx, shop, m.id, { notes: 'Done.', proofFileIds: [], deliveryPullId: null })
     const submittedAt = (await milestoneRow(ctx.db, m.id)).submittedAt!
     const early = await autoApproveDue({ ...ctx, now: () => new Date(submittedAt.getTime() + 6 * 86_400_000) })
     expect(early.approved).toBe(0)
@@ -146,10 +146,10 @@ describe('release', () => {
 
 describe('dispute and refund', () => {
   it('holds a disputed deposit until an admin refunds it; the refund is made at the fake', async () => {
-    const { racer, builder, milestones } = await makeOrder(ctx)
+    const { racer, shop, milestones } = await makeOrder(ctx)
     const m = milestones[0]!
     await fundMilestone(ctx, racer, m.id)
-    expect(await statusOf(disputeMilestone(ctx, builder, m.id, 'no'))).toBe(403)
+    expect(await statusOf(disputeMilestone(ctx, shop, m.id, 'no'))).toBe(403)
     await disputeMilestone(ctx, racer, m.id, 'No parts invoices after three weeks.')
     expect(await statusOf(approveMilestone(ctx, racer, m.id))).toBe(409)
     expect(await statusOf(settleDispute(ctx, racer, m.id, 'refund', 'Refund me.'))).toBe(403)
@@ -184,10 +184,10 @@ describe('dispute and refund', () => {
 
 describe('cancelling an order', () => {
   it('refunds what is held, keeps what was released, cancels what is unpaid and expires its open page', async () => {
-    const { racer, builder, milestones, orderId } = await makeOrder(ctx)
+    const { racer, shop, milestones, orderId } = await makeOrder(ctx)
     const [m1, m2, m3] = milestones as [typeof milestones[0], typeof milestones[0], typeof milestones[0]]
     await fundMilestone(ctx, racer, m1.id)
-    await submitMilestone(ctx, builder, m1.id, { notes: 'Done.', proofFileIds: [], deliveryPullId: null })
+    await submitMilestone(ctx, shop, m1.id, { notes: 'Done.', proofFileIds: [], deliveryPullId: null })
     await approveMilestone(ctx, racer, m1.id)
     await fundMilestone(ctx, racer, m2.id)
     const { sessionId } = await startCheckout(ctx, racer, m3.id)
@@ -221,38 +221,38 @@ describe('a guaranteed final milestone', () => {
 
   it('can be submitted only with a verified delivery pull that meets the target under the quoted standard', async () => {
     const storage = createStorage({ driver: memoryDriver() })
-    const { racer, builder, milestones } = await makeOrder(ctx, { quote: { guarantee: { hp: 720, tolerancePct: 2, standard: 'SAE_J1349_2004' } } })
+    const { racer, shop, milestones } = await makeOrder(ctx, { quote: { guarantee: { hp: 720, tolerancePct: 2, standard: 'SAE_J1349_2004' } } })
     const last = milestones[2]!
     expect(last.guaranteed).toBe(true)
     for (const m of milestones) await fundMilestone(ctx, racer, m.id)
     const upload = async (text: string) => {
       const key = `tests/delivery-${Math.random().toString(36).slice(2)}.csv`
       await storage.setItemRaw(key, Buffer.from(text))
-      const [row] = await ctx.db.insert(schema.files).values({ ownerId: builder.id, kind: 'pull', mime: 'text/csv', sizeBytes: text.length, sha256: 'x'.repeat(64), storageKey: key, originalName: 'delivery.csv' }).$returningId()
+      const [row] = await ctx.db.insert(schema.files).values({ ownerId: shop.id, kind: 'pull', mime: 'text/csv', sizeBytes: text.length, sha256: 'x'.repeat(64), storageKey: key, originalName: 'delivery.csv' }).$returningId()
       return row!.id
     }
     // Milestones are done in order: the delivery cannot be handed in while earlier work is untouched.
-    const early = await submitMilestone(ctx, builder, last.id, { notes: 'Delivered.', proofFileIds: [], deliveryPullId: null }).catch(e => e)
+    const early = await submitMilestone(ctx, shop, last.id, { notes: 'Delivered.', proofFileIds: [], deliveryPullId: null }).catch(e => e)
     expect(early.statusCode).toBe(409)
     expect(early.message).toContain(`"${milestones[0]!.title}" comes first`)
     for (const m of milestones.slice(0, 2)) {
-      await submitMilestone(ctx, builder, m.id, { notes: 'Done as quoted.', proofFileIds: [], deliveryPullId: null })
+      await submitMilestone(ctx, shop, m.id, { notes: 'Done as quoted.', proofFileIds: [], deliveryPullId: null })
       await approveMilestone(ctx, racer, m.id)
     }
-    expect(await statusOf(submitMilestone(ctx, builder, last.id, { notes: 'Delivered.', proofFileIds: [], deliveryPullId: null }))).toBe(422)
+    expect(await statusOf(submitMilestone(ctx, shop, last.id, { notes: 'Delivered.', proofFileIds: [], deliveryPullId: null }))).toBe(422)
 
-    const weak = await recordDeliveryPull(ctx, storage, builder, last.id, await upload(curve(1.0)), fields)
+    const weak = await recordDeliveryPull(ctx, storage, shop, last.id, await upload(curve(1.0)), fields)
     expect(weak.status).toBe('verified')
     expect(weak.minimumHp).toBe(705.6)
     expect(weak.meetsTarget).toBe(false)
     expect(weak.peakHp).toBeLessThan(705.6)
-    expect(await statusOf(submitMilestone(ctx, builder, last.id, { notes: 'Delivered.', proofFileIds: [], deliveryPullId: weak.id }))).toBe(422)
+    expect(await statusOf(submitMilestone(ctx, shop, last.id, { notes: 'Delivered.', proofFileIds: [], deliveryPullId: weak.id }))).toBe(422)
 
-    const strong = await recordDeliveryPull(ctx, storage, builder, last.id, await upload(curve(1.05)), fields)
+    const strong = await recordDeliveryPull(ctx, storage, shop, last.id, await upload(curve(1.05)), fields)
     expect(strong.status).toBe('verified')
     expect(strong.meetsTarget).toBe(true)
     expect(strong.standard).toBe('SAE_J1349_2004')
-    await submitMilestone(ctx, builder, last.id, { notes: 'Delivered with the pull.', proofFileIds: [], deliveryPullId: strong.id })
+    await submitMilestone(ctx, shop, last.id, { notes: 'Delivered with the pull.', proofFileIds: [], deliveryPullId: strong.id })
     expect((await milestoneRow(ctx.db, last.id)).state).toBe('submitted')
     expect(await statusOf(recordDeliveryPull(ctx, storage, racer, last.id, await upload(curve(1.1)), fields))).toBe(403)
   })

@@ -34,8 +34,8 @@ describe('requests', () => {
   it('creates a request for a racer and shows it to its two parties only', async () => {
     const id = await newRequest()
     expect((await get(`/api/requests/${id}`, jar.racer)).body).toMatchObject({ id, side: 'racer', status: 'open' })
-    expect((await get(`/api/requests/${id}`, jar.builder)).body.side).toBe('builder')
-    expect((await get(`/api/requests/${id}`, jar.otherBuilder)).status).toBe(404)
+    expect((await get(`/api/requests/${id}`, jar.shop)).body.side).toBe('builder')
+    expect((await get(`/api/requests/${id}`, jar.otherShop)).status).toBe(404)
     expect((await get(`/api/requests/${id}`, jar.otherRacer)).status).toBe(404)
     expect((await get(`/api/requests/${id}/messages`, jar.otherRacer)).status).toBe(404)
   })
@@ -58,7 +58,7 @@ describe('requests', () => {
     expect(res.status).toBe(201)
     const [row] = await db.select({ launchRpm: schema.quoteRequests.launchRpm, stallRpm: schema.quoteRequests.stallRpm }).from(schema.quoteRequests).where(eq(schema.quoteRequests.id, res.body.id))
     expect(row).toEqual({ launchRpm: 3800, stallRpm: null })
-    expect((await get(`/api/requests/${res.body.id}`, jar.builder)).body).toMatchObject({ transmission: 'manual', launchRpm: 3800, stallRpm: null })
+    expect((await get(`/api/requests/${res.body.id}`, jar.shop)).body).toMatchObject({ transmission: 'manual', launchRpm: 3800, stallRpm: null })
   })
 
   it('refuses a launch rpm with an automatic (400, nothing written)', async () => {
@@ -71,7 +71,7 @@ describe('requests', () => {
 
   it('refuses a request to a shop that does not exist (422) and a deadline in the past (422)', async () => {
     const before = await rows(schema.quoteRequests)
-    expect((await post('/api/requests', requestInput({ builder: 'no-such-shop' }), jar.racer)).status).toBe(422)
+    expect((await post('/api/requests', requestInput({ shop: 'no-such-shop' }), jar.racer)).status).toBe(422)
     const past = await post('/api/requests', requestInput({ deadline: '2020-01-01' }), jar.racer)
     expect(past.status).toBe(422)
     expect(past.body.message).toContain('deadline')
@@ -85,7 +85,7 @@ describe('quotes', () => {
     const before = await rows(schema.quoteRevisions)
     const base = quoteInput()
     const off = { ...base, milestones: base.milestones.map((m, i) => (i === 0 ? { ...m, amountCents: m.amountCents + 1 } : m)) }
-    const res = await post(`/api/requests/${id}/quote`, off, jar.builder)
+    const res = await post(`/api/requests/${id}/quote`, off, jar.shop)
     expect(res.status).toBe(422)
     expect(res.body.message).toBe('The milestones add up to $24,600.01 but the line items total $24,600.00: they must be equal, to the cent.')
     expect(await rows(schema.quoteRevisions)).toBe(before)
@@ -98,7 +98,7 @@ describe('quotes', () => {
   ])('refuses a quote with %s: 422 naming the limit, and writes nothing', async (_what, change, figure) => {
     const id = await newRequest()
     const before = { revisions: await rows(schema.quoteRevisions), quotes: (await db.select({ n: count() }).from(schema.quotes))[0]!.n }
-    const res = await post(`/api/requests/${id}/quote`, change(quoteInput()), jar.builder)
+    const res = await post(`/api/requests/${id}/quote`, change(quoteInput()), jar.shop)
     expect(res.status).toBe(422)
     expect(res.body.message).toContain('at most $10,000,000.00')
     expect(res.body.message).toContain(figure)
@@ -109,9 +109,9 @@ describe('quotes', () => {
 
   it('keeps every revision, and refuses to accept a revision that is no longer current (409)', async () => {
     const id = await newRequest()
-    const first = await post(`/api/requests/${id}/quote`, quoteInput(), jar.builder)
+    const first = await post(`/api/requests/${id}/quote`, quoteInput(), jar.shop)
     expect(first.status).toBe(201)
-    const second = await post(`/api/requests/${id}/quote`, { ...quoteInput(), notes: 'Revised: customer supplies the crank.' }, jar.builder)
+    const second = await post(`/api/requests/${id}/quote`, { ...quoteInput(), notes: 'Revised: customer supplies the crank.' }, jar.shop)
     expect(second.body.revision).toBe(2)
     const view = (await get(`/api/requests/${id}`, jar.racer)).body
     expect(view.quote.history.map((h: { revision: number }) => h.revision)).toEqual([2, 1])
@@ -119,13 +119,13 @@ describe('quotes', () => {
     const stale = await post(`/api/quotes/${view.quote.id}/accept`, { revision: 1 }, jar.racer)
     expect(stale.status).toBe(409)
     expect(stale.body.message).toContain('revision 2 is current')
-    expect((await post(`/api/quotes/${view.quote.id}/accept`, { revision: 2 }, jar.builder)).status).toBe(403)
+    expect((await post(`/api/quotes/${view.quote.id}/accept`, { revision: 2 }, jar.shop)).status).toBe(403)
     const accepted = await post(`/api/quotes/${view.quote.id}/accept`, { revision: 2 }, jar.racer)
     expect(accepted.status).toBe(201)
     expect((await post(`/api/quotes/${view.quote.id}/accept`, { revision: 2 }, jar.racer)).status).toBe(409)
-    const order = await get(`/api/orders/${accepted.body.orderId}`, jar.builder)
+    const order = await get(`/api/orders/${accepted.body.orderId}`, jar.shop)
     expect(order.body.milestones).toHaveLength(3)
-    expect((await get(`/api/orders/${accepted.body.orderId}`, jar.otherBuilder)).status).toBe(404)
+    expect((await get(`/api/orders/${accepted.body.orderId}`, jar.otherShop)).status).toBe(404)
     expect((await get(`/api/orders/${accepted.body.orderId}`, jar.otherRacer)).status).toBe(404)
   })
 })
@@ -133,7 +133,7 @@ describe('quotes', () => {
 describe('paying over HTTP', () => {
   it('gives a double click one payment page, and shows the funded milestone with its Stripe ids to both sides', async () => {
     const id = await newRequest()
-    const q = await post(`/api/requests/${id}/quote`, quoteInput(), jar.builder)
+    const q = await post(`/api/requests/${id}/quote`, quoteInput(), jar.shop)
     const { orderId } = (await post(`/api/quotes/${q.body.quoteId}/accept`, { revision: 1 }, jar.racer)).body
     const order = (await get(`/api/orders/${orderId}`, jar.racer)).body
     const first = order.milestones[0]
@@ -143,7 +143,7 @@ describe('paying over HTTP', () => {
     expect((await post(`/api/milestones/${first.id}/checkout`, {}, jar.otherRacer)).status).toBe(404)
     await payOnFakePage(clicks[0]!.body.url, CARDS.succeeds)
     await eventually('funded', async () => (await milestoneRow(db, first.id)).state === 'funded')
-    for (const who of [jar.racer, jar.builder]) {
+    for (const who of [jar.racer, jar.shop]) {
       const seen = (await get(`/api/orders/${orderId}`, who)).body.milestones[0]
       expect(seen.state).toBe('funded')
       expect(seen.payments[0].stripeCheckoutSessionId).toMatch(/^cs_test_/)
@@ -187,10 +187,10 @@ describe('attachments', () => {
     const msg = await post(`/api/requests/${id}/messages`, { body: 'The class rules.', attachmentIds: [file.body.id] }, jar.racer)
     expect(msg.status).toBe(201)
     expect(msg.body.attachments[0].id).toBe(file.body.id)
-    const got = await api(`/api/attachments/${file.body.id}`, { headers: as(jar.builder, address) })
+    const got = await api(`/api/attachments/${file.body.id}`, { headers: as(jar.shop, address) })
     expect(got.status).toBe(200)
     expect(got.headers.get('content-disposition')).toContain('attachment')
-    expect((await api(`/api/attachments/${file.body.id}`, { headers: as(jar.otherBuilder, address) })).status).toBe(404)
+    expect((await api(`/api/attachments/${file.body.id}`, { headers: as(jar.otherShop, address) })).status).toBe(404)
     // Attached once: the same file cannot be attached again.
     expect((await post(`/api/requests/${id}/messages`, { body: 'again', attachmentIds: [file.body.id] }, jar.racer)).status).toBe(422)
   })
@@ -199,20 +199,20 @@ describe('attachments', () => {
     const before = (await db.select({ n: count() }).from(schema.files))[0]!.n
     const binary = Buffer.from([0x4D, 0x5A, 0x90, 0x00, 0x03, 0x00, 0x00, 0x00, 0x04, 0x00])
     expect((await upload(binary, 'attachment', jar.racer, 'tool.exe')).status).toBe(415)
-    expect((await upload(Buffer.alloc(3 * 1024 * 1024, 65), 'pull', jar.builder, 'pull.csv')).status).toBe(413)
+    expect((await upload(Buffer.alloc(3 * 1024 * 1024, 65), 'pull', jar.shop, 'pull.csv')).status).toBe(413)
     expect((await upload(pdf, 'sneaky', jar.racer)).status).toBe(400)
     expect((await db.select({ n: count() }).from(schema.files))[0]!.n).toBe(before)
   })
 
   it('counts unread messages for the navigation and clears them when the thread is opened', async () => {
-    const before = (await get('/api/messages/unread', jar.builder)).body
+    const before = (await get('/api/messages/unread', jar.shop)).body
     const id = await newRequest()
     await post(`/api/requests/${id}/messages`, { body: 'Is the block in stock?' }, jar.racer)
-    const after = (await get('/api/messages/unread', jar.builder)).body
+    const after = (await get('/api/messages/unread', jar.shop)).body
     expect(after.threads.find((t: { requestId: number }) => t.requestId === id).unread).toBe(2)
     expect(after.total).toBe(before.total + 2)
-    await get(`/api/requests/${id}/messages`, jar.builder)
-    expect((await get('/api/messages/unread', jar.builder)).body.threads.find((t: { requestId: number }) => t.requestId === id)).toBeUndefined()
+    await get(`/api/requests/${id}/messages`, jar.shop)
+    expect((await get('/api/messages/unread', jar.shop)).body.threads.find((t: { requestId: number }) => t.requestId === id)).toBeUndefined()
     const [reads] = await db.select().from(schema.messageReads).where(eq(schema.messageReads.requestId, id))
     expect(reads).toBeDefined()
   })

@@ -4,14 +4,14 @@ import { resolve } from 'node:path'
 import { and, eq, ne } from 'drizzle-orm'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { deletePull, previewPull, recheckSubmittedPulls, savePull } from '../../server/services/evidence-uploads'
-import { changeStatus, createDraft, updateBuild } from '../../server/services/listing-editor'
+import { changeStatus, createDraft, updateBuild } from '../../server/services/build-editor'
 import type { UploadStore } from '../../server/utils/files'
 import type { Database } from '../../server/database/types'
 import { PULL_MAX_ROWS, RPM_CEILING, convertCurve, displacementCi, parsePull, peaks } from '../../shared/engine'
 import { UPLOAD_LIMITS } from '../../server/utils/uploads'
 import { PERSONAS, signedIn, type CookieJar } from '../support/auth'
 import { api, schema, testDb } from '../support/context'
-import { buildIds, COMPLETE_COMBINATION, fileRowCount, inventedPullCsv, pullMeta, pullsOf, removeBuildsSince, storedKeys, testUploadsDir, testUploadStore, twoShops } from '../support/listings'
+import { buildIds, COMPLETE_COMBINATION, fileRowCount, inventedPullCsv, pullMeta, pullsOf, removeBuildsSince, storedKeys, testUploadsDir, testUploadStore, twoShops } from '../support/builds'
 
 let ctx: Awaited<ReturnType<typeof testDb>>
 let seeded: Set<number>
@@ -151,7 +151,7 @@ describe('duplicate evidence across builds', () => {
     const [other] = await ctx.db.select({ pull: schema.dynoPulls, key: schema.files.storageKey }).from(schema.dynoPulls)
       .innerJoin(schema.files, eq(schema.files.id, schema.dynoPulls.fileId))
       .innerJoin(schema.builds, eq(schema.builds.id, schema.dynoPulls.buildId))
-      .where(and(eq(schema.builds.builderId, shops.other.id), eq(schema.builds.status, 'published'))).limit(1)
+      .where(and(eq(schema.builds.shopId, shops.other.id), eq(schema.builds.status, 'published'))).limit(1)
     const copied = readFileSync(resolve(testUploadsDir(), other!.key), 'utf8')
     const id = await readyDraft('Borrowed curve')
     const preview = await previewPull(db, shops.mine, id, { pull: file(copied), meta: pullMeta() })
@@ -199,7 +199,7 @@ describe('deleting a pull', () => {
     expect(build!.peakHp).toBeCloseTo(first!.summary.peakHp, 1)
   })
 
-  it('keeps a published listing\'s last pull (409), and answers 404 for a pull of another build', async () => {
+  it('keeps a published build\'s last pull (409), and answers 404 for a pull of another build', async () => {
     const id = await readyDraft('Last pull stays')
     const only = await savePull(db, store, shops.mine, id, { pull: file(inventedPullCsv(212)), meta: pullMeta() })
     await changeStatus(db, shops.mine, id, 'publish')
@@ -273,11 +273,11 @@ describe('the evidence report follows the combination', () => {
 })
 
 describe('a hostile pull file cannot hurt the server (over HTTP, real MariaDB)', () => {
-  let builder: CookieJar
+  let shop: CookieJar
   beforeAll(async () => {
-    builder = await signedIn(PERSONAS.builder)
+    shop = await signedIn(PERSONAS.shop)
   })
-  const as = (init: RequestInit): RequestInit => ({ ...init, headers: { ...(init.headers ?? {}), cookie: builder.header() } })
+  const as = (init: RequestInit): RequestInit => ({ ...init, headers: { ...(init.headers ?? {}), cookie: shop.header() } })
   const form = (text: string) => {
     const data = new FormData()
     data.set('meta', JSON.stringify(pullMeta()))

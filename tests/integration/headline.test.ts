@@ -3,11 +3,11 @@
 import { eq } from 'drizzle-orm'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { savePull } from '../../server/services/evidence-uploads'
-import { changeStatus, createDraft, updateBuild } from '../../server/services/listing-editor'
+import { changeStatus, createDraft, updateBuild } from '../../server/services/build-editor'
 import type { Database } from '../../server/database/types'
 import { PERSONAS, signedIn, type CookieJar } from '../support/auth'
 import { api, schema, testDb } from '../support/context'
-import { buildIds, COMPLETE_COMBINATION, inventedPullCsv, pullMeta, pullsOf, removeBuildsSince, testUploadStore, twoShops } from '../support/listings'
+import { buildIds, COMPLETE_COMBINATION, inventedPullCsv, pullMeta, pullsOf, removeBuildsSince, testUploadStore, twoShops } from '../support/builds'
 
 let ctx: Awaited<ReturnType<typeof testDb>>
 let seeded: Set<number>

@@ -61,7 +61,7 @@ describe('every mail goes through the outbox', () => {
     await deliveredThroughOutbox(account.email, s => s.includes('sign-in link'))
   })
 
-  it('an admin\'s decision: a listing taken down', async () => {
+  it('an admin\'s decision: a build taken down', async () => {
     const admin = await signedIn(PERSONAS.admin)
     const owner = await makeAccount({ role: 'builder', name: 'Odile Marchetti' })
     const shop = await shopOf(ctx.db, owner.id)
@@ -69,6 +69,6 @@ describe('every mail goes through the outbox', () => {
     const res = await api(`/api/admin/listings/${buildId}/unpublish`, json('POST', { reason: 'The parts list names a head this shop does not sell; correct it first.' }, admin, freshAddress()))
     expect(res.status).toBe(200)
     expect(res.body.mailed).toBe(true)
-    await deliveredThroughOutbox(owner.email, s => s === `Your listing was taken down: ${title}`)
+    await deliveredThroughOutbox(owner.email, s => s === `Your build was taken down: ${title}`)
   })
 })

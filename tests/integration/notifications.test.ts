@@ -48,7 +48,7 @@ const outboxTo = (email: string) => ctx.db.select().from(schema.mailOutbox).wher
 /** A deal between a fresh racer and a fresh shop: request, quote, accepted order, first deposit paid. */
 async function dealBetween(racer: Person, shop: Person) {
   const title = `Notified deal ${randomBytes(3).toString('hex')}`
-  const order = await makeOrder(ctx, { racer: racer.actor, builder: shop.actor, request: { builder: shop.shopSlug!, title } })
+  const order = await makeOrder(ctx, { racer: racer.actor, shop: shop.actor, request: { shop: shop.shopSlug!, title } })
   await fundMilestone(ctx, racer.actor, order.milestones[0]!.id)
   return { ...order, title }
 }
@@ -137,7 +137,7 @@ describe('the notifications list', () => {
     const res = await call(racer, 'POST', '/api/me/notifications/read', { upTo: 9_000_000_000 })
     expect(res.body).toEqual({ unread: 0 })
     // A second quote from the shop on a new request arrives after the mark: it is unread.
-    const { id: requestId } = await createRequest(ctx, racer.actor, requestInput({ builder: shop.shopSlug!, title: `${deal.title} (second)` }))
+    const { id: requestId } = await createRequest(ctx, racer.actor, requestInput({ shop: shop.shopSlug!, title: `${deal.title} (second)` }))
     await sendQuote(ctx, shop.actor, requestId, quoteInput())
     const body = await list(racer)
     expect(body.unread).toBe(1)
@@ -193,7 +193,7 @@ describe('the e-mail switches', () => {
 
     const on = await call(racer, 'PATCH', '/api/me/notifications/settings', { email: { quotes: true } })
     expect(on.body.email.quotes).toBe(true)
-    const { id: requestId } = await createRequest(ctx, racer.actor, requestInput({ builder: shop.shopSlug!, title: `${deal.title} (again)` }))
+    const { id: requestId } = await createRequest(ctx, racer.actor, requestInput({ shop: shop.shopSlug!, title: `${deal.title} (again)` }))
     await sendQuote(ctx, shop.actor, requestId, quoteInput())
     await waitForMail(racer.email, m => m.subject.includes('sent a quote'), 20_000)
   })

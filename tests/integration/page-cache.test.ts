@@ -7,12 +7,12 @@
 import { and, eq } from 'drizzle-orm'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { pastDeal } from '../../scripts/lib/seed-reviews'
-import { BUILDER_SHOP, PERSONAS, signedIn, type CookieJar } from '../support/auth'
+import { SHOP, PERSONAS, signedIn, type CookieJar } from '../support/auth'
 import { baseUrl } from '../support/context'
 import { dealHttp, dealTestContext, makeOrder, schema, signedInParties, type DealParty } from '../support/deals'
 
 let t: Awaited<ReturnType<typeof dealTestContext>>
-let builder: CookieJar
+let shop: CookieJar
 let jars: Record<DealParty, CookieJar>
 let build: { id: number, slug: string, title: string }
 const DAY = 86_400_000
@@ -22,18 +22,18 @@ async function page(path: string, headers: Record<string, string> = {}) {
   return { status: res.status, headers: res.headers, html: await res.text() }
 }
 
-/** The API edit the listing editor makes: it runs the build-changed hook, which drops the caches. */
+/** The API edit the build editor makes: it runs the build-changed hook, which drops the caches. */
 async function editTitle(title: string) {
-  const res = await fetch(`${baseUrl()}/api/me/builds/${build.id}`, { method: 'PATCH', headers: { 'content-type': 'application/json', 'cookie': builder.header() }, body: JSON.stringify({ title }) })
+  const res = await fetch(`${baseUrl()}/api/me/builds/${build.id}`, { method: 'PATCH', headers: { 'content-type': 'application/json', 'cookie': shop.header() }, body: JSON.stringify({ title }) })
   expect(res.status).toBe(200)
 }
 const writeRoundTheApp = (title: string) => t.db.update(schema.builds).set({ title }).where(eq(schema.builds.id, build.id))
-const SHOP_PAGE = `/builders/${BUILDER_SHOP}`
+const SHOP_PAGE = `/builders/${SHOP}`
 let shopName: string
-const nameRoundTheApp = (name: string) => t.db.update(schema.builderProfiles).set({ shopName: name }).where(eq(schema.builderProfiles.slug, BUILDER_SHOP))
+const nameRoundTheApp = (name: string) => t.db.update(schema.shops).set({ shopName: name }).where(eq(schema.shops.slug, SHOP))
 /** The shop's own rename through the API, which drops the caches. */
 async function rename(name: string) {
-  const res = await fetch(`${baseUrl()}/api/builders/${BUILDER_SHOP}`, { method: 'PATCH', headers: { 'content-type': 'application/json', 'cookie': builder.header() }, body: JSON.stringify({ shopName: name }) })
+  const res = await fetch(`${baseUrl()}/api/builders/${SHOP}`, { method: 'PATCH', headers: { 'content-type': 'application/json', 'cookie': shop.header() }, body: JSON.stringify({ shopName: name }) })
   expect(res.status).toBe(200)
 }
 
@@ -46,14 +46,14 @@ function nonces(res: { headers: Headers, html: string }) {
 
 beforeAll(async () => {
   t = await dealTestContext()
-  builder = await signedIn(PERSONAS.builder)
+  shop = await signedIn(PERSONAS.shop)
   jars = await signedInParties()
   const [row] = await t.db.select({ id: schema.builds.id, slug: schema.builds.slug, title: schema.builds.title })
-    .from(schema.builds).innerJoin(schema.builderProfiles, eq(schema.builderProfiles.id, schema.builds.builderId))
-    .where(and(eq(schema.builderProfiles.slug, BUILDER_SHOP), eq(schema.builds.status, 'published'))).limit(1)
+    .from(schema.builds).innerJoin(schema.shops, eq(schema.shops.id, schema.builds.shopId))
+    .where(and(eq(schema.shops.slug, SHOP), eq(schema.builds.status, 'published'))).limit(1)
   build = { id: row!.id, slug: row!.slug!, title: row!.title }
-  const [shop] = await t.db.select({ shopName: schema.builderProfiles.shopName }).from(schema.builderProfiles).where(eq(schema.builderProfiles.slug, BUILDER_SHOP))
-  shopName = shop!.shopName
+  const [shopRow] = await t.db.select({ shopName: schema.shops.shopName }).from(schema.shops).where(eq(schema.shops.slug, SHOP))
+  shopName = shopRow!.shopName
 })
 afterAll(async () => {
   await nameRoundTheApp(shopName)
@@ -67,7 +67,7 @@ describe('the HTML page cache', () => {
   it('serves a second anonymous visit from the cache; a signed-in request neither gets nor stores a cached page; an edit through the API shows at once', async () => {
     await rename(`${shopName} A`)
     // Signed in first, after the rename dropped the cache: its page must not be stored for anonymous visitors.
-    expect((await page(SHOP_PAGE, { cookie: builder.header() })).html).toContain(`${shopName} A`)
+    expect((await page(SHOP_PAGE, { cookie: shop.header() })).html).toContain(`${shopName} A`)
     await nameRoundTheApp(`${shopName} B`)
     const first = await page(SHOP_PAGE)
     expect(first.status).toBe(200)
@@ -77,7 +77,7 @@ describe('the HTML page cache', () => {
     const second = await page(SHOP_PAGE)
     expect(second.html).toContain(`${shopName} B`)
     expect(second.html).not.toContain(`${shopName} C`)
-    expect((await page(SHOP_PAGE, { cookie: builder.header() })).html).toContain(`${shopName} C`)
+    expect((await page(SHOP_PAGE, { cookie: shop.header() })).html).toContain(`${shopName} C`)
     expect((await page(SHOP_PAGE)).html).toContain(`${shopName} B`)
 
     // HEAD of a cached page answers like GET, with its own nonce.
@@ -85,7 +85,7 @@ describe('the HTML page cache', () => {
     expect(head.status).toBe(200)
     expect(head.headers.get('content-security-policy')).toMatch(/'nonce-/)
 
-    // A listing edit runs the build-changed hook: the shop page, which lists the build, is rendered afresh.
+    // A build edit runs the build-changed hook: the shop page, which lists the build, is rendered afresh.
     await editTitle(`${build.title} (edited)`)
     const fresh = await page(SHOP_PAGE)
     expect(fresh.html).toContain(`${shopName} C`)
@@ -131,7 +131,7 @@ describe('the HTML page cache', () => {
     expect(gzNonces.header).not.toBe(nonces(hit).header)
   })
 
-  it('shows a listing edit on a cached search page at once', async () => {
+  it('shows a build edit on a cached search page at once', async () => {
     const word = `Zq${Date.now().toString(36)}`
     const path = `/search?q=${word}`
     expect((await page(path)).html).not.toContain(`${build.title} ${word}`)
@@ -155,7 +155,7 @@ describe('the HTML page cache', () => {
   it('shows a review on the shop\'s page at once after it is written', async () => {
     const order = await makeOrder(t.ctx)
     await pastDeal(t.db, {
-      requestId: order.requestId, orderId: order.orderId, shopUserId: order.builder.id, at: new Date(Date.now() - 100 * DAY), quoteAfterH: 5, orderStatus: 'completed',
+      requestId: order.requestId, orderId: order.orderId, shopUserId: order.shop.id, at: new Date(Date.now() - 100 * DAY), quoteAfterH: 5, orderStatus: 'completed',
       milestones: [{ dueDay: 10, submittedDay: 9, state: 'released' }],
     })
     // The shop page is stored now: only a dropped cache shows the review.

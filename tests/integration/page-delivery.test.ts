@@ -1,7 +1,7 @@
 import { brotliDecompressSync, gunzipSync } from 'node:zlib'
 import { and, eq } from 'drizzle-orm'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { BUILDER_SHOP, PERSONAS, signedIn, type CookieJar } from '../support/auth'
+import { SHOP, PERSONAS, signedIn, type CookieJar } from '../support/auth'
 import { baseUrl, schema, testDb } from '../support/context'
 
 // Raw answers: undici's fetch decodes bodies but keeps the Content-Encoding header; asking with an
@@ -14,20 +14,20 @@ async function raw(path: string, acceptEncoding: string, headers: Record<string,
 const varies = (h: Headers) => (h.get('vary') ?? '').toLowerCase().split(',').map(s => s.trim())
 
 let ctx: Awaited<ReturnType<typeof testDb>>
-let builder: CookieJar
+let shop: CookieJar
 let build: { id: number, slug: string, title: string }
 beforeAll(async () => {
   ctx = await testDb()
-  builder = await signedIn(PERSONAS.builder)
+  shop = await signedIn(PERSONAS.shop)
   const [row] = await ctx.db.select({ id: schema.builds.id, slug: schema.builds.slug, title: schema.builds.title })
-    .from(schema.builds).innerJoin(schema.builderProfiles, eq(schema.builderProfiles.id, schema.builds.builderId))
-    .where(and(eq(schema.builderProfiles.slug, BUILDER_SHOP), eq(schema.builds.status, 'published'))).limit(1)
+    .from(schema.builds).innerJoin(schema.shops, eq(schema.shops.id, schema.builds.shopId))
+    .where(and(eq(schema.shops.slug, SHOP), eq(schema.builds.status, 'published'))).limit(1)
   build = { id: row!.id, slug: row!.slug!, title: row!.title }
 })
 afterAll(async () => {
   await ctx.db.update(schema.builds).set({ title: build.title }).where(eq(schema.builds.id, build.id))
   // The restore went round the hook: an edit through the API drops what the server cached.
-  await fetch(`${baseUrl()}/api/me/builds/${build.id}`, { method: 'PATCH', headers: { 'content-type': 'application/json', 'cookie': builder.header() }, body: JSON.stringify({ title: build.title }) })
+  await fetch(`${baseUrl()}/api/me/builds/${build.id}`, { method: 'PATCH', headers: { 'content-type': 'application/json', 'cookie': shop.header() }, body: JSON.stringify({ title: build.title }) })
   await ctx.close()
 })
 
@@ -133,27 +133,27 @@ describe('the public answer cache', () => {
     const roundTheApp = `${build.title} (written round the app)`
     await ctx.db.update(schema.builds).set({ title: roundTheApp }).where(eq(schema.builds.id, build.id))
     expect(JSON.parse(await anonymous()).title).toBe(build.title)
-    const signedInView = await raw(`/api/builds/${build.slug}`, 'identity', { cookie: builder.header() })
+    const signedInView = await raw(`/api/builds/${build.slug}`, 'identity', { cookie: shop.header() })
     expect(JSON.parse(signedInView.text).title).toBe(roundTheApp)
     expect(JSON.parse(await anonymous()).title).toBe(build.title)
 
-    // The shop edits the listing through the app: the next anonymous answer is the new one at once.
+    // The shop edits the build through the app: the next anonymous answer is the new one at once.
     const edited = `${build.title} (edited)`
-    const res = await fetch(`${baseUrl()}/api/me/builds/${build.id}`, { method: 'PATCH', headers: { 'content-type': 'application/json', 'cookie': builder.header() }, body: JSON.stringify({ title: edited }) })
+    const res = await fetch(`${baseUrl()}/api/me/builds/${build.id}`, { method: 'PATCH', headers: { 'content-type': 'application/json', 'cookie': shop.header() }, body: JSON.stringify({ title: edited }) })
     expect(res.status).toBe(200)
     expect(JSON.parse(await anonymous()).title).toBe(edited)
     const list = JSON.parse((await raw('/api/builds?perPage=100', 'identity')).text) as { items: { slug: string, title: string }[] }
     expect(list.items.find(i => i.slug === build.slug)?.title).toBe(edited)
   })
 
-  it('drops the cache when a shop renames itself: its listings show the new name at once', async () => {
+  it('drops the cache when a shop renames itself: its builds show the new name at once', async () => {
     const shopName = async () => {
-      const list = JSON.parse((await raw('/api/builds?perPage=100', 'identity')).text) as { items: { slug: string, builder: { shopName: string } }[] }
-      return list.items.find(i => i.slug === build.slug)?.builder.shopName
+      const list = JSON.parse((await raw('/api/builds?perPage=100', 'identity')).text) as { items: { slug: string, shop: { shopName: string } }[] }
+      return list.items.find(i => i.slug === build.slug)?.shop.shopName
     }
     const before = await shopName()
     expect(before).toBeTruthy()
-    const rename = (name: string) => fetch(`${baseUrl()}/api/builders/${BUILDER_SHOP}`, { method: 'PATCH', headers: { 'content-type': 'application/json', 'cookie': builder.header() }, body: JSON.stringify({ shopName: name }) })
+    const rename = (name: string) => fetch(`${baseUrl()}/api/builders/${SHOP}`, { method: 'PATCH', headers: { 'content-type': 'application/json', 'cookie': shop.header() }, body: JSON.stringify({ shopName: name }) })
     try {
       expect((await rename(`${before} Renamed`)).status).toBe(200)
       expect(await shopName()).toBe(`${before} Renamed`)

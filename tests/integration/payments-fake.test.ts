@@ -213,7 +213,7 @@ describe('refunds and transfers', () => {
   })
 
   it('creates a connected account and transfers to it from a charge, never more than is left on it', async () => {
-    const account = await stripe.accounts.create({ type: 'express', email: 'shop@builder.test', business_profile: { name: 'Invented Shop' }, metadata: { builder_id: '3' } })
+    const account = await stripe.accounts.create({ type: 'express', email: 'shop@shop.test', business_profile: { name: 'Invented Shop' }, metadata: { builder_id: '3' } })
     expect(account.id).toMatch(/^acct_/)
     expect(account.payouts_enabled).toBe(true)
     const { pi, charge } = await paid(50_000)

@@ -4,15 +4,15 @@
 import { and, eq, inArray } from 'drizzle-orm'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { CORRECTION_STANDARDS, convertCurve, correctionFactor, curveFingerprint, parsePull, peaks, resample, type CorrectionStandard, type PullPoint } from '../../shared/engine'
-import { displayCurve } from '../../shared/listings/display-curve'
+import { displayCurve } from '../../shared/builds/display-curve'
 import { PULL_FIGURES_VERSION } from '../../shared/pulls/figures'
 import { demoBuilds } from '../../scripts/lib/demo-data'
 import { savePull } from '../../server/services/evidence-uploads'
-import { createDraft, updateBuild } from '../../server/services/listing-editor'
+import { createDraft, updateBuild } from '../../server/services/build-editor'
 import type { Database } from '../../server/database/types'
 import { api, baseUrl, schema, testDb } from '../support/context'
 import { readTestUpload } from '../support/fixtures'
-import { buildIds, COMPLETE_COMBINATION, inventedPullCsv, pullMeta, removeBuildsSince, testUploadStore, twoShops } from '../support/listings'
+import { buildIds, COMPLETE_COMBINATION, inventedPullCsv, pullMeta, removeBuildsSince, testUploadStore, twoShops } from '../support/builds'
 
 let ctx: Awaited<ReturnType<typeof testDb>>
 let before: Set<number>
@@ -104,10 +104,10 @@ describe('stored pull figures', () => {
 
   it('are written with the pull when it is saved', async () => {
     const db = ctx.db as unknown as Database
-    const shops = await twoShops(ctx.db)
-    const id = await createDraft(db, shops.mine, 'Pipeline save')
-    await updateBuild(db, shops.mine, id, { ...COMPLETE_COMBINATION })
-    const saved = await savePull(db, testUploadStore(), shops.mine, id, { pull: { bytes: Buffer.from(inventedPullCsv(733, 610)), name: 'pull.csv' }, meta: pullMeta({ label: 'Saved pull' }) })
+    const shopRows = await twoShops(ctx.db)
+    const id = await createDraft(db, shopRows.mine, 'Pipeline save')
+    await updateBuild(db, shopRows.mine, id, { ...COMPLETE_COMBINATION })
+    const saved = await savePull(db, testUploadStore(), shopRows.mine, id, { pull: { bytes: Buffer.from(inventedPullCsv(733, 610)), name: 'pull.csv' }, meta: pullMeta({ label: 'Saved pull' }) })
     const [row] = await ctx.db.select().from(schema.pullFigures).where(eq(schema.pullFigures.pullId, saved.pullId))
     expect(row!.version).toBe(PULL_FIGURES_VERSION)
     expect(row!.standards.SAE_J1349_2004.peakHp).toBe(saved.summary.peakHp)
@@ -170,9 +170,9 @@ describe('one headline figure everywhere', () => {
     const search = await api('/api/search?perPage=100')
     expect(search.status).toBe(200)
     const hits = new Map<string, { peakHp: number | null }>(search.body.hits.map((h: { slug: string, peakHp: number | null }) => [h.slug, h]))
-    const shops = await ctx.db.select({ slug: schema.builderProfiles.slug }).from(schema.builderProfiles)
+    const shopRows = await ctx.db.select({ slug: schema.shops.slug }).from(schema.shops)
     const cards = new Map<string, number | null>()
-    for (const shop of shops) {
+    for (const shop of shopRows) {
       const res = await fetch(`${baseUrl()}/builders/${shop.slug}`)
       if (res.status === 200) for (const [slug, hp] of cardPowers(await res.text())) cards.set(slug, hp)
     }

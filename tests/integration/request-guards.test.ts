@@ -17,7 +17,7 @@ import type { Database } from '../../server/database/types'
 let ctx: DealContext
 let db: Database
 let close: () => Promise<void>
-const jar: Record<'racer' | 'builder', CookieJar> = {} as never
+const jar: Record<'racer' | 'shop', CookieJar> = {} as never
 const address = freshAddress()
 const ELSEWHERE = 'https://prize-draw.example'
 const MB = 1024 * 1024
@@ -25,7 +25,7 @@ const MB = 1024 * 1024
 beforeAll(async () => {
   ({ ctx, db, close } = await dealTestContext())
   jar.racer = await signedIn(PEOPLE.racer)
-  jar.builder = await signedIn(PEOPLE.builder)
+  jar.shop = await signedIn(PEOPLE.shop)
 })
 afterAll(async () => {
   await close()
@@ -222,7 +222,7 @@ describe('body size (1 MB outside the uploads)', () => {
     const stored = await api(`/api/attachments?kind=attachment&name=long-pull.csv`, { method: 'POST', headers: as(jar.racer, address, { 'content-type': 'text/csv' }), body: new Uint8Array(csv) })
     expect(stored.status).toBe(201)
     expect(stored.body).toMatchObject({ name: 'long-pull.csv', mime: 'text/csv' })
-    const over = await api(`/api/attachments?kind=pull&name=pull.csv`, { method: 'POST', headers: as(jar.builder, address, { 'content-type': 'text/csv' }), body: new Uint8Array(Buffer.alloc(3 * MB, 65)) })
+    const over = await api(`/api/attachments?kind=pull&name=pull.csv`, { method: 'POST', headers: as(jar.shop, address, { 'content-type': 'text/csv' }), body: new Uint8Array(Buffer.alloc(3 * MB, 65)) })
     expect(over.status).toBe(413)
   })
 

@@ -43,7 +43,7 @@ function call(who: Person, method: string, path: string, body?: unknown) {
 /** A completed order between a fresh racer and a fresh shop (every milestone released). */
 async function completedOrder(racer: Person, shop: Person) {
   const title = `Finished deal ${randomBytes(3).toString('hex')}`
-  const order = await makeOrder(ctx, { racer: racer.actor, builder: shop.actor, request: { builder: shop.shopSlug!, title } })
+  const order = await makeOrder(ctx, { racer: racer.actor, shop: shop.actor, request: { shop: shop.shopSlug!, title } })
   await pastDeal(ctx.db, {
     requestId: order.requestId, orderId: order.orderId, shopUserId: shop.id, at: new Date(Date.now() - 100 * DAY), quoteAfterH: 5, orderStatus: 'completed',
     milestones: [{ dueDay: 10, submittedDay: 9, state: 'released' }, { dueDay: 40, submittedDay: 40, state: 'released' }, { dueDay: 70, submittedDay: 71, state: 'released' }],

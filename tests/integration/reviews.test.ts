@@ -32,7 +32,7 @@ const good = { rating: 4, aspects: { communication: 5, keptToQuote: 4, powerVsTa
 async function completedOrder(request: Parameters<typeof requestInput>[0] = {}) {
   const order = await makeOrder(t.ctx, { request })
   await pastDeal(t.db, {
-    requestId: order.requestId, orderId: order.orderId, shopUserId: order.builder.id, at: new Date(Date.now() - 100 * DAY), quoteAfterH: 5, orderStatus: 'completed',
+    requestId: order.requestId, orderId: order.orderId, shopUserId: order.shop.id, at: new Date(Date.now() - 100 * DAY), quoteAfterH: 5, orderStatus: 'completed',
     milestones: [{ dueDay: 10, submittedDay: 9, state: 'released' }, { dueDay: 40, submittedDay: 40, state: 'released' }, { dueDay: 70, submittedDay: 71, state: 'released' }],
   })
   return order
@@ -48,8 +48,8 @@ describe('writing a review', () => {
 
     const done = await completedOrder()
     expect((await http.post(`/api/orders/${done.orderId}/review`, good, jars.otherRacer)).status).toBe(404)
-    expect((await http.post(`/api/orders/${done.orderId}/review`, good, jars.otherBuilder)).status).toBe(404)
-    expect((await http.post(`/api/orders/${done.orderId}/review`, good, jars.builder)).status).toBe(403)
+    expect((await http.post(`/api/orders/${done.orderId}/review`, good, jars.otherShop)).status).toBe(404)
+    expect((await http.post(`/api/orders/${done.orderId}/review`, good, jars.shop)).status).toBe(403)
     expect((await http.post(`/api/orders/${done.orderId}/review`, good, admin)).status).toBe(403)
     const bad = await http.post(`/api/orders/${done.orderId}/review`, { ...good, rating: 6, body: 'short' }, jars.racer)
     expect(bad.status).toBe(400)
@@ -71,14 +71,14 @@ describe('writing a review', () => {
 
   it('is shown on the shop\'s page and on the build the request came from', async () => {
     const [build] = await t.db.select({ id: schema.builds.id, slug: schema.builds.slug }).from(schema.builds)
-      .where(and(eq(schema.builds.builderId, (await actorByEmail(t.db, PEOPLE.builder)).builderId!), eq(schema.builds.status, 'published'))).limit(1)
+      .where(and(eq(schema.builds.shopId, (await actorByEmail(t.db, PEOPLE.shop)).shopId!), eq(schema.builds.status, 'published'))).limit(1)
     const done = await completedOrder({ build: build!.slug })
-    const body = `From the build page: the heads flowed what the listing said (${done.orderId}).`
+    const body = `From the build page: the heads flowed what the build said (${done.orderId}).`
     const res = await http.post(`/api/orders/${done.orderId}/review`, { ...good, body }, jars.racer)
     expect(res.status).toBe(201)
     const onBuild = await api(`/api/builds/${build!.slug}/reviews`)
     expect(onBuild.body.reviews.map((r: { body: string }) => r.body)).toContain(body)
-    const onShop = await api(`/api/builders/${PEOPLE.builderSlug}/reviews`)
+    const onShop = await api(`/api/builders/${PEOPLE.shopSlug}/reviews`)
     const mine = onShop.body.reviews.find((r: { id: number }) => r.id === res.body.id)
     expect(mine.build.slug).toBe(build!.slug)
     expect(mine.author).toBe('Jonah')
@@ -105,14 +105,14 @@ describe('the shop\'s answer and hiding', () => {
   it('lets the reviewed shop answer once, publicly; no one else answers', async () => {
     const done = await completedOrder()
     const { body: { id } } = await http.post(`/api/orders/${done.orderId}/review`, good, jars.racer)
-    expect((await http.post(`/api/reviews/${id}/answer`, { body: 'Not ours to answer.' }, jars.otherBuilder)).status).toBe(403)
+    expect((await http.post(`/api/reviews/${id}/answer`, { body: 'Not ours to answer.' }, jars.otherShop)).status).toBe(403)
     expect((await http.post(`/api/reviews/${id}/answer`, { body: 'The racer answering.' }, jars.racer)).status).toBe(403)
-    expect((await http.post(`/api/reviews/${id}/answer`, { body: '' }, jars.builder)).status).toBe(400)
+    expect((await http.post(`/api/reviews/${id}/answer`, { body: '' }, jars.shop)).status).toBe(400)
     const answer = `Thanks, it was a good build to do (${id}).`
-    expect((await http.post(`/api/reviews/${id}/answer`, { body: answer }, jars.builder)).status).toBe(200)
-    const second = await http.post(`/api/reviews/${id}/answer`, { body: 'A second answer.' }, jars.builder)
+    expect((await http.post(`/api/reviews/${id}/answer`, { body: answer }, jars.shop)).status).toBe(200)
+    const second = await http.post(`/api/reviews/${id}/answer`, { body: 'A second answer.' }, jars.shop)
     expect(second.status).toBe(409)
-    const shown = (await api(`/api/builders/${PEOPLE.builderSlug}/reviews`)).body.reviews.find((r: { id: number }) => r.id === id)
+    const shown = (await api(`/api/builders/${PEOPLE.shopSlug}/reviews`)).body.reviews.find((r: { id: number }) => r.id === id)
     expect(shown.answer.body).toBe(answer)
   })
 
@@ -121,14 +121,14 @@ describe('the shop\'s answer and hiding', () => {
     const { body: { id } } = await http.post(`/api/orders/${done.orderId}/review`, good, jars.racer)
     const audits = async () => (await t.db.select().from(schema.auditLog).where(and(eq(schema.auditLog.entityType, 'review'), eq(schema.auditLog.entityId, id))))
     expect((await http.post(`/api/admin/reviews/${id}/hide`, { reason: 'short' }, admin)).status).toBe(400)
-    expect((await http.post(`/api/admin/reviews/${id}/hide`, { reason: 'Names a person who is not a party.' }, jars.builder)).status).toBe(403)
+    expect((await http.post(`/api/admin/reviews/${id}/hide`, { reason: 'Names a person who is not a party.' }, jars.shop)).status).toBe(403)
     expect(await audits()).toEqual([])
-    const before = (await api(`/api/builders/${PEOPLE.builderSlug}/reviews`)).body
+    const before = (await api(`/api/builders/${PEOPLE.shopSlug}/reviews`)).body
     const reason = 'It names a mechanic who is not a party to the deal.'
     expect((await http.post(`/api/admin/reviews/${id}/hide`, { reason }, admin)).status).toBe(200)
     const rows = await audits()
     expect(rows.map(r => [r.action, r.note])).toEqual([['review.hide', reason]])
-    const after = (await api(`/api/builders/${PEOPLE.builderSlug}/reviews`)).body
+    const after = (await api(`/api/builders/${PEOPLE.shopSlug}/reviews`)).body
     expect(after.reviews.map((r: { id: number }) => r.id)).not.toContain(id)
     expect(after.hiddenCount).toBe(before.hiddenCount + 1)
     expect((await http.post(`/api/admin/reviews/${id}/hide`, { reason }, admin)).status).toBe(409)
@@ -141,7 +141,7 @@ describe('the shop\'s answer and hiding', () => {
     const racer = await actorByEmail(t.db, PEOPLE.racer)
     const ratings = [5, 2, 4]
     for (const [i, rating] of ratings.entries()) {
-      const order = await makeOrder(t.ctx, { builder: shop, racer, request: { builder: owner.shopSlug! } })
+      const order = await makeOrder(t.ctx, { shop: shop, racer, request: { shop: owner.shopSlug! } })
       await pastDeal(t.db, { requestId: order.requestId, orderId: order.orderId, shopUserId: shop.id, at: new Date(Date.now() - 50 * DAY), quoteAfterH: 1, orderStatus: 'completed', milestones: [{ dueDay: 5, submittedDay: 5, state: 'released' }] })
       expect((await http.post(`/api/orders/${order.orderId}/review`, { ...good, rating }, jars.racer)).status).toBe(201)
       const { summary } = (await api(`/api/builders/${owner.shopSlug}/reviews`)).body
@@ -167,9 +167,9 @@ describe('the track record, against a hand-counted fixture of deals', () => {
     const account = await makeAccount({ role: 'builder' })
     slug = account.shopSlug!
     owner = await actorByEmail(t.db, account.email)
-    shopId = owner.builderId!
+    shopId = owner.shopId!
     const racer = await actorByEmail(t.db, PEOPLE.racer)
-    const open = (title: string) => makeOrder(t.ctx, { builder: owner, racer, request: { builder: slug, title } })
+    const open = (title: string) => makeOrder(t.ctx, { shop: owner, racer, request: { shop: slug, title } })
     const at = (daysAgo: number) => new Date(Date.now() - daysAgo * DAY)
     // A: first reply after 2 h, quote after 10 h; milestones on time (day 9 of 10), on time (day 30 of 30), late (63 of 60) with the guarantee met.
     const a = await open('Fixture A')
@@ -188,7 +188,7 @@ describe('the track record, against a hand-counted fixture of deals', () => {
       { dueDay: 10, submittedDay: 5, disputedDay: 7, state: 'refunded' },
     ] })
     // D: a request the shop never answered.
-    await createRequest(t.ctx, racer, requestInput({ builder: slug, title: 'Fixture D' }))
+    await createRequest(t.ctx, racer, requestInput({ shop: slug, title: 'Fixture D' }))
   })
 
   const expected = {
@@ -229,7 +229,7 @@ describe('the track record, against a hand-counted fixture of deals', () => {
   it('is recomputed when a deal changes state', async () => {
     const before = (await api(`/api/builders/${slug}/record`)).body.record
     const racer = await actorByEmail(t.db, PEOPLE.racer)
-    const e = await makeOrder(t.ctx, { builder: owner, racer, request: { builder: slug, title: 'Fixture E' } })
+    const e = await makeOrder(t.ctx, { shop: owner, racer, request: { shop: slug, title: 'Fixture E' } })
     await pastDeal(t.db, { requestId: e.requestId, orderId: e.orderId, shopUserId: owner.id, at: new Date(Date.now() - 20 * DAY), quoteAfterH: 6, orderStatus: 'completed', milestones: [{ dueDay: 10, submittedDay: 10, state: 'released' }] })
     const after = (await api(`/api/builders/${slug}/record`)).body.record
     expect(after.orders.completed).toBe(before.orders.completed + 1)

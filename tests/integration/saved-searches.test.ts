@@ -51,7 +51,7 @@ const announcementsFor = (buildId: number, searchIds: number[]) => ctx.db.select
 const outboxTo = async (email: string) => (await ctx.db.select().from(schema.mailOutbox).where(eq(schema.mailOutbox.toAddress, email)))
   .filter(m => m.dedupeKey?.startsWith('saved-search:'))
 
-describe('saving, listing, changing and deleting a search', () => {
+describe('saving, build, changing and deleting a search', () => {
   it('saves the filters as the search schema reads them, counts the matches as GET /api/search does, renames, switches e-mail and deletes', async () => {
     const racer = await person()
     // The page sends its URL parameters as text; they are stored as the validated values.
@@ -157,14 +157,14 @@ describe('saving, listing, changing and deleting a search', () => {
 })
 
 describe('announcing a newly verified build', () => {
-  /** A published listing awaiting its first check, with a word of its own in the title. */
+  /** A published build awaiting its first check, with a word of its own in the title. */
   async function probeBuild(shopId?: number) {
     const tag = `zq${randomBytes(3).toString('hex')}`
     const build = await makeBuildAwaitingCheck(ctx.db, { title: `Probe ${tag} stroker`, shopId })
     const [row] = await ctx.db.select().from(schema.builds).where(eq(schema.builds.id, build.buildId))
     const ci = displacementCi(row!.boreIn!, row!.strokeIn!, row!.cylinders!)
-    const [shop] = await ctx.db.select().from(schema.builderProfiles).where(eq(schema.builderProfiles.id, row!.builderId))
-    return { ...build, tag, ci, aspiration: row!.aspiration!, shopName: shop!.shopName }
+    const [shopRow] = await ctx.db.select().from(schema.shops).where(eq(schema.shops.id, row!.shopId))
+    return { ...build, tag, ci, aspiration: row!.aspiration!, shopName: shopRow!.shopName }
   }
 
   it('e-mails each matching saver once with the build\'s link, records the announcement, skips a non-match, and a second verified pull sends nothing more', async () => {
@@ -208,7 +208,7 @@ describe('announcing a newly verified build', () => {
     expect(mail.html).toContain(`/builds/${build.slug}"`)
     expect(mail.html).toContain('Manage saved searches')
 
-    // The listing now counts among the saver's matches.
+    // The build now counts among the saver's matches.
     const listed = await call(saver.jar, 'GET', '/api/me/searches')
     expect(listed.body.searches[0].matches).toBe(1)
 
@@ -221,19 +221,19 @@ describe('announcing a newly verified build', () => {
   })
 
   it('never announces a shop\'s own build to its owner, nor a build to a search saved after it was verified', async () => {
-    const builder = await person('builder')
-    const [shop] = await ctx.db.select().from(schema.builderProfiles).where(eq(schema.builderProfiles.slug, builder.shopSlug!))
-    const build = await probeBuild(shop!.id)
+    const shop = await person('builder')
+    const [shopRow] = await ctx.db.select().from(schema.shops).where(eq(schema.shops.slug, shop.shopSlug!))
+    const build = await probeBuild(shopRow!.id)
     const racer = await person()
-    const own = await save(builder, 'My own probe', { q: build.tag })
+    const own = await save(shop, 'My own probe', { q: build.tag })
     const theirs = await save(racer, 'A probe', { q: build.tag })
     expect([own.status, theirs.status]).toEqual([201, 201])
     expect((await approve(build.pullId)).status).toBe(200)
     const rows = await announcementsFor(build.buildId, [own.body.id, theirs.body.id])
     expect(rows.map(r => r.savedSearchId)).toEqual([theirs.body.id])
-    expect(await outboxTo(builder.email)).toEqual([])
+    expect(await outboxTo(shop.email)).toEqual([])
 
-    // Saved once the build was already a verified listing: it was among the results when saved, so it is not new.
+    // Saved once the build was already a verified build: it was among the results when saved, so it is not new.
     const late = await person()
     const lateSearch = await save(late, 'Late probe', { q: build.tag })
     expect(lateSearch.body.matches).toBe(1)

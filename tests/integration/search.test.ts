@@ -14,7 +14,7 @@ beforeAll(async () => {
     if ((await api('/api/search?perPage=1')).body?.total > 0) break
     await new Promise(r => setTimeout(r, 200))
   }
-  // Other files' fixtures write listings straight to MariaDB, behind the index; the consistency check
+  // Other files' fixtures write builds straight to MariaDB, behind the index; the consistency check
   // (which also runs on a timer in the app) brings the index level with the table before counting.
   expect((await check()).status).toBe(200)
 })
@@ -22,7 +22,7 @@ afterAll(async () => {
   await ctx.close()
 })
 
-/** The test-mode hook the listing editor's writes stand in for (admins only). */
+/** The test-mode hook the build editor's writes stand in for (admins only). */
 const sync = (buildId: number) => api('/api/testing/search/sync', { method: 'POST', headers: { 'content-type': 'application/json', 'cookie': admin.header() }, body: JSON.stringify({ buildId }) })
 const check = () => api('/api/testing/search/check', { method: 'POST', headers: { cookie: admin.header() } })
 const published = () => ctx.db.select().from(schema.builds).where(eq(schema.builds.status, 'published'))
@@ -34,10 +34,10 @@ describe('GET /api/search over the seeded builds', () => {
     expect(res.status).toBe(200)
     expect(res.body.total).toBe(rows.length)
     const hit = res.body.hits[0]
-    for (const key of ['slug', 'title', 'builder', 'displacementCi', 'peakHp', 'peakHpRpm', 'peakTq', 'peakTqRpm', 'aspiration', 'fuel', 'verified', 'priceCents']) {
+    for (const key of ['slug', 'title', 'shop', 'displacementCi', 'peakHp', 'peakHpRpm', 'peakTq', 'peakTqRpm', 'aspiration', 'fuel', 'verified', 'priceCents']) {
       expect(hit).toHaveProperty(key)
     }
-    expect(hit.builder).toEqual({ slug: expect.any(String), name: expect.any(String) })
+    expect(hit.shop).toEqual({ slug: expect.any(String), name: expect.any(String) })
   })
 
   it('filters by displacement computed from bore, stroke and cylinders', async () => {
@@ -206,12 +206,12 @@ describe('GET /api/builders/for-target', () => {
     const res = await api(`/api/builders/for-target?ci=${ci.toFixed(1)}&hp=${pick.peakHp}&aspiration=${pick.aspiration}`)
     expect(res.status).toBe(200)
     expect(res.body.shops.length).toBeGreaterThan(0)
-    const [shop] = await ctx.db.select().from(schema.builderProfiles).where(eq(schema.builderProfiles.id, pick.builderId))
-    expect(res.body.shops.map((s: { builder: { slug: string } }) => s.builder.slug)).toContain(shop!.slug)
+    const [shop] = await ctx.db.select().from(schema.shops).where(eq(schema.shops.id, pick.shopId))
+    expect(res.body.shops.map((s: { shop: { slug: string } }) => s.shop.slug)).toContain(shop!.slug)
     const scores = res.body.shops.map((s: { score: number }) => s.score)
     expect(scores).toEqual([...scores].sort((a: number, b: number) => b - a))
     const near = rows.filter(r => r.aspiration === pick.aspiration && Math.abs(displacementCi(r.boreIn!, r.strokeIn!, r.cylinders!) - ci) <= 0.1 * ci && Math.abs(r.peakHp! - pick.peakHp!) <= 0.15 * pick.peakHp!)
-    const shopIds = await ctx.db.select().from(schema.builderProfiles).where(inArray(schema.builderProfiles.id, near.map(r => r.builderId)))
+    const shopIds = await ctx.db.select().from(schema.shops).where(inArray(schema.shops.id, near.map(r => r.shopId)))
     expect(res.body.shops.length).toBe(Math.min(5, shopIds.length))
   })
 

@@ -12,7 +12,7 @@ import { createFeedReader, feedHead } from '../../server/services/search-feed'
 import { as, makeAccount, signIn, type CookieJar } from '../support/auth'
 import { api, schema, testDb } from '../support/context'
 import { makeBuildAwaitingCheck } from '../support/fixtures'
-import { buildIds, removeBuildsSince } from '../support/listings'
+import { buildIds, removeBuildsSince } from '../support/builds'
 
 let ctx: Awaited<ReturnType<typeof testDb>>
 /** A pool of its own: another server instance as far as MariaDB can tell. */
@@ -38,8 +38,8 @@ const rename = (jar: CookieJar, slug: string, body: unknown) =>
 const ofShop = (polled: number[], ids: number[]) => polled.filter(id => ids.includes(id)).sort((a, b) => a - b)
 
 async function shopWithBuilds(count: number) {
-  const account = await makeAccount({ role: 'builder', name: 'Renaming builder' })
-  const [shop] = await ctx.db.select().from(schema.builderProfiles).where(eq(schema.builderProfiles.slug, account.shopSlug!))
+  const account = await makeAccount({ role: 'builder', name: 'Renaming shop' })
+  const [shop] = await ctx.db.select().from(schema.shops).where(eq(schema.shops.slug, account.shopSlug!))
   const builds = []
   for (let i = 0; i < count; i++) builds.push(await makeBuildAwaitingCheck(ctx.db, { shopId: shop!.id, title: `Renamed shop build ${randomBytes(3).toString('hex')}` }))
   const { code, jar } = await signIn('password', { email: account.email, password: account.password })
@@ -64,26 +64,26 @@ describe('a shop\'s rename in the change feed', () => {
     const found = await api(`/api/search?q=${encodeURIComponent(shop.builds[0]!.title)}&perPage=5`)
     expect(found.status).toBe(200)
     const hit = found.body.hits.find((h: { slug: string }) => h.slug === shop.builds[0]!.slug)
-    expect(hit?.builder.name).toBe(name)
+    expect(hit?.shop.name).toBe(name)
   })
 
   it('writes nothing to the feed for a refused or a bad rename, and leaves the name as it was', async () => {
     const shop = await shopWithBuilds(1)
     const stranger = await shopWithBuilds(0)
-    const [before] = await ctx.db.select({ name: schema.builderProfiles.shopName }).from(schema.builderProfiles).where(eq(schema.builderProfiles.id, shop.shopId))
+    const [before] = await ctx.db.select({ name: schema.shops.shopName }).from(schema.shops).where(eq(schema.shops.id, shop.shopId))
     const reader = createFeedReader(other.db, await feedHead(ctx.db))
     expect((await rename(stranger.jar, shop.slug, { shopName: 'Not Their Shop' })).status).toBe(403)
     expect((await rename(shop.jar, shop.slug, { shopName: '' })).status).toBe(400)
     expect((await rename(shop.jar, shop.slug, {})).status).toBe(400)
     expect(ofShop(await reader.poll(), [shop.builds[0]!.buildId])).toEqual([])
-    const [after] = await ctx.db.select({ name: schema.builderProfiles.shopName }).from(schema.builderProfiles).where(eq(schema.builderProfiles.id, shop.shopId))
+    const [after] = await ctx.db.select({ name: schema.shops.shopName }).from(schema.shops).where(eq(schema.shops.id, shop.shopId))
     expect(after!.name).toBe(before!.name)
   })
 
   it('a shop with no builds renames too (no feed rows to write)', async () => {
     const shop = await shopWithBuilds(0)
     expect((await rename(shop.jar, shop.slug, { region: 'Far Valley' })).status).toBe(200)
-    const [row] = await ctx.db.select({ region: schema.builderProfiles.region }).from(schema.builderProfiles).where(eq(schema.builderProfiles.id, shop.shopId))
+    const [row] = await ctx.db.select({ region: schema.shops.region }).from(schema.shops).where(eq(schema.shops.id, shop.shopId))
     expect(row!.region).toBe('Far Valley')
   })
 })

@@ -15,8 +15,8 @@ const askLink = (email: string, address = freshAddress()) => api('/api/account/s
 
 describe('password sign-in through Auth.js', () => {
   it('gives a session that carries id, name and role, and sign-out ends it', async () => {
-    const [row] = await ctx.db.select().from(schema.users).where(eq(schema.users.email, PERSONAS.builder))
-    const { code, jar } = await signIn('password', { email: PERSONAS.builder, password: DEMO_PASSWORD })
+    const [row] = await ctx.db.select().from(schema.users).where(eq(schema.users.email, PERSONAS.shop))
+    const { code, jar } = await signIn('password', { email: PERSONAS.shop, password: DEMO_PASSWORD })
     expect(code).toBeNull()
     expect(jar.has('authjs.session-token')).toBe(true)
     expect((await session(jar))?.user).toEqual({ id: row!.id, name: row!.name, email: row!.email, role: 'builder', units: row!.unitPreference })
@@ -127,12 +127,12 @@ describe('password sign-in through Auth.js', () => {
 
 describe('e-mailed sign-in links', () => {
   it('answers the same for a registered and an unknown address, and mails only the registered one', async () => {
-    const known = await askLink(PERSONAS.otherBuilder)
+    const known = await askLink(PERSONAS.otherShop)
     const unknown = await askLink('never-registered@example.test')
     expect(known.status).toBe(202)
     expect(unknown.status).toBe(202)
-    expect(known.body.message.replace(PERSONAS.otherBuilder, '<e-mail>')).toBe(unknown.body.message.replace('never-registered@example.test', '<e-mail>'))
-    const mail = await waitForMail(PERSONAS.otherBuilder, m => m.subject.includes('sign-in link'))
+    expect(known.body.message.replace(PERSONAS.otherShop, '<e-mail>')).toBe(unknown.body.message.replace('never-registered@example.test', '<e-mail>'))
+    const mail = await waitForMail(PERSONAS.otherShop, m => m.subject.includes('sign-in link'))
     expect(mail.text).toContain('/sign-in/link?token=')
     expect(await mailFor('never-registered@example.test')).toEqual([])
   })

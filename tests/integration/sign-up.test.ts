@@ -50,22 +50,22 @@ describe('POST /api/account/sign-up', () => {
     expect((await signIn('password', { email, password: 'long enough words' })).code).toBeNull()
   })
 
-  it('makes a builder and the shop profile together, with a unique slug from the shop name', async () => {
-    const first = uniqueEmail('builder')
-    const second = uniqueEmail('builder')
+  it('makes a shop and the shop profile together, with a unique slug from the shop name', async () => {
+    const first = uniqueEmail('shop')
+    const second = uniqueEmail('shop')
     const suffix = Date.now().toString(36)
     const shopName = `Saltmarsh Cylinder & Head ${suffix}`
     expect((await signUp({ role: 'builder', name: 'Ottilie Brand', email: first, password: 'long enough words', shopName, region: 'Tidewater' })).status).toBe(202)
     expect((await signUp({ role: 'builder', name: 'Casimir Vell', email: second, password: 'long enough words', shopName, region: 'Uplands' })).status).toBe(202)
 
-    const shops = await Promise.all([first, second].map(async (email) => {
+    const shopRows = await Promise.all([first, second].map(async (email) => {
       const user = await userByEmail(email)
       expect(user!.role).toBe('builder')
-      return (await ctx.db.select().from(schema.builderProfiles).where(eq(schema.builderProfiles.userId, user!.id)))[0]!
+      return (await ctx.db.select().from(schema.shops).where(eq(schema.shops.userId, user!.id)))[0]!
     }))
-    expect(shops[0]!.slug).toBe(`saltmarsh-cylinder-and-head-${suffix}`)
-    expect(shops[1]!.slug).toBe(`saltmarsh-cylinder-and-head-${suffix}-2`)
-    expect(shops.map(s => s.region)).toEqual(['Tidewater', 'Uplands'])
+    expect(shopRows[0]!.slug).toBe(`saltmarsh-cylinder-and-head-${suffix}`)
+    expect(shopRows[1]!.slug).toBe(`saltmarsh-cylinder-and-head-${suffix}-2`)
+    expect(shopRows.map(s => s.region)).toEqual(['Tidewater', 'Uplands'])
   })
 
   it('answers an e-mail that is already registered exactly like a new one, and tells only the inbox', async () => {

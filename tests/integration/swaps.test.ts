@@ -2,7 +2,7 @@ import { and, eq } from 'drizzle-orm'
 import { quantileSeq } from 'mathjs'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { displacementCi } from '../../shared/engine/geometry'
-import type { BuildCurves } from '../../shared/types/listings'
+import type { BuildCurves } from '../../shared/types/builds'
 import type { SwapReport } from '../../server/services/swaps'
 import { api, schema, testDb } from '../support/context'
 

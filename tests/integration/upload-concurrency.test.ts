@@ -3,11 +3,11 @@
 // the rows and the stored files agree afterwards (no row without its file, no file without its row).
 import { eq, inArray } from 'drizzle-orm'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { MAX_PHOTOS } from '../../server/services/listing-photos'
+import { MAX_PHOTOS } from '../../server/services/build-photos'
 import { headlinePull } from '../../shared/pulls/headline'
 import { freshAddress, makeAccount, signedIn, type CookieJar } from '../support/auth'
 import { api, schema, testDb } from '../support/context'
-import { buildIds, COMPLETE_COMBINATION, inventedPullCsv, pullMeta, removeBuildsSince, storedKeys } from '../support/listings'
+import { buildIds, COMPLETE_COMBINATION, inventedPullCsv, pullMeta, removeBuildsSince, storedKeys } from '../support/builds'
 
 let ctx: Awaited<ReturnType<typeof testDb>>
 let seeded: Set<number>
@@ -15,7 +15,7 @@ let jar: CookieJar
 beforeAll(async () => {
   ctx = await testDb()
   seeded = await buildIds(ctx.db)
-  // A shop of its own, so no other test's listings or limits are touched.
+  // A shop of its own, so no other test's builds or limits are touched.
   const shop = await makeAccount({ role: 'builder' })
   jar = await signedIn(shop.email, shop.password)
 })

@@ -1,4 +1,4 @@
-// The two kinds of upload, a listing photo (multipart form) and a deal file (raw body), over HTTP
+// The two kinds of upload, a build photo (multipart form) and a deal file (raw body), over HTTP
 // against the built app and the real MariaDB: the same fault answers the same status from both, a
 // refused file leaves nothing stored, and a file name is cleaned by the same rule.
 import { eq } from 'drizzle-orm'
@@ -6,7 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { UPLOAD_LIMITS } from '../../shared/uploads'
 import { freshAddress, makeAccount, signedIn, type CookieJar } from '../support/auth'
 import { api, schema, testDb } from '../support/context'
-import { buildIds, removeBuildsSince, storedKeys } from '../support/listings'
+import { buildIds, removeBuildsSince, storedKeys } from '../support/builds'
 
 let ctx: Awaited<ReturnType<typeof testDb>>
 let seeded: Set<number>
@@ -43,7 +43,7 @@ function asDealFile(bytes: Buffer, name: string) {
   return api(`/api/attachments?kind=photo&name=${encodeURIComponent(name)}`, withJar({ method: 'POST', headers: { 'content-type': 'application/octet-stream' }, body: new Uint8Array(bytes) }))
 }
 
-describe('a listing photo and a deal file answer alike', () => {
+describe('a build photo and a deal file answer alike', () => {
   it.each([
     ['an empty file', Buffer.alloc(0), 422],
     ['a file over the photo limit', Buffer.concat([PNG, Buffer.alloc(UPLOAD_LIMITS.photo + 1024)]), 413],

@@ -75,7 +75,7 @@ describe('evidence decisions (service, real MariaDB)', () => {
     expect(audit[0]!.after).not.toHaveProperty('buildFigures')
   })
 
-  it('rejecting the only pull of an unverified listing takes its headline figures off it', async () => {
+  it('rejecting the only pull of an unverified build takes its headline figures off it', async () => {
     const admin = await seededUser(ctx.db, 'admin')
     const { pullId, buildId } = await makeBuildAwaitingCheck(ctx.db)
     const before = await buildRow(buildId)

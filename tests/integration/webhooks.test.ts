@@ -193,7 +193,7 @@ describe('out of order', () => {
 
 describe('a late second payment', () => {
   it('refunds the second payment without touching the first: the first row keeps its payment, the refund points at the second, the milestone stays funded and pays out from the first', async () => {
-    const { racer, builder, milestones, orderId } = await makeOrder(ctx)
+    const { racer, shop, milestones, orderId } = await makeOrder(ctx)
     const m = milestones[0]!
     const { sessionId: firstSession } = await fundMilestone(ctx, racer, m.id)
     const [first] = await ctx.db.select().from(schema.payments).where(eq(schema.payments.stripeCheckoutSessionId, firstSession))
@@ -230,7 +230,7 @@ describe('a late second payment', () => {
     expect(await chargeOf(secondIntent)).toMatchObject({ id: secondCharge, refunded: true, amount_refunded: m.amountCents })
 
     // The milestone carries on: the payout is made from the first charge, the one that funds it.
-    await submitMilestone(ctx, builder, m.id, { notes: 'Parts ordered.', proofFileIds: [], deliveryPullId: null })
+    await submitMilestone(ctx, shop, m.id, { notes: 'Parts ordered.', proofFileIds: [], deliveryPullId: null })
     expect(await approveMilestone(ctx, racer, m.id)).toEqual({ released: true, problem: null })
     const transfer = (await ctx.db.select().from(schema.payments).where(eq(schema.payments.milestoneId, m.id))).find(r => r.kind === 'transfer')!
     expect((await ctx.stripe.transfers.retrieve(transfer.stripeTransferId!)).source_transaction).toBe(first!.stripeChargeId)

@@ -1,13 +1,13 @@
 import { readdirSync, statSync } from 'node:fs'
 import { join, relative, resolve } from 'node:path'
 
-/** Who the role × route matrix acts as: nobody, and one demo account per role (two builders, for owned rows). */
-export const PERSONA_NAMES = ['anonymous', 'racer', 'builder', 'otherBuilder', 'admin'] as const
+/** Who the role × route matrix acts as: nobody, and one demo account per role (two shops, for owned rows). */
+export const PERSONA_NAMES = ['anonymous', 'racer', 'shop', 'otherShop', 'admin'] as const
 export type PersonaName = typeof PERSONA_NAMES[number]
 
 /**
  * One row of the matrix: a request with sample parameters and the status each persona must get.
- * `otherBuilder` defaults to `builder`'s answer; set it where the builder owns the row.
+ * `otherShop` defaults to `shop`'s answer; set it where the shop owns the row.
  * A write that anonymous visitors may make (sign-up, Auth.js's own routes) names why in `publicWrite`.
  */
 export interface AccessEntry {
@@ -16,7 +16,7 @@ export interface AccessEntry {
   body?: unknown
   form?: Record<string, string>
   publicWrite?: string
-  expect: { anonymous: number, racer: number, builder: number, otherBuilder?: number, admin: number }
+  expect: { anonymous: number, racer: number, shop: number, otherShop?: number, admin: number }
 }
 
 /** Helps the entry files type their rows. */

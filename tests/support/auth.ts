@@ -6,11 +6,11 @@ import type { CaughtMail } from './mail-catcher'
 /** The demo accounts the access tests act as (scripts/lib/demo-data.ts). */
 export const PERSONAS = {
   racer: 'jonah@racer.test',
-  builder: 'marisol@harrow-creek.test',
-  otherBuilder: 'gideon@ninefold.test',
+  shop: 'marisol@harrow-creek.test',
+  otherShop: 'gideon@ninefold.test',
   admin: 'admin@torquewright.test',
 } as const
-export const BUILDER_SHOP = 'harrow-creek-engine-works'
+export const SHOP = 'harrow-creek-engine-works'
 export const OTHER_SHOP = 'ninefold-machine'
 export { DEMO_PASSWORD }
 
@@ -113,7 +113,7 @@ const hashes = new Map<string, Promise<string>>()
 
 /**
  * An account written straight into the test database (for tests about what happens after sign-up):
- * verified unless told otherwise, with a builder profile for builders.
+ * verified unless told otherwise, with a shop for shops.
  */
 export async function makeAccount(opts: { role: 'racer' | 'builder' | 'admin', password?: string, verified?: boolean, name?: string }) {
   const { hash } = await import('@node-rs/argon2')
@@ -129,7 +129,7 @@ export async function makeAccount(opts: { role: 'racer' | 'builder' | 'admin', p
     let shopSlug: string | null = null
     if (opts.role === 'builder') {
       shopSlug = `test-shop-${row!.id}`
-      await db.insert(schema.builderProfiles).values({ userId: row!.id, shopName: `Test Shop ${row!.id}`, slug: shopSlug, region: 'Test Valley', bio: '', specialties: [], capabilities: [] })
+      await db.insert(schema.shops).values({ userId: row!.id, shopName: `Test Shop ${row!.id}`, slug: shopSlug, region: 'Test Valley', bio: '', specialties: [], capabilities: [] })
     }
     return { id: row!.id, email, password, shopSlug }
   }

@@ -42,9 +42,9 @@ export async function actorByEmail(db: Database, email: string): Promise<DealAct
 export const PEOPLE = {
   racer: 'jonah@racer.test',
   otherRacer: 'alma@racer.test',
-  builder: 'marisol@harrow-creek.test',
-  builderSlug: 'harrow-creek-engine-works',
-  otherBuilder: 'gideon@ninefold.test',
+  shop: 'marisol@harrow-creek.test',
+  shopSlug: 'harrow-creek-engine-works',
+  otherShop: 'gideon@ninefold.test',
   admin: 'admin@torquewright.test',
 } as const
 
@@ -52,7 +52,7 @@ const inDays = (n: number) => new Date(Date.now() + n * 86_400_000).toISOString(
 
 export function requestInput(overrides: Partial<QuoteRequestInput> = {}): QuoteRequestInput {
   return quoteRequestSchema.parse({
-    builder: PEOPLE.builderSlug,
+    shop: PEOPLE.shopSlug,
     title: 'Bracket engine, 10.5 class',
     targetHp: 640,
     targetTq: 560,
@@ -94,14 +94,14 @@ export function quoteInput(overrides: Partial<QuoteInput> = {}): QuoteInput {
 }
 
 /** A request from the racer, quoted by the shop and accepted: an order with three milestones awaiting payment. */
-export async function makeOrder(ctx: DealContext, opts: { racer?: DealActor, builder?: DealActor, request?: Partial<QuoteRequestInput>, quote?: Partial<QuoteInput> } = {}) {
+export async function makeOrder(ctx: DealContext, opts: { racer?: DealActor, shop?: DealActor, request?: Partial<QuoteRequestInput>, quote?: Partial<QuoteInput> } = {}) {
   const racer = opts.racer ?? await actorByEmail(ctx.db, PEOPLE.racer)
-  const builder = opts.builder ?? await actorByEmail(ctx.db, PEOPLE.builder)
+  const shop = opts.shop ?? await actorByEmail(ctx.db, PEOPLE.shop)
   const { id: requestId } = await createRequest(ctx, racer, requestInput(opts.request))
-  const { quoteId, revision } = await sendQuote(ctx, builder, requestId, quoteInput(opts.quote))
+  const { quoteId, revision } = await sendQuote(ctx, shop, requestId, quoteInput(opts.quote))
   const { orderId } = await acceptQuote(ctx, racer, quoteId, revision)
   const list = await ctx.db.select().from(schema.milestones).where(eq(schema.milestones.orderId, orderId)).orderBy(schema.milestones.position)
-  return { racer, builder, requestId, quoteId, orderId, milestones: list }
+  return { racer, shop, requestId, quoteId, orderId, milestones: list }
 }
 
 export async function milestoneRow(db: Database, id: number) {
@@ -133,21 +133,21 @@ export async function makeDispute(ctx: DealContext, opts: { title?: string, reas
   const message = `Please share the parts invoices before the block goes out (${tag}).`
   await postMessage(ctx, order.racer, order.requestId, { body: message, attachmentIds: [] })
   await fundMilestone(ctx, order.racer, milestone.id)
-  const shop = await signedIn(PEOPLE.builder)
+  const shopRow = await signedIn(PEOPLE.shop)
   const pdf = new Uint8Array(Buffer.from(`%PDF-1.4\n% parts invoice ${tag}\n1 0 obj <<>> endobj\ntrailer <<>>\n%%EOF\n`))
-  const upload = await api(`/api/attachments?kind=proof&name=parts-invoice-${tag}.pdf`, { method: 'POST', headers: as(shop, freshAddress(), { 'content-type': 'application/octet-stream' }), body: pdf })
+  const upload = await api(`/api/attachments?kind=proof&name=parts-invoice-${tag}.pdf`, { method: 'POST', headers: as(shopRow, freshAddress(), { 'content-type': 'application/octet-stream' }), body: pdf })
   if (upload.status !== 201) throw new Error(`the proof upload answered ${upload.status}: ${JSON.stringify(upload.body)}`)
   const notes = `Parts ordered from three suppliers; the invoice is attached (${tag}).`
-  await submitMilestone(ctx, order.builder, milestone.id, { notes, proofFileIds: [upload.body.id as number], deliveryPullId: null })
+  await submitMilestone(ctx, order.shop, milestone.id, { notes, proofFileIds: [upload.body.id as number], deliveryPullId: null })
   const reason = opts.reason ?? `The invoice lists a cast crank, the quote says forged (${tag}).`
   await disputeMilestone(ctx, order.racer, milestone.id, reason)
   return { ...order, title, milestone: await milestoneRow(ctx.db, milestone.id), proofFileId: upload.body.id as number, proofName: `parts-invoice-${tag}.pdf`, notes, reason, message }
 }
 
-export type DealParty = 'racer' | 'builder' | 'otherBuilder' | 'otherRacer'
+export type DealParty = 'racer' | 'shop' | 'otherShop' | 'otherRacer'
 
 /** Signed-in sessions of the seeded deal people, for route tests that act as each side and as strangers. */
-export async function signedInParties(who: readonly DealParty[] = ['racer', 'builder', 'otherBuilder', 'otherRacer']): Promise<Record<DealParty, CookieJar>> {
+export async function signedInParties(who: readonly DealParty[] = ['racer', 'shop', 'otherShop', 'otherRacer']): Promise<Record<DealParty, CookieJar>> {
   const jars = {} as Record<DealParty, CookieJar>
   for (const party of who) jars[party] = await signedIn(PEOPLE[party])
   return jars

@@ -44,7 +44,7 @@ export async function makeSubmittedPull(db: Db, buildSlug?: string) {
 }
 
 /**
- * A new published listing without the verified mark, with one submitted pull (a copy of a seeded
+ * A new published build without the verified mark, with one submitted pull (a copy of a seeded
  * verified build's first pull, its fingerprint left out so it matches no other build), owned by
  * `shopId` or by the seeded build's shop.
  */
@@ -53,14 +53,14 @@ export async function makeBuildAwaitingCheck(db: Db, opts: { shopId?: number, ti
     .where(and(eq(schema.builds.status, 'published'), eq(schema.builds.slug, 'harrow-362-na-race-gas-1')))
   const [sourcePull] = await db.select().from(schema.dynoPulls).where(eq(schema.dynoPulls.buildId, source!.id)).orderBy(asc(schema.dynoPulls.id)).limit(1)
   const tag = randomBytes(3).toString('hex')
-  const shopId = opts.shopId ?? source!.builderId
-  const [shop] = await db.select().from(schema.builderProfiles).where(eq(schema.builderProfiles.id, shopId))
+  const shopId = opts.shopId ?? source!.shopId
+  const [shop] = await db.select().from(schema.shops).where(eq(schema.shops.id, shopId))
   const { id: _id, createdAt: _c, updatedAt: _u, ...columns } = source!
   const title = opts.title ?? `Awaiting verification ${tag}`
   const slug = `awaiting-check-${tag}`
-  // Published long ago, so the test listings never lead the newest-first lists that other tests open.
-  const [build] = await db.insert(schema.builds).values({ ...columns, builderId: shopId, slug, title, publishedAt: new Date(Date.now() - 3 * 365 * 86_400_000), verifiedAt: null }).$returningId()
-  // A complete listing, parts list included, like every published one.
+  // Published long ago, so the test builds never lead the newest-first lists that other tests open.
+  const [build] = await db.insert(schema.builds).values({ ...columns, shopId: shopId, slug, title, publishedAt: new Date(Date.now() - 3 * 365 * 86_400_000), verifiedAt: null }).$returningId()
+  // A complete build, parts list included, like every published one.
   const parts = await db.select().from(schema.buildParts).where(eq(schema.buildParts.buildId, source!.id))
   if (parts.length) await db.insert(schema.buildParts).values(parts.map(({ id: _partId, ...p }) => ({ ...p, buildId: build!.id })))
   const fileId = await copyFile(db, sourcePull!.fileId, shop!.userId)
@@ -78,8 +78,8 @@ export async function seededUser(db: Db, role: 'racer' | 'builder' | 'admin') {
   return user!
 }
 
-/** The shop profile of a builder account. */
+/** The shop of a shop account. */
 export async function shopOf(db: Db, userId: number) {
-  const [shop] = await db.select().from(schema.builderProfiles).where(eq(schema.builderProfiles.userId, userId))
+  const [shop] = await db.select().from(schema.shops).where(eq(schema.shops.userId, userId))
   return shop!
 }

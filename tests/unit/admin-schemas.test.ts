@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { rejectEvidenceSchema, unpublishListingSchema } from '../../shared/schemas/admin'
+import { rejectEvidenceSchema, unpublishBuildSchema } from '../../shared/schemas/admin'
 import { hideReviewSchema } from '../../shared/schemas/reviews'
 
 const messageOf = (schema: { safeParse: (v: unknown) => { success: boolean, error?: { issues: { message: string }[] } } }, value: unknown) => {
@@ -9,9 +9,9 @@ const messageOf = (schema: { safeParse: (v: unknown) => { success: boolean, erro
 }
 
 describe('an admin reason speaks to whoever reads it', () => {
-  it('taking a listing down or refusing a pull tells the shop what to fix', () => {
-    const down = messageOf(unpublishListingSchema, { reason: 'too short' })
-    expect(down).toBe('Write why the listing comes down in a sentence or two (at least 10 characters), so the shop knows what to fix')
+  it('taking a build down or refusing a pull tells the shop what to fix', () => {
+    const down = messageOf(unpublishBuildSchema, { reason: 'too short' })
+    expect(down).toBe('Write why the build comes down in a sentence or two (at least 10 characters), so the shop knows what to fix')
     expect(messageOf(rejectEvidenceSchema, { reason: 'bad' })).toContain('so the shop knows what to fix')
   })
 
@@ -23,6 +23,6 @@ describe('an admin reason speaks to whoever reads it', () => {
 
   it('a reason of ten characters or more passes, trimmed', () => {
     expect(hideReviewSchema.parse({ reason: '  Names a private person.  ' }).reason).toBe('Names a private person.')
-    expect(unpublishListingSchema.parse({ reason: 'Evidence was withdrawn.' }).reason).toBe('Evidence was withdrawn.')
+    expect(unpublishBuildSchema.parse({ reason: 'Evidence was withdrawn.' }).reason).toBe('Evidence was withdrawn.')
   })
 })

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import { staticCompressionRatio } from '../../shared/engine'
-import { buildDraftPatch, buildPublishSchema, lineTotalCents, partsTotalCents, pullMetaSchema, REQUIRED_FOR_PUBLISH } from '../../shared/schemas/build'
+import { buildPatch, buildPublishSchema, lineTotalCents, partsTotalCents, pullMetaSchema, REQUIRED_FOR_PUBLISH } from '../../shared/schemas/build'
 
 // An invented, plausible small-block combination (values from memory of common practice).
 const complete = {
@@ -64,17 +64,17 @@ describe('the publish schema', () => {
 
 describe('the autosave patch', () => {
   it('takes any subset, with null clearing a field, and refuses unknown keys', () => {
-    expect(buildDraftPatch.safeParse({ boreIn: 4.03, strokeIn: null }).success).toBe(true)
-    expect(buildDraftPatch.safeParse({ displacementCi: 383 }).success).toBe(false)
+    expect(buildPatch.safeParse({ boreIn: 4.03, strokeIn: null }).success).toBe(true)
+    expect(buildPatch.safeParse({ displacementCi: 383 }).success).toBe(false)
   })
 
   it('checks each field it is given on its own', () => {
-    expect(paths(buildDraftPatch.safeParse({ cylinders: 8.5 }))).toEqual(['cylinders'])
+    expect(paths(buildPatch.safeParse({ cylinders: 8.5 }))).toEqual(['cylinders'])
   })
 
   it('checks parts rows: whole quantities and whole cents', () => {
-    expect(paths(buildDraftPatch.safeParse({ parts: [{ category: 'Heads', part: 'Ported heads', quantity: 1.5, unitPriceCents: 100 }] }))).toEqual(['parts.0.quantity'])
-    expect(paths(buildDraftPatch.safeParse({ parts: [{ category: 'Heads', part: 'Ported heads', quantity: 1, unitPriceCents: 99.5 }] }))).toEqual(['parts.0.unitPriceCents'])
+    expect(paths(buildPatch.safeParse({ parts: [{ category: 'Heads', part: 'Ported heads', quantity: 1.5, unitPriceCents: 100 }] }))).toEqual(['parts.0.quantity'])
+    expect(paths(buildPatch.safeParse({ parts: [{ category: 'Heads', part: 'Ported heads', quantity: 1, unitPriceCents: 99.5 }] }))).toEqual(['parts.0.unitPriceCents'])
   })
 })
 

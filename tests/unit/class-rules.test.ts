@@ -12,7 +12,7 @@ describe('class rules: the checker', () => {
     expect(classBreaks(r, { displacementCi: null, aspiration: null, fuel: null, peakHp: null })).toEqual([])
   })
 
-  it('names the displacement cap a build is over, rounding as the listing shows it', () => {
+  it('names the displacement cap a build is over, rounding as the build shows it', () => {
     expect(classBreaks(rules({ displacementCapCi: 410 }), { ...build, displacementCi: 410.4 })).toEqual([])
     expect(classBreaks(rules({ displacementCapCi: 410 }), { ...build, displacementCi: 427.2 }))
       .toEqual([{ rule: 'displacement', message: 'over the 410 ci cap (427 ci)' }])

@@ -16,16 +16,16 @@ describe('a quote\'s alternative combination', () => {
     expect(view.note).toBe('')
   })
 
-  it('takes the listing editor\'s bounds for bore and stroke, at both ends', () => {
+  it('takes the build editor\'s bounds for bore and stroke, at both ends', () => {
     for (const key of ['boreIn', 'strokeIn'] as const) {
-      const listing = combinationFields[key]
+      const build = combinationFields[key]
       for (const edge of [1.5, 6.5]) {
         expect(alternativeSchema.safeParse({ ...alternative, [key]: edge }).success).toBe(true)
-        expect(listing.safeParse(edge).success).toBe(true)
+        expect(build.safeParse(edge).success).toBe(true)
       }
       for (const outside of [1.49, 6.51, Number.NaN, Number.POSITIVE_INFINITY]) {
         expect(alternativeSchema.safeParse({ ...alternative, [key]: outside }).success).toBe(false)
-        expect(listing.safeParse(outside).success).toBe(false)
+        expect(build.safeParse(outside).success).toBe(false)
       }
     }
   })

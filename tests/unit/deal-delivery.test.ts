@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest'
 import { curveFingerprint } from '../../shared/engine/fingerprint'
 import { evaluateDelivery, minimumPower, type DeliveryInput } from '../../shared/deals/delivery'
 import { blockingMilestone, SETTLED_MILESTONE_STATES } from '../../shared/deals/constants'
-import { DISPLAY_MAX_POINTS } from '../../shared/listings/display-curve'
+import { DISPLAY_MAX_POINTS } from '../../shared/builds/display-curve'
 import { inventedPull } from './engine/helpers'
 
 // An invented delivery: 4.125 × 4.000 in, eight cylinders (427.6 ci), torque peaking at 560 lb·ft.
@@ -61,7 +61,7 @@ describe('evaluateDelivery', () => {
     expect(report.checks.find(c => c.id === 'duplicate-curve')?.outcome).toBe('fail')
   })
 
-  it('rejects a pull whose weather lies outside what the standard allows (a warning on a listing, a refusal here)', () => {
+  it('rejects a pull whose weather lies outside what the standard allows (a warning on a build, a refusal here)', () => {
     const report = evaluateDelivery({ ...base, weather: { baroInHg: 24.0, airTempF: 81, humidityPct: 40 } })
     expect(report.checks.find(c => c.id === 'correction-factor')?.outcome).toBe('warn')
     expect(report.status).toBe('rejected')

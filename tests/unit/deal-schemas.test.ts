@@ -9,7 +9,7 @@ import { QUOTE_LIMIT_MESSAGE, messageSchema, quoteFieldsSchema, quoteRequestSche
 const { fuel: { enumValues: fuels }, aspiration: { enumValues: aspirations }, intendedUse: { enumValues: uses } } = quoteRequests
 
 const request = {
-  builder: 'harrow-creek-engine-works', title: 'Bracket engine', targetHp: 640, targetStandard: 'SAE_J1349_2004',
+  shop: 'harrow-creek-engine-works', title: 'Bracket engine', targetHp: 640, targetStandard: 'SAE_J1349_2004',
   fuel: 'race_gas', aspiration: 'na', intendedUse: 'drag', transmission: 'automatic', stallRpm: 4800, shiftRpm: 7200,
   budgetMinCents: 2_000_000, budgetMaxCents: 3_000_000,
 }

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { DISPLAY_MAX_POINTS, displayCurve, displayStepRpm } from '../../shared/listings/display-curve'
+import { DISPLAY_MAX_POINTS, displayCurve, displayStepRpm } from '../../shared/builds/display-curve'
 import type { PullPoint } from '../../shared/engine'
 
 function pull(from: number, to: number, step: number): PullPoint[] {

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import { bmepPsi, camEvents, displacementCi, dynamicCompressionRatio, rodStrokeRatio, staticCompressionRatio } from '../../shared/engine'
-import { combinationFigures, type FigureInputs } from '../../shared/listings/figures'
+import { combinationFigures, type FigureInputs } from '../../shared/builds/figures'
 import { centsToInput, dollarsToCents } from '../../utils/editor-fields'
 import { emptyPullForm, pullMetaFrom } from '../../utils/pull-form'
 
@@ -44,7 +44,7 @@ describe('money typed in the editor', () => {
     expect(dollarsToCents('twelve')).toBeNaN()
   })
 
-  it('shows cents back as the builder would type them', () => {
+  it('shows cents back as the shop would type them', () => {
     expect(centsToInput(1_450_000)).toBe('14500')
     expect(centsToInput(12_995)).toBe('129.95')
     expect(centsToInput(null)).toBe('')
@@ -74,8 +74,8 @@ describe('the pull form', () => {
   })
 })
 
-describe('dynamic compression of a listing', () => {
-  it('takes the listing\'s cam closing at 0.050 in and moves it 15° later to seat timing (common practice)', () => {
+describe('dynamic compression of a build', () => {
+  it('takes the build\'s cam closing at 0.050 in and moves it 15° later to seat timing (common practice)', () => {
     const cam = camEvents({ intakeDurationDeg: full.camIntakeDurationDeg!, exhaustDurationDeg: full.camExhaustDurationDeg!, lobeSeparationDeg: full.camLobeSeparationDeg!, intakeCenterlineDeg: full.camIntakeCenterlineDeg! })
     const asSeat = dynamicCompressionRatio({ ...(full as Required<{ [K in keyof FigureInputs]: number }>), intakeClosesAbdcDeg: cam.intakeClosesAbdcDeg + 15, timingBasis: 'seat' })
     expect(combinationFigures(full).dynamicCompression).toBeCloseTo(asSeat, 10)

@@ -1,9 +1,9 @@
 import { describe, expect, it } from 'vitest'
 import { CORRECTION_STANDARDS, convertCurve, correctionFactor, peaks, type PullPoint } from '../../shared/engine'
-import { DISPLAY_MAX_POINTS } from '../../shared/listings/display-curve'
-import { packCurves, unpackCurves } from '../../shared/listings/curve-payload'
+import { DISPLAY_MAX_POINTS } from '../../shared/builds/display-curve'
+import { packCurves, unpackCurves } from '../../shared/builds/curve-payload'
 import { curveUnder, declaredStandardOf, derivePullFigures, weatherOf } from '../../shared/pulls/figures'
-import type { BuildCurves } from '../../shared/types/listings'
+import type { BuildCurves } from '../../shared/types/builds'
 import { makeCurve } from '../../scripts/lib/demo-data'
 import { seededRandom } from '../../shared/random'
 

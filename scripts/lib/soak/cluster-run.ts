@@ -1,6 +1,6 @@
 // `npm run soak -- --cluster`: the mixed load through HAProxy in front of three app instances on a
 // three-node Galera cluster (scripts/lib/cluster.ts). In the middle one Galera node and one app instance
-// are killed (SIGKILL, by pid) and brought back. Beside the load a probe edits a published listing's
+// are killed (SIGKILL, by pid) and brought back. Beside the load a probe edits a published build's
 // title on instance A and times how long until instance B's search finds it. At the end every
 // acknowledged write is reconciled against MariaDB. README "Scaling out" keeps the figures.
 import { randomBytes } from 'node:crypto'
@@ -27,7 +27,7 @@ interface Probe {
   status: number
 }
 
-/** Edits one published listing's title on instance A every second and times until instance B's search has the new word. */
+/** Edits one published build's title on instance A every second and times until instance B's search has the new word. */
 async function runProbe(client: Client, cluster: Cluster, phase: PhaseRun, probes: Probe[]): Promise<void> {
   const [a, b] = [cluster.apps[0]!, cluster.apps[1]!]
   const shop = DEMO_SHOPS[0]!
@@ -41,7 +41,7 @@ async function runProbe(client: Client, cluster: Cluster, phase: PhaseRun, probe
   ) as unknown as [{ id: number, title: string }[]]
   await connection.end()
   const build = rows[0]
-  if (!build) throw new Error(`the probe found no published listing of ${shop.slug}`)
+  if (!build) throw new Error(`the probe found no published build of ${shop.slug}`)
   const base = build.title.slice(0, 100)
   while (!phase.stop) {
     const word = `zp${randomBytes(4).toString('hex')}`

@@ -87,7 +87,7 @@ export const addressOf = (index: number) => `127.66.${(index >> 8) & 255}.${(ind
 function requestBody(shopSlug: string, racerIndex: number) {
   const deadline = new Date(Date.now() + 120 * 86_400_000).toISOString().slice(0, 10)
   return {
-    builder: shopSlug,
+    shop: shopSlug,
     title: `Soak thread: bracket engine ${racerIndex + 1} for ${shopSlug}`,
     targetHp: 600 + racerIndex * 20,
     targetTq: 520,

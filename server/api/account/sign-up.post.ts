@@ -6,7 +6,7 @@ import { bucketKey, POLICIES, takeTokens } from '../../auth/rate-limit'
 import { createAccount, findUserByEmail, issueLink } from '../../services/accounts'
 
 /**
- * Sign-up as a racer, or as a builder with the shop profile. Public. Answers 202 the same way
+ * Sign-up as a racer, or as a shop owner with the shop. Public. Answers 202 the same way
  * whether or not the e-mail was already registered; the inbox learns which (a confirmation link,
  * or a note that the account exists).
  */

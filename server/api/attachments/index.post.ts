@@ -3,7 +3,7 @@ import { storeDealFile } from '../../services/deal-files'
 
 /**
  * Uploads one file for a deal (the body is the file's bytes; kind and name in the query): vetted by the
- * file service as a listing upload is (empty 422, size 413, sniffed type 415), hashed, and recorded as
+ * file service as a build upload is (empty 422, size 413, sniffed type 415), hashed, and recorded as
  * the uploader's until it is attached.
  */
 export default defineEventHandler(async (event) => {

@@ -1,5 +1,5 @@
 import { slugParams } from '#shared/schemas/common'
-import { getPublishedBuild } from '../../services/listings'
+import { getPublishedBuild } from '../../services/builds'
 
 /** One published build with its combination, parts list and pulls. Public; drafts answer 404. */
 export default definePublicCachedHandler('build', async (event) => {

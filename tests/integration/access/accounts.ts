@@ -1,8 +1,8 @@
 import { defineAccess } from '../../support/access'
 
-const everyone = (status: number) => ({ anonymous: status, racer: status, builder: status, admin: status })
-const signedIn = (status: number) => ({ anonymous: 401, racer: status, builder: status, admin: status })
-const adminOnly = (status: number) => ({ anonymous: 401, racer: 403, builder: 403, admin: status })
+const everyone = (status: number) => ({ anonymous: status, racer: status, shop: status, admin: status })
+const signedIn = (status: number) => ({ anonymous: 401, racer: status, shop: status, admin: status })
+const adminOnly = (status: number) => ({ anonymous: 401, racer: 403, shop: 403, admin: status })
 
 // Sample bodies are empty on purpose: a request that passes the guard stops at validation (400),
 // so the matrix proves who gets past the guard without writing anything.
@@ -25,10 +25,10 @@ export default defineAccess([
   { method: 'POST', path: '/api/me/email', body: {}, expect: signedIn(400) },
   { method: 'POST', path: '/api/account/sign-out', body: {}, expect: signedIn(400) },
 
-  // A shop's own rows: each builder reads their own; only the owner may change a shop.
-  { method: 'GET', path: '/api/me/builds', expect: { anonymous: 401, racer: 403, builder: 200, otherBuilder: 200, admin: 403 } },
-  { method: 'PATCH', path: '/api/builders/harrow-creek-engine-works', body: {}, expect: { anonymous: 401, racer: 403, builder: 400, otherBuilder: 403, admin: 403 } },
-  { method: 'PATCH', path: '/api/builders/no-such-shop', body: {}, expect: { anonymous: 401, racer: 403, builder: 404, admin: 403 } },
+  // A shop's own rows: each shop reads their own; only the owner may change a shop.
+  { method: 'GET', path: '/api/me/builds', expect: { anonymous: 401, racer: 403, shop: 200, otherShop: 200, admin: 403 } },
+  { method: 'PATCH', path: '/api/builders/harrow-creek-engine-works', body: {}, expect: { anonymous: 401, racer: 403, shop: 400, otherShop: 403, admin: 403 } },
+  { method: 'PATCH', path: '/api/builders/no-such-shop', body: {}, expect: { anonymous: 401, racer: 403, shop: 404, admin: 403 } },
 
   // Admin work.
   { method: 'GET', path: '/api/admin/users', expect: adminOnly(200) },

@@ -1,7 +1,7 @@
 import { defineAccess } from '../../support/access'
 
 /** Admin routes: anonymous visitors get 401, every other role 403, and admins the answer the sample asks for. */
-const adminOnly = (status: number) => ({ anonymous: 401, racer: 403, builder: 403, admin: status })
+const adminOnly = (status: number) => ({ anonymous: 401, racer: 403, shop: 403, admin: status })
 
 // Samples never change a row: decisions go to a pull that does not exist or stop at validation (400).
 // Pull 1 is the demo seed's first pull (verified, no dyno sheet) in the fresh test database.

@@ -1,27 +1,27 @@
 import { defineAccess } from '../../support/access'
 
-const signedIn = (status: number) => ({ anonymous: 401, racer: status, builder: status, admin: status })
+const signedIn = (status: number) => ({ anonymous: 401, racer: status, shop: status, admin: status })
 
 // The demo deals (scripts/lib/seed-deals.ts) come first in the fresh test database:
-//   request 1, quote 1, order 1 with milestones 1–3: Alma (a racer who is not a persona) with Harrow Creek (builder);
-//   request 2: Jonah (racer) with Ninefold (otherBuilder), no quote yet.
-// So `racer` is a stranger to deal 1, `builder` to deal 2, and an admin may look at both but act on neither.
+//   request 1, quote 1, order 1 with milestones 1–3: Alma (a racer who is not a persona) with Harrow Creek (shop);
+//   request 2: Jonah (racer) with Ninefold (otherShop), no quote yet.
+// So `racer` is a stranger to deal 1, `shop` to deal 2, and an admin may look at both but act on neither.
 // Write rows send empty bodies: a caller who gets past the guard stops at validation (400), nothing is written.
-const dealOne = (party: number, admin: number) => ({ anonymous: 401, racer: 404, builder: party, otherBuilder: 404, admin })
+const dealOne = (party: number, admin: number) => ({ anonymous: 401, racer: 404, shop: party, otherShop: 404, admin })
 
 export default defineAccess([
   { method: 'GET', path: '/api/requests', expect: signedIn(200) },
-  { method: 'POST', path: '/api/requests', body: {}, expect: { anonymous: 401, racer: 400, builder: 403, admin: 403 } },
+  { method: 'POST', path: '/api/requests', body: {}, expect: { anonymous: 401, racer: 400, shop: 403, admin: 403 } },
   { method: 'GET', path: '/api/requests/1', expect: dealOne(200, 200) },
-  { method: 'GET', path: '/api/requests/2', expect: { anonymous: 401, racer: 200, builder: 404, otherBuilder: 200, admin: 200 } },
+  { method: 'GET', path: '/api/requests/2', expect: { anonymous: 401, racer: 200, shop: 404, otherShop: 200, admin: 200 } },
   { method: 'GET', path: '/api/requests/999999', expect: signedIn(404) },
   { method: 'GET', path: '/api/requests/not-a-number', expect: signedIn(400) },
   { method: 'GET', path: '/api/requests/1/messages', expect: dealOne(200, 200) },
   { method: 'GET', path: '/api/requests/1/messages?after=-1', expect: dealOne(400, 400) },
   { method: 'POST', path: '/api/requests/1/messages', body: {}, expect: dealOne(400, 403) },
-  { method: 'POST', path: '/api/requests/2/messages', body: {}, expect: { anonymous: 401, racer: 400, builder: 404, otherBuilder: 400, admin: 403 } },
+  { method: 'POST', path: '/api/requests/2/messages', body: {}, expect: { anonymous: 401, racer: 400, shop: 404, otherShop: 400, admin: 403 } },
   { method: 'POST', path: '/api/requests/1/quote', body: {}, expect: dealOne(400, 403) },
-  { method: 'POST', path: '/api/requests/2/quote', body: {}, expect: { anonymous: 401, racer: 403, builder: 404, otherBuilder: 400, admin: 403 } },
+  { method: 'POST', path: '/api/requests/2/quote', body: {}, expect: { anonymous: 401, racer: 403, shop: 404, otherShop: 400, admin: 403 } },
   { method: 'POST', path: '/api/quotes/1/accept', body: {}, expect: dealOne(403, 403) },
   { method: 'POST', path: '/api/quotes/1/decline', body: {}, expect: dealOne(403, 403) },
   { method: 'GET', path: '/api/orders/1', expect: dealOne(200, 200) },
@@ -43,5 +43,5 @@ export default defineAccess([
   { method: 'PATCH', path: '/api/me/notifications/settings', body: {}, expect: signedIn(400) },
   { method: 'POST', path: '/api/attachments', expect: signedIn(400) },
   { method: 'GET', path: '/api/attachments/999999', expect: signedIn(404) },
-  { method: 'POST', path: '/api/webhooks/stripe', body: {}, publicWrite: 'the payment service calls it; the signature over the raw body is the guard', expect: { anonymous: 400, racer: 400, builder: 400, admin: 400 } },
+  { method: 'POST', path: '/api/webhooks/stripe', body: {}, publicWrite: 'the payment service calls it; the signature over the raw body is the guard', expect: { anonymous: 400, racer: 400, shop: 400, admin: 400 } },
 ])

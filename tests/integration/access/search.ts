@@ -1,8 +1,8 @@
 import { defineAccess } from '../../support/access'
 
-const everyone = (status: number) => ({ anonymous: status, racer: status, builder: status, admin: status })
-const adminOnly = { anonymous: 401, racer: 403, builder: 403, admin: 200 }
-const signedIn = (status: number) => ({ anonymous: 401, racer: status, builder: status, admin: status })
+const everyone = (status: number) => ({ anonymous: status, racer: status, shop: status, admin: status })
+const adminOnly = { anonymous: 401, racer: 403, shop: 403, admin: 200 }
+const signedIn = (status: number) => ({ anonymous: 401, racer: status, shop: status, admin: status })
 
 /**
  * Search is public to read; the test-mode sync and check hooks are for admins. Saved searches belong

@@ -1,7 +1,7 @@
 import { defineAccess } from '../../support/access'
 
-const everyone = (status: number) => ({ anonymous: status, racer: status, builder: status, admin: status })
-const racerOnly = (status: number) => ({ anonymous: 401, racer: status, builder: 403, admin: 403 })
+const everyone = (status: number) => ({ anonymous: status, racer: status, shop: status, admin: status })
+const racerOnly = (status: number) => ({ anonymous: 401, racer: status, shop: 403, admin: 403 })
 
 /**
  * Swap results are public to read. Class rules belong to racers: a shop or an admin is refused (403)

@@ -8,7 +8,7 @@ describe('signUpSchema', () => {
     expect(r).toEqual({ role: 'racer', name: 'Ada Quill', email: 'ada@example.test', password: 'ten chars!' })
   })
 
-  it('needs the shop name and region from a builder', () => {
+  it('needs the shop name and region from a shop', () => {
     const r = signUpSchema.safeParse({ role: 'builder', name: 'Ada Quill', email: 'ada@example.test', password: 'ten chars!' })
     expect(r.success).toBe(false)
     expect(Object.keys(fieldErrors(r.error!)).sort()).toEqual(['region', 'shopName'])

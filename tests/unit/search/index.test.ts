@@ -115,7 +115,7 @@ describe('band queries', () => {
 })
 
 describe('text', () => {
-  const words = (d: SearchDocument) => [d.title, d.summary, ...d.parts, d.heads, d.camshaft, d.intake, d.builder.name].join(' ').toLowerCase().split(/[\s,.:;/()]+/)
+  const words = (d: SearchDocument) => [d.title, d.summary, ...d.parts, d.heads, d.camshaft, d.intake, d.shop.name].join(' ').toLowerCase().split(/[\s,.:;/()]+/)
 
   it('finds every build holding a word, and only those', () => {
     const result = index.query({ q: 'supercharged', perPage: 100 })
@@ -132,7 +132,7 @@ describe('text', () => {
   })
 
   it('narrows a rare word by a common one exactly as a scan would (candidate lookup path)', () => {
-    // The last word of a summary is an invented word held by a handful of listings.
+    // The last word of a summary is an invented word held by a handful of builds.
     const rare = [...new Set(docs.slice(0, 15).map(d => d.summary.replace(/\.$/, '').split(', ').at(-1)!))]
     // Each word alone (typos tolerated) through the index; the two-word query must give the intersection.
     const alone = (q: string) => new Set(index.query({ q: `${q} `, perPage: 10_000 }).hits.map(h => h.id))
@@ -166,10 +166,10 @@ describe('text', () => {
     const supercharged = index.query({ q: 'supercharged ', perPage: 1 }).total
     expect(index.query({ q: 'suparcharjed ', perPage: 1 }).total).toBe(supercharged)
     expect(index.query({ q: 'pumq ', perPage: 1 }).total).toBe(0)
-    const shop = docs[7]!.builder.name.split(' ')[0]!.toLowerCase()
+    const shop = docs[7]!.shop.name.split(' ')[0]!.toLowerCase()
     const typo = shop.slice(0, 2) + (shop[2] === 'x' ? 'y' : 'x') + shop.slice(3)
     const hits = index.query({ q: `${typo} `, perPage: 100 }).hits
-    expect(hits.some(h => h.builder.name === docs[7]!.builder.name)).toBe(true)
+    expect(hits.some(h => h.shop.name === docs[7]!.shop.name)).toBe(true)
   })
 
   it('ranks a match in the cylinder heads above one only in the parts list or summary (field weights)', () => {
@@ -265,7 +265,7 @@ describe('keeping in step', () => {
 describe('tokenizing', () => {
   it('splits plain ASCII text exactly as MiniSearch\'s tokenizer does', () => {
     const lines = [
-      ...docs.slice(0, 300).flatMap(d => [d.title, d.summary, ...d.parts, d.heads, d.camshaft, d.intake, d.builder.name]),
+      ...docs.slice(0, 300).flatMap(d => [d.title, d.summary, ...d.parts, d.heads, d.camshaft, d.intake, d.shop.name]),
       'a!b"c#d$e%f&g\'h(i)j*k+l,m-n.o/p:q;r<s=t>u?v@w[x\\y]z^_`{|}~end',
       'tabs\tstay\tinside, line\nbreaks\r\nsplit',
     ]

@@ -6,13 +6,13 @@ import { syntheticDocuments } from '../../../search/synthetic'
 /** Invented builds of three shops around 427 ci and 700 hp: one close and consistent, one close but scattered, one off target. */
 function fixture(): SearchDocument[] {
   const base = syntheticDocuments(1, { seed: 5, shops: 8 })[0]!
-  const shop = (id: number, name: string) => ({ id, slug: name.toLowerCase().replace(/\s+/g, '-'), name })
-  const make = (id: number, builder: ReturnType<typeof shop>, ci: number, hp: number, verified = true): SearchDocument => ({
-    ...base, id, slug: `b-${id}`, title: `Build ${id}`, builder, displacementCi: ci, peakHp: hp, aspiration: 'na', fuel: 'race_gas', verified, stamp: String(id),
+  const shopRow = (id: number, name: string) => ({ id, slug: name.toLowerCase().replace(/\s+/g, '-'), name })
+  const make = (id: number, shop: ReturnType<typeof shopRow>, ci: number, hp: number, verified = true): SearchDocument => ({
+    ...base, id, slug: `b-${id}`, title: `Build ${id}`, shop, displacementCi: ci, peakHp: hp, aspiration: 'na', fuel: 'race_gas', verified, stamp: String(id),
   })
-  const steady = shop(1, 'Steady Hands Machine')
-  const scattered = shop(2, 'Scattershot Speed')
-  const far = shop(3, 'Far Off Engines')
+  const steady = shopRow(1, 'Steady Hands Machine')
+  const scattered = shopRow(2, 'Scattershot Speed')
+  const far = shopRow(3, 'Far Off Engines')
   return [
     make(1, steady, 427, 702), make(2, steady, 430, 698), make(3, steady, 425, 705),
     make(4, scattered, 427, 640), make(5, scattered, 428, 790), make(6, scattered, 426, 700),
@@ -26,7 +26,7 @@ describe('shops ranked for a target', () => {
   const ranking = rankShopsForTarget(index, { ci: 427, hp: 700, aspiration: 'na', limit: 5 })
 
   it('puts the close, consistent shop first and the scattered one after it', () => {
-    expect(ranking.shops.map(s => s.builder.slug)).toEqual(['steady-hands-machine', 'scattershot-speed'])
+    expect(ranking.shops.map(s => s.shop.slug)).toEqual(['steady-hands-machine', 'scattershot-speed'])
     const [steady, scattered] = ranking.shops
     expect(steady!.score).toBeGreaterThan(scattered!.score)
     expect(steady!.builds).toBe(3)
@@ -36,7 +36,7 @@ describe('shops ranked for a target', () => {
   it('counts only verified builds inside the window (10 % of the displacement, 15 % of the power)', () => {
     expect(NEAR_TARGET).toEqual({ ci: 0.1, hp: 0.15 })
     // Far Off Engines has one build 20 % low, one 40 % over the displacement and one unverified: none count.
-    expect(ranking.shops.some(s => s.builder.slug === 'far-off-engines')).toBe(false)
+    expect(ranking.shops.some(s => s.shop.slug === 'far-off-engines')).toBe(false)
     expect(ranking.window.hpMin).toBeCloseTo(595, 6)
     expect(ranking.window.ciMax).toBeCloseTo(469.7, 6)
   })
@@ -66,6 +66,6 @@ describe('shops ranked for a target', () => {
     for (const ci of shown) expect(ci).toBeGreaterThanOrEqual(426)
     for (const ci of shown) expect(ci).toBeLessThanOrEqual(428)
     // Build 2 (430 ci) and build 3 (425 ci) of the steady shop fall outside the racer's range.
-    expect(kept.shops.find(s => s.builder.slug === 'steady-hands-machine')!.builds).toBe(1)
+    expect(kept.shops.find(s => s.shop.slug === 'steady-hands-machine')!.builds).toBe(1)
   })
 })

@@ -1,9 +1,9 @@
-import { adminListingsQuery } from '#shared/schemas/admin'
-import { listListings } from '../../../services/moderation'
+import { adminBuildsQuery } from '#shared/schemas/admin'
+import { listBuilds } from '../../../services/moderation'
 
-/** Every listing, any status, searchable by title, address or shop, for moderation. Admins only. */
+/** Every build, any status, searchable by title, address or shop, for moderation. Admins only. */
 export default defineEventHandler(async (event) => {
   await requireRole(event, 'admin')
-  const query = await getValidatedQuery(event, validator(adminListingsQuery))
-  return listListings(useDb(), query)
+  const query = await getValidatedQuery(event, validator(adminBuildsQuery))
+  return listBuilds(useDb(), query)
 })

@@ -1,5 +1,5 @@
 import { idParams } from '#shared/schemas/common'
-import { deleteBuild } from '../../../services/listing-editor'
+import { deleteBuild } from '../../../services/build-editor'
 
 /** Deletes one of the caller's builds with its pulls, photos and stored files. */
 export default defineEventHandler(async (event) => {

@@ -1,7 +1,7 @@
 import { idParams } from '#shared/schemas/common'
-import { editorBuild } from '../../../services/listing-editor'
+import { editorBuild } from '../../../services/build-editor'
 
-/** The owner's view of one build (drafts included). 404 for another shop's draft, 403 for its published listing. */
+/** The owner's view of one build (drafts included). 404 for another shop's draft, 403 for its published build. */
 export default defineEventHandler(async (event) => {
   const { shop } = await requireCallerShop(event)
   const { id } = await getValidatedRouterParams(event, validator(idParams))

@@ -1,7 +1,7 @@
 import { newBuildSchema } from '#shared/schemas/build'
-import { createDraft } from '../../../services/listing-editor'
+import { createDraft } from '../../../services/build-editor'
 
-/** A new draft listing with only its title. Builders with a shop only. */
+/** A new draft build with only its title. Shops with a shop only. */
 export default defineEventHandler(async (event) => {
   const { shop } = await requireCallerShop(event)
   const { title } = await readValidatedBody(event, validator(newBuildSchema))

@@ -3,7 +3,7 @@ import { idSchema } from '#shared/schemas/common'
 import { syncBuild } from '../../../services/search'
 
 /**
- * Test mode only (TW_TEST_MODE=1, else 404), admins only: re-syncs one build's search entry, as the listing
+ * Test mode only (TW_TEST_MODE=1, else 404), admins only: re-syncs one build's search entry, as the build
  * editor and the evidence review do after their writes, so tests can change rows and check search.
  */
 export default defineEventHandler(async (event) => {

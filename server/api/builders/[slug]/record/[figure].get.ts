@@ -13,7 +13,7 @@ export default defineEventHandler(async (event) => {
   if (!found) throw createError({ status: 404, message: 'No shop has that address.' })
   const user = await requireUser(event).catch(() => null)
   const actor = user ? await loadActor(useDb(), user.id) : null
-  const viewer = actor ? { userId: actor.id, role: actor.role, builderId: actor.builderId } : null
+  const viewer = actor ? { userId: actor.id, role: actor.role, shopId: actor.shopId } : null
   return {
     shop: { slug: found.shop.slug, name: found.shop.shopName },
     figure,

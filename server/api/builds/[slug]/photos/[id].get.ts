@@ -1,6 +1,6 @@
 import { z } from 'zod'
 import { idSchema, slugSchema } from '#shared/schemas/common'
-import { photoFile } from '../../../../services/listing-photos'
+import { photoFile } from '../../../../services/build-photos'
 
 const params = z.object({ slug: slugSchema, id: idSchema })
 

@@ -1,6 +1,6 @@
 import { buildStatusAction } from '#shared/schemas/build'
 import { idParams } from '#shared/schemas/common'
-import { changeStatus } from '../../../../services/listing-editor'
+import { changeStatus } from '../../../../services/build-editor'
 
 /** Publish (422 naming what is missing), unpublish, archive or restore one of the caller's builds. */
 export default defineEventHandler(async (event) => {

@@ -1,6 +1,6 @@
 import { z } from 'zod'
 import { idSchema } from '#shared/schemas/common'
-import { removePhoto } from '../../../../../services/listing-photos'
+import { removePhoto } from '../../../../../services/build-photos'
 
 const params = z.object({ id: idSchema, photoId: idSchema })
 

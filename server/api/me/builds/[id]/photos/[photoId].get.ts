@@ -1,7 +1,7 @@
 import { z } from 'zod'
 import { idSchema } from '#shared/schemas/common'
 import { ownBuild } from '../../../../../services/own-build'
-import { photoFile } from '../../../../../services/listing-photos'
+import { photoFile } from '../../../../../services/build-photos'
 
 const params = z.object({ id: idSchema, photoId: idSchema })
 

@@ -1,6 +1,6 @@
 import { z } from 'zod'
 import { idParams } from '#shared/schemas/common'
-import { addPhoto } from '../../../../../services/listing-photos'
+import { addPhoto } from '../../../../../services/build-photos'
 import { ownBuild } from '../../../../../services/own-build'
 
 const caption = z.string().trim().max(160, 'A caption is at most 160 characters').default('')

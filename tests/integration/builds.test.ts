@@ -87,8 +87,8 @@ describe('GET /api/builds/:slug', () => {
 
 describe('GET /api/builders/:slug', () => {
   it('answers a shop with only its published builds', async () => {
-    const [shop] = await ctx.db.select().from(schema.builderProfiles).limit(1)
-    const published = await ctx.db.select().from(schema.builds).where(eq(schema.builds.builderId, shop!.id))
+    const [shop] = await ctx.db.select().from(schema.shops).limit(1)
+    const published = await ctx.db.select().from(schema.builds).where(eq(schema.builds.shopId, shop!.id))
     const res = await api(`/api/builders/${shop!.slug}`)
     expect(res.status).toBe(200)
     expect(res.body.shopName).toBe(shop!.shopName)

@@ -1,13 +1,13 @@
 import { createError } from 'h3'
 import { and, asc, count, desc, eq, inArray } from 'drizzle-orm'
 import { displacementCi } from '#shared/engine/geometry'
-import type { BuildDetail, BuilderFigures, BuilderProfileDetail, BuildSummary, Page, PullSummaryRow } from '#shared/types/listings'
+import type { BuildDetail, ShopFigures, ShopDetail, BuildSummary, Page, PullSummaryRow } from '#shared/types/builds'
 import type { Pagination } from '#shared/schemas/common'
 import { REQUIRED_FOR_PUBLISH, type CombinationField } from '#shared/schemas/build'
-import { builderProfiles, buildParts, buildPhotos, builds, dynoPulls, type Build, type BuilderProfile } from '../database/schema'
+import { shops, buildParts, buildPhotos, builds, dynoPulls, type Build, type Shop } from '../database/schema'
 import type { Database } from '../database/types'
 
-const summaryColumns = { build: builds, builder: builderProfiles }
+const summaryColumns = { build: builds, shop: shops }
 
 /** A build whose combination is complete, as every published row is (builds_published_complete holds it in the table). */
 export type PublishedBuild = Build & { [K in CombinationField]: NonNullable<Build[K]> }
@@ -19,7 +19,7 @@ export function asPublished(build: Build): PublishedBuild {
   return build as PublishedBuild
 }
 
-function toSummary(row: Build, builder: BuilderProfile): BuildSummary {
+function toSummary(row: Build, shop: Shop): BuildSummary {
   const build = asPublished(row)
   return {
     slug: build.slug,
@@ -36,7 +36,7 @@ function toSummary(row: Build, builder: BuilderProfile): BuildSummary {
     peakTq: build.peakTq,
     peakTqRpm: build.peakTqRpm,
     verified: build.verifiedAt !== null,
-    builder: { slug: builder.slug, shopName: builder.shopName, region: builder.region },
+    shop: { slug: shop.slug, shopName: shop.shopName, region: shop.region },
   }
 }
 
@@ -45,19 +45,19 @@ export async function listPublishedBuilds(db: Database, { page, perPage }: Pagin
   const published = eq(builds.status, 'published')
   const [rows, totals] = await Promise.all([
     db.select(summaryColumns).from(builds)
-      .innerJoin(builderProfiles, eq(builderProfiles.id, builds.builderId))
+      .innerJoin(shops, eq(shops.id, builds.shopId))
       .where(published)
       .orderBy(desc(builds.publishedAt), asc(builds.id))
       .limit(perPage).offset((page - 1) * perPage),
     db.select({ n: count() }).from(builds).where(published),
   ])
-  return { total: totals[0]?.n ?? 0, page, perPage, items: rows.map(r => toSummary(r.build, r.builder)) }
+  return { total: totals[0]?.n ?? 0, page, perPage, items: rows.map(r => toSummary(r.build, r.shop)) }
 }
 
 /** One published build with its parts list and pull summaries, or null when there is none to show. */
 export async function getPublishedBuild(db: Database, slug: string): Promise<BuildDetail | null> {
   const [row] = await db.select(summaryColumns).from(builds)
-    .innerJoin(builderProfiles, eq(builderProfiles.id, builds.builderId))
+    .innerJoin(shops, eq(shops.id, builds.shopId))
     .where(and(eq(builds.slug, slug), eq(builds.status, 'published')))
     .limit(1)
   if (!row) return null
@@ -68,7 +68,7 @@ export async function getPublishedBuild(db: Database, slug: string): Promise<Bui
     db.select().from(buildPhotos).where(eq(buildPhotos.buildId, build.id)).orderBy(asc(buildPhotos.position), asc(buildPhotos.id)),
   ])
   return {
-    ...toSummary(build, row.builder),
+    ...toSummary(build, row.shop),
     summary: build.summary,
     boreIn: build.boreIn,
     strokeIn: build.strokeIn,
@@ -110,27 +110,27 @@ export async function getPublishedBuild(db: Database, slug: string): Promise<Bui
 }
 
 /** A shop's public profile with its published builds. */
-export async function getBuilderProfile(db: Database, slug: string): Promise<BuilderProfileDetail | null> {
-  const [builder] = await db.select().from(builderProfiles).where(eq(builderProfiles.slug, slug)).limit(1)
-  if (!builder) return null
+export async function getShop(db: Database, slug: string): Promise<ShopDetail | null> {
+  const [shop] = await db.select().from(shops).where(eq(shops.slug, slug)).limit(1)
+  if (!shop) return null
   const rows = await db.select().from(builds)
-    .where(and(eq(builds.builderId, builder.id), inArray(builds.status, ['published'])))
+    .where(and(eq(builds.shopId, shop.id), inArray(builds.status, ['published'])))
     .orderBy(desc(builds.publishedAt))
-  const summaries = rows.map(b => toSummary(b, builder))
+  const summaries = rows.map(b => toSummary(b, shop))
   return {
-    slug: builder.slug,
-    shopName: builder.shopName,
-    region: builder.region,
-    bio: builder.bio,
-    specialties: builder.specialties,
-    capabilities: builder.capabilities,
+    slug: shop.slug,
+    shopName: shop.shopName,
+    region: shop.region,
+    bio: shop.bio,
+    specialties: shop.specialties,
+    capabilities: shop.capabilities,
     builds: summaries,
-    figures: builderFigures(summaries),
+    figures: shopFigures(summaries),
   }
 }
 
 /** A shop's proven-results figures, over its verified builds only. */
-export function builderFigures(summaries: BuildSummary[]): BuilderFigures {
+export function shopFigures(summaries: BuildSummary[]): ShopFigures {
   const verified = summaries.filter(b => b.verified && b.peakHp !== null)
   const hp = verified.map(b => b.peakHp as number)
   const perCi = verified.map(b => (b.peakHp as number) / b.displacementCi).sort((a, b) => a - b)

@@ -1,4 +1,4 @@
-import type { BuildCurves, CurveComparison, CurvePull } from '../types/listings'
+import type { BuildCurves, CurveComparison, CurvePull } from '../types/builds'
 
 /**
  * A build's curves as the build page carries them from the server render to the browser: each curve as

@@ -9,7 +9,7 @@ import { makeCurve, pullCsv } from '../../scripts/lib/demo-data'
 import { seededRandom } from '../../shared/random'
 import * as schema from '../../server/database/schema'
 import type { Database } from '../../server/database/types'
-import { deleteBuild } from '../../server/services/listing-editor'
+import { deleteBuild } from '../../server/services/build-editor'
 import type { UploadStore } from '../../server/utils/files'
 import type { PullMeta } from '../../shared/schemas/build'
 
@@ -43,7 +43,7 @@ export function inventedPullCsv(seed: number, peakHp = 520): string {
   return pullCsv(makeCurve(seededRandom(seed), { peakHpTarget: peakHp, redline: 7000, boosted: false, stepRpm: 100 }))
 }
 
-/** An invented, plausible small-block combination with every field a listing needs. */
+/** An invented, plausible small-block combination with every field a build needs. */
 export const COMPLETE_COMBINATION = {
   summary: 'A street/strip small block assembled and broken in on the engine dyno, pump gas, hydraulic roller cam.',
   engineFamily: 'Pushrod V8, small block',
@@ -95,8 +95,8 @@ export function pullMeta(overrides: Partial<PullMeta> = {}): PullMeta {
 
 /** Two seeded shops (the demo's first two) with their owners' ids. */
 export async function twoShops(db: Db) {
-  const rows = await db.select({ id: schema.builderProfiles.id, userId: schema.builderProfiles.userId, slug: schema.builderProfiles.slug })
-    .from(schema.builderProfiles).where(inArray(schema.builderProfiles.slug, ['harrow-creek-engine-works', 'ninefold-machine']))
+  const rows = await db.select({ id: schema.shops.id, userId: schema.shops.userId, slug: schema.shops.slug })
+    .from(schema.shops).where(inArray(schema.shops.slug, ['harrow-creek-engine-works', 'ninefold-machine']))
   const mine = rows.find(r => r.slug === 'harrow-creek-engine-works')!
   const other = rows.find(r => r.slug === 'ninefold-machine')!
   return { mine, other }
@@ -118,11 +118,11 @@ export async function buildIds(db: Db): Promise<Set<number>> {
 
 /**
  * Deletes the builds a test file made (those not in `before`) through the editor's own delete, with
- * their pulls and files, so the files after it see the seeded listings as the seed left them.
+ * their pulls and files, so the files after it see the seeded builds as the seed left them.
  */
 export async function removeBuildsSince(db: Db, before: Set<number>): Promise<void> {
-  const rows = await db.select({ id: schema.builds.id, shopId: schema.builderProfiles.id, userId: schema.builderProfiles.userId })
-    .from(schema.builds).innerJoin(schema.builderProfiles, eq(schema.builderProfiles.id, schema.builds.builderId))
+  const rows = await db.select({ id: schema.builds.id, shopId: schema.shops.id, userId: schema.shops.userId })
+    .from(schema.builds).innerJoin(schema.shops, eq(schema.shops.id, schema.builds.shopId))
   const store = testUploadStore()
   for (const row of rows.filter(r => !before.has(r.id))) {
     await deleteBuild(db as unknown as Database, store, { id: row.shopId, userId: row.userId }, row.id)

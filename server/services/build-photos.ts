@@ -5,10 +5,10 @@ import type { Database } from '../database/types'
 import { inRetriedTransaction } from '../utils/transaction'
 import { afterBuildChanged } from './build-events'
 import { ownBuild, type ShopRef } from './own-build'
-import { deleteFileRows, discard, insertFileRow, vetUpload, withStagedFiles, type IncomingFile, type UploadStore } from './listing-files'
+import { deleteFileRows, discard, insertFileRow, vetUpload, withStagedFiles, type IncomingFile, type UploadStore } from './build-files'
 import { recordBuildChange } from './search-feed'
 
-/** Most photos one listing shows. */
+/** Most photos one build shows. */
 export const MAX_PHOTOS = 12
 
 /** Adds a photo (sniffed: PNG, JPEG or WebP; size-limited) at the end of the build's photos. Returns its id. */
@@ -18,7 +18,7 @@ export async function addPhoto(db: Database, store: UploadStore, shop: ShopRef, 
   const id = await withStagedFiles(db, store, [{ kind: 'photo', mime, file: input.file }], async (tx, [staged]) => {
     await ownBuild(tx, shop, buildId, true)
     const [stats] = await tx.select({ n: count(), last: max(buildPhotos.position) }).from(buildPhotos).where(eq(buildPhotos.buildId, buildId))
-    if ((stats?.n ?? 0) >= MAX_PHOTOS) throw createError({ status: 409, message: `A listing shows at most ${MAX_PHOTOS} photos; remove one first.` })
+    if ((stats?.n ?? 0) >= MAX_PHOTOS) throw createError({ status: 409, message: `A build shows at most ${MAX_PHOTOS} photos; remove one first.` })
     const fileId = await insertFileRow(tx, shop.userId, staged!)
     const [row] = await tx.insert(buildPhotos).values({ buildId, fileId, position: (stats?.last ?? -1) + 1, caption: input.caption }).$returningId()
     await recordBuildChange(tx, buildId)
@@ -42,7 +42,7 @@ export async function removePhoto(db: Database, store: UploadStore, shop: ShopRe
   await afterBuildChanged(buildId)
 }
 
-/** Where a photo is stored, when it belongs to the build; `publishedSlug` limits it to a published listing. */
+/** Where a photo is stored, when it belongs to the build; `publishedSlug` limits it to a published build. */
 export async function photoFile(db: Database, where: { photoId: number, buildId?: number, publishedSlug?: string }) {
   const conditions = [eq(buildPhotos.id, where.photoId)]
   if (where.buildId !== undefined) conditions.push(eq(buildPhotos.buildId, where.buildId))

@@ -1,10 +1,10 @@
 import { defineAccess } from '../../support/access'
 
-const everyone = (status: number) => ({ anonymous: status, racer: status, builder: status, admin: status })
-/** A shop's own listing rows: builders only; `other` is what the other shop's builder gets. */
-const ownerOnly = (status: number, other = status) => ({ anonymous: 401, racer: 403, builder: status, otherBuilder: other, admin: 403 })
+const everyone = (status: number) => ({ anonymous: status, racer: status, shop: status, admin: status })
+/** A shop's own build rows: shops only; `other` is what another shop's owner gets. */
+const ownerOnly = (status: number, other = status) => ({ anonymous: 401, racer: 403, shop: status, otherShop: other, admin: 403 })
 
-/** The public listing routes: everyone reads them alike. */
+/** The public build routes: everyone reads them alike. */
 export default defineAccess([
   { method: 'GET', path: '/api/health', expect: everyone(200) },
   { method: 'GET', path: '/api/builds?perPage=5', expect: everyone(200) },
@@ -24,7 +24,7 @@ export default defineAccess([
   { method: 'GET', path: '/api/builds/harrow-362-na-race-gas-1/photos/999999', expect: everyone(404) },
   { method: 'GET', path: '/api/builds/Not_A_Slug/photos/1', expect: everyone(400) },
 
-  // The listing editor. Build 1 is the builder's published listing, so another shop sees it exists
+  // The build editor. Build 1 is the shop's published build, so another shop sees it exists
   // (403 on the owner's routes); an id nobody has answers 404. Bodies stop at validation (400), or
   // are a no-op ({} autosaves nothing), so the matrix writes nothing.
   { method: 'POST', path: '/api/me/builds', body: {}, expect: ownerOnly(400) },

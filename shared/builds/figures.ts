@@ -19,7 +19,7 @@ export interface FigureInputs {
   camIntakeCenterlineDeg: number | null
 }
 
-/** Each figure the editor shows as the builder types, null until the fields it needs are there and sound. */
+/** Each figure the editor shows as the shop types, null until the fields it needs are there and sound. */
 export interface CombinationFigures {
   displacementCi: number | null
   rodStroke: number | null
@@ -58,7 +58,7 @@ export function combinationFigures(f: FigureInputs, peakTorqueLbFt: number | nul
     ? attempt(() => camEvents({ intakeDurationDeg: f.camIntakeDurationDeg!, exhaustDurationDeg: f.camExhaustDurationDeg!, lobeSeparationDeg: f.camLobeSeparationDeg!, intakeCenterlineDeg: f.camIntakeCenterlineDeg! }))
     : null
   const dynamicCompression = compressionInput && cam && known(rodLengthIn)
-    // A listing's cam durations are at 0.050 in lift, so the closing is moved to seat timing (common-practice offset).
+    // A build's cam durations are at 0.050 in lift, so the closing is moved to seat timing (common-practice offset).
     ? attempt(() => dynamicCompressionRatio({ ...compressionInput, rodLengthIn: rodLengthIn!, intakeClosesAbdcDeg: cam.intakeClosesAbdcDeg, timingBasis: 'lift050' }))
     : null
   const bmep = ci && known(peakTorqueLbFt) ? { psi: attempt(() => bmepPsi(peakTorqueLbFt!, ci)), kpa: attempt(() => bmepKpaFromImperial(peakTorqueLbFt!, ci)) } : null

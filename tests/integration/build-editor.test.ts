@@ -1,15 +1,15 @@
 import { eq, inArray } from 'drizzle-orm'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { buildSlug as slugify, changeStatus, createDraft, deleteBuild, editorBuild, updateBuild } from '../../server/services/listing-editor'
+import { buildSlug as slugify, changeStatus, createDraft, deleteBuild, editorBuild, updateBuild } from '../../server/services/build-editor'
 import { listOwnBuilds } from '../../server/services/shops'
 import { savePull } from '../../server/services/evidence-uploads'
-import { addPhoto } from '../../server/services/listing-photos'
-import { getPublishedBuild } from '../../server/services/listings'
+import { addPhoto } from '../../server/services/build-photos'
+import { getPublishedBuild } from '../../server/services/builds'
 import type { Database } from '../../server/database/types'
 import { displacementCi } from '../../shared/engine'
 import { partsTotalCents } from '../../shared/schemas/build'
 import { schema, testDb } from '../support/context'
-import { buildIds, COMPLETE_COMBINATION, inventedPullCsv, pullMeta, removeBuildsSince, storedKeys, testUploadStore, twoShops } from '../support/listings'
+import { buildIds, COMPLETE_COMBINATION, inventedPullCsv, pullMeta, removeBuildsSince, storedKeys, testUploadStore, twoShops } from '../support/builds'
 
 let ctx: Awaited<ReturnType<typeof testDb>>
 let seeded: Set<number>
@@ -39,7 +39,7 @@ async function completeDraftWithPull(title: string, seed: number) {
   return id
 }
 
-describe('listing drafts (service, real MariaDB)', () => {
+describe('build drafts (service, real MariaDB)', () => {
   it('creates a draft with only a title: the combination columns stay NULL and its address is a private one', async () => {
     const id = await createDraft(db, shops.mine, '  Street/strip 383  ')
     const build = await row(id)
@@ -80,7 +80,7 @@ describe('listing drafts (service, real MariaDB)', () => {
     expect((await row(id))!.boreIn).toBeNull()
   })
 
-  it('answers 404 for another shop\'s draft and 403 for writes to its published listing, writing nothing', async () => {
+  it('answers 404 for another shop\'s draft and 403 for writes to its published build, writing nothing', async () => {
     const draft = await createDraft(db, shops.other, 'Someone else\'s draft')
     await expect(editorBuild(db, shops.mine, draft)).rejects.toMatchObject({ statusCode: 404 })
     await expect(updateBuild(db, shops.mine, draft, { boreIn: 4 })).rejects.toMatchObject({ statusCode: 404 })
@@ -88,7 +88,7 @@ describe('listing drafts (service, real MariaDB)', () => {
     await expect(deleteBuild(db, store, shops.mine, draft)).rejects.toMatchObject({ statusCode: 404 })
     expect((await row(draft))!.boreIn).toBeNull()
 
-    const [published] = await ctx.db.select().from(schema.builds).where(eq(schema.builds.builderId, shops.other.id))
+    const [published] = await ctx.db.select().from(schema.builds).where(eq(schema.builds.shopId, shops.other.id))
       .then(rows => rows.filter(r => r.status === 'published'))
     await expect(updateBuild(db, shops.mine, published!.id, { title: 'Taken over' })).rejects.toMatchObject({ statusCode: 403 })
     await expect(deleteBuild(db, store, shops.mine, published!.id)).rejects.toMatchObject({ statusCode: 403 })
@@ -147,7 +147,7 @@ describe('publishing (service, real MariaDB)', () => {
     await expect(changeStatus(db, shops.mine, id, 'publish')).rejects.toMatchObject({ statusCode: 409 })
   })
 
-  it('gives a second listing of the same title its own address', async () => {
+  it('gives a second build of the same title its own address', async () => {
     const a = await completeDraftWithPull('Twin Title Build', 102)
     const b = await completeDraftWithPull('Twin Title Build', 103)
     const first = await changeStatus(db, shops.mine, a, 'publish')
@@ -156,7 +156,7 @@ describe('publishing (service, real MariaDB)', () => {
     expect(second.slug).toBe(`${slugify('Twin Title Build')}-2`)
   })
 
-  it('keeps a published listing complete: an edit that clears a required field is refused with 422 and not written', async () => {
+  it('keeps a published build complete: an edit that clears a required field is refused with 422 and not written', async () => {
     const id = await completeDraftWithPull('Stays complete', 104)
     await changeStatus(db, shops.mine, id, 'publish')
     await expect(updateBuild(db, shops.mine, id, { strokeIn: null, title: 'Renamed' })).rejects.toMatchObject({ statusCode: 422 })
@@ -172,7 +172,7 @@ describe('publishing (service, real MariaDB)', () => {
     expect((await row(id))!.status).toBe('draft')
   })
 
-  it('archives and restores; archived listings leave the public pages', async () => {
+  it('archives and restores; archived builds leave the public pages', async () => {
     const id = await completeDraftWithPull('Archive me', 105)
     const { slug } = await changeStatus(db, shops.mine, id, 'publish')
     await changeStatus(db, shops.mine, id, 'archive')

@@ -1,7 +1,7 @@
 import { randomBytes } from 'node:crypto'
 import { createError } from 'h3'
 import { and, asc, count, eq, inArray, like, ne } from 'drizzle-orm'
-import { MAX_PARTS, publishProblems, REQUIRED_FOR_PUBLISH, type BuildDraftPatch } from '#shared/schemas/build'
+import { MAX_PARTS, publishProblems, REQUIRED_FOR_PUBLISH, type BuildPatch } from '#shared/schemas/build'
 import type { EditorBuild, EditorFields, PublishIssue } from '#shared/types/editor'
 import { firstFreeSlug, slugify } from '#shared/text/slug'
 import { buildParts, buildPhotos, builds, dynoPulls, type Build } from '../database/schema'
@@ -12,7 +12,7 @@ import { afterBuildChanged } from './build-events'
 import { recordBuildChange } from './search-feed'
 import type { ReadStoredText } from './curves'
 import { recheckSubmittedPulls } from './evidence-uploads'
-import { deleteFileRows, discard, type Tx, type UploadStore } from './listing-files'
+import { deleteFileRows, discard, type Tx, type UploadStore } from './build-files'
 import { ownBuild, type ShopRef } from './own-build'
 
 /** The combination fields the evidence checks read: a change to any of them makes a report, and a verification, stale. */
@@ -37,7 +37,7 @@ function fieldsOf(build: Build): EditorFields {
   return Object.fromEntries(EDITABLE_COLUMNS.map(k => [k, build[k]])) as unknown as EditorFields
 }
 
-/** Counts the pulls that a listing can show (submitted or verified). */
+/** Counts the pulls that a build can show (submitted or verified). */
 async function livePullCount(db: Database | Tx, buildId: number): Promise<number> {
   const [row] = await db.select({ n: count() }).from(dynoPulls).where(and(eq(dynoPulls.buildId, buildId), inArray(dynoPulls.status, ['submitted', 'verified'])))
   return row?.n ?? 0
@@ -45,7 +45,7 @@ async function livePullCount(db: Database | Tx, buildId: number): Promise<number
 
 /** A new draft with only its title. Returns its id. */
 export async function createDraft(db: Database, shop: ShopRef, title: string): Promise<number> {
-  const [row] = await db.insert(builds).values({ builderId: shop.id, title: title.trim(), slug: draftSlug(), status: 'draft' }).$returningId()
+  const [row] = await db.insert(builds).values({ shopId: shop.id, title: title.trim(), slug: draftSlug(), status: 'draft' }).$returningId()
   await afterBuildChanged(row!.id)
   return row!.id
 }
@@ -90,19 +90,19 @@ export async function editorBuild(db: Database, shop: ShopRef, buildId: number):
 
 /**
  * An autosave: the fields sent replace the stored ones, a parts list replaces the whole list, in one
- * transaction. A published listing stays publishable: a change that would break the publish check
- * answers 422 and nothing is written. The patch is the validated `buildDraftPatch`. A change to the
+ * transaction. A published build stays publishable: a change that would break the publish check
+ * answers 422 and nothing is written. The patch is the validated `buildPatch`. A change to the
  * checked combination sends verified pulls back to the queue; given the stored-file reader, the
  * reports of the pulls awaiting review are then re-run against the new combination.
  */
-export async function updateBuild(db: Database, shop: ShopRef, buildId: number, patch: BuildDraftPatch, read?: ReadStoredText): Promise<void> {
+export async function updateBuild(db: Database, shop: ShopRef, buildId: number, patch: BuildPatch, read?: ReadStoredText): Promise<void> {
   const { parts, ...columns } = patch
   await inRetriedTransaction(db, async (tx) => {
     const build = await ownBuild(tx, shop, buildId, true)
     if (build.status === 'published') {
       const merged = { ...build, ...columns } as Build
       const issues = publishIssues(merged, 1)
-      if (issues.length) throw createError({ status: 422, message: `A published listing must stay complete: ${issues.map(i => `${i.path}: ${i.message}`).join('; ')}.`, data: { issues } })
+      if (issues.length) throw createError({ status: 422, message: `A published build must stay complete: ${issues.map(i => `${i.path}: ${i.message}`).join('; ')}.`, data: { issues } })
     }
     if (Object.keys(columns).length) await tx.update(builds).set(columns).where(eq(builds.id, buildId))
     // A verification holds for the combination it was checked against: when the bore, stroke,
@@ -145,15 +145,15 @@ const TRANSITIONS: Record<'publish' | 'unpublish' | 'archive' | 'restore', { fro
 }
 
 /**
- * Moves a listing between draft, published and archived. Publishing runs the publish check over the
+ * Moves a build between draft, published and archived. Publishing runs the publish check over the
  * stored row (422 naming each field) and needs a pull to show; the first publish settles the
- * listing's address from its title. Returns the build's slug.
+ * build's address from its title. Returns the build's slug.
  */
 export async function changeStatus(db: Database, shop: ShopRef, buildId: number, action: keyof typeof TRANSITIONS): Promise<{ status: Build['status'], slug: string }> {
   const rule = TRANSITIONS[action]
   const result = await inRetriedTransaction(db, async (tx) => {
     const build = await ownBuild(tx, shop, buildId, true)
-    if (!rule.from.includes(build.status)) throw createError({ status: 409, message: `A listing that is ${build.status} cannot be asked to ${action}.` })
+    if (!rule.from.includes(build.status)) throw createError({ status: 409, message: `A build that is ${build.status} cannot be asked to ${action}.` })
     if (action !== 'publish') {
       await tx.update(builds).set({ status: rule.to }).where(eq(builds.id, buildId))
       await recordBuildChange(tx, buildId)

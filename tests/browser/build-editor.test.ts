@@ -7,7 +7,7 @@ import { PULL_STATUS_WORDS } from '../../shared/vocabulary'
 import { DEMO_PASSWORD, PERSONAS } from '../support/auth'
 import { isLocal, openBrowser } from '../support/browser'
 import { baseUrl, testDb } from '../support/context'
-import { buildIds, COMPLETE_COMBINATION, inventedPullCsv, removeBuildsSince } from '../support/listings'
+import { buildIds, COMPLETE_COMBINATION, inventedPullCsv, removeBuildsSince } from '../support/builds'
 
 let browser: Awaited<ReturnType<typeof openBrowser>>
 let page: Page
@@ -26,7 +26,7 @@ afterAll(async () => {
   await close()
 })
 
-// The pull the builder uploads: an invented curve, declared under DIN 70020 on a warm, humid day.
+// The pull the shop uploads: an invented curve, declared under DIN 70020 on a warm, humid day.
 const PULL_TEXT = inventedPullCsv(401, 545)
 const WEATHER = { baroInHg: 29.12, airTempF: 84, humidityPct: 61 }
 const DECLARED: CorrectionStandard = 'DIN_70020'
@@ -53,10 +53,10 @@ async function fillField(key: string, value: string | number) {
   else await box.fill(String(value))
 }
 
-describe('the listing editor in Chromium', () => {
-  it('a builder creates a listing with a parts list, uploads a pull (progress, chart, check report) and publishes', async () => {
+describe('the build editor in Chromium', () => {
+  it('a shop creates a build with a parts list, uploads a pull (progress, chart, check report) and publishes', async () => {
     await page.goto(`${baseUrl()}/sign-in`, { waitUntil: 'networkidle' })
-    await page.fill('#field-email', PERSONAS.builder)
+    await page.fill('#field-email', PERSONAS.shop)
     await page.fill('#field-password', DEMO_PASSWORD)
     await page.click('[data-test="password-form"] button[type="submit"]')
     await page.waitForURL(`${baseUrl()}/dashboard`)
@@ -66,7 +66,7 @@ describe('the listing editor in Chromium', () => {
     await page.click('[data-test="new-build-create"]')
     await page.waitForURL(/\/dashboard\/builds\/\d+$/)
 
-    // The combination, with the computed figures following as the builder types.
+    // The combination, with the computed figures following as the shop types.
     const { summary, injectorSizeLbHr: _s, injectorCount: _c, priceCents: _p, ...fields } = COMPLETE_COMBINATION
     await fillField('summary', summary)
     for (const [key, value] of Object.entries(fields)) await fillField(key, value)

@@ -1,7 +1,7 @@
-/** The shapes the listing routes answer with, used by the pages. */
+/** The shapes the build routes answer with, used by the pages. */
 import type { PublishableBuild } from '../schemas/build'
 
-export interface BuilderCard {
+export interface ShopCard {
   slug: string
   shopName: string
   region: string
@@ -19,7 +19,7 @@ export interface BuildSummary extends Pick<ListedCombination, 'engineFamily' | '
   peakTq: number | null
   peakTqRpm: number | null
   verified: boolean
-  builder: BuilderCard
+  shop: ShopCard
 }
 
 export interface BuildPartRow {
@@ -57,7 +57,7 @@ export interface PullSummaryRow {
   peakTqRpm: number
 }
 
-export interface BuilderFigures {
+export interface ShopFigures {
   verifiedBuilds: number
   minPeakHp: number | null
   maxPeakHp: number | null
@@ -65,12 +65,12 @@ export interface BuilderFigures {
   medianHpPerCi: number | null
 }
 
-export interface BuilderProfileDetail extends BuilderCard {
+export interface ShopDetail extends ShopCard {
   bio: string
   specialties: string[]
   capabilities: string[]
   builds: BuildSummary[]
-  figures: BuilderFigures
+  figures: ShopFigures
 }
 
 export interface Page<T> {

@@ -1,7 +1,7 @@
 import { defineStore } from 'pinia'
-import { buildDraftPatch, partsListSchema, publishProblems, type BuildDraftPatch } from '#shared/schemas/build'
+import { buildPatch, partsListSchema, publishProblems, type BuildPatch } from '#shared/schemas/build'
 import type { EditorBuild, EditorFields } from '#shared/types/editor'
-import type { BuildPartRow } from '#shared/types/listings'
+import type { BuildPartRow } from '#shared/types/builds'
 
 export type SaveState = 'saved' | 'waiting' | 'saving' | 'error'
 type FieldKey = keyof EditorFields
@@ -10,10 +10,10 @@ type FieldKey = keyof EditorFields
 const AUTOSAVE_MS = 700
 
 /**
- * The listing in progress in the editor: the values as typed, each checked with the shared schema
- * the server uses, and saved shortly after the builder stops typing (only the fields that changed).
+ * The build in progress in the editor: the values as typed, each checked with the shared schema
+ * the server uses, and saved shortly after the shop stops typing (only the fields that changed).
  */
-export const useBuildDraftStore = defineStore('build-draft', () => {
+export const useBuildStore = defineStore('build', () => {
   const build = ref<EditorBuild | null>(null)
   const fields = ref<EditorFields | null>(null)
   const parts = ref<BuildPartRow[]>([])
@@ -21,7 +21,7 @@ export const useBuildDraftStore = defineStore('build-draft', () => {
   const saveState = ref<SaveState>('saved')
   const saveError = ref('')
   const savedAt = ref<Date | null>(null)
-  let pending: BuildDraftPatch = {}
+  let pending: BuildPatch = {}
   let timer: ReturnType<typeof setTimeout> | undefined
   let inflight: Promise<void> | null = null
 
@@ -57,7 +57,7 @@ export const useBuildDraftStore = defineStore('build-draft', () => {
   function setField<K extends FieldKey>(key: K, value: EditorFields[K]) {
     if (!fields.value) return
     fields.value[key] = value
-    const check = buildDraftPatch.shape[key].safeParse(value)
+    const check = buildPatch.shape[key].safeParse(value)
     if (!check.success) {
       errors.value = { ...errors.value, [key]: check.error.issues[0]?.message ?? 'Check this value' }
       return
