@@ -303,10 +303,13 @@ describe('security headers', () => {
     expect(new Set(set).size).toBe(set.length)
   })
 
-  it('sends the refreshed session cookie once on a signed-in page rendered on the server', async () => {
+  it('never sends the session cookie twice on a signed-in page rendered on the server', async () => {
     const page = await fetch(`${baseUrl()}/account`, { headers: as(jar.racer, address, { accept: 'text/html' }) })
     expect(page.status).toBe(200)
+    // Rendered signed in: the header's navigation is the racer's.
+    expect(await page.text()).toContain('data-role="racer"')
+    // A young session's page re-issues nothing (tests/integration/page-session.test.ts); an older one once.
     const lines = page.headers.getSetCookie().filter(line => line.startsWith('authjs.session-token='))
-    expect(lines).toHaveLength(1)
+    expect(lines.length).toBeLessThanOrEqual(1)
   })
 })
