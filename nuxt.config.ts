@@ -74,6 +74,14 @@ export default defineNuxtConfig({
     },
   },
   telemetry: false,
+  hooks: {
+    // No prefetch hints for the chunks a page loads later (lazily hydrated parts, other routes): on a
+    // phone's link they compete with the first screen's script, style and font for the same bandwidth.
+    // Those chunks load when their part hydrates, and NuxtLink still prefetches a route it shows.
+    'build:manifest'(manifest) {
+      for (const entry of Object.values(manifest)) entry.prefetch = false
+    },
+  },
   auth: {
     isEnabled: true,
     originEnvKey: 'AUTH_ORIGIN',

@@ -5,7 +5,9 @@
  * accessibility and best-practices scores and LCP, CLS and TBT. CHROME_PATH overrides /usr/bin/chromium.
  * Loopback only, ports as in bench/pages.ts. `npm run bench:lighthouse -- tools search` runs those pages alone.
  */
+import { writeFileSync } from 'node:fs'
 import { loadavg } from 'node:os'
+import { resolve } from 'node:path'
 import * as chromeLauncher from 'chrome-launcher'
 import lighthouse from 'lighthouse'
 import { startPageStack } from './pages'
@@ -21,6 +23,8 @@ try {
     const result = await lighthouse(stack.app + page.path, { port: chrome.port, output: 'json', logLevel: 'error', onlyCategories: ['performance', 'accessibility', 'best-practices'] })
       .finally(() => chrome.kill())
     if (!result) throw new Error(`Lighthouse gave no result for ${page.path}`)
+    // TW_LIGHTHOUSE_REPORTS=<folder> keeps each page's full report (JSON) for a closer look.
+    if (process.env.TW_LIGHTHOUSE_REPORTS) writeFileSync(resolve(process.env.TW_LIGHTHOUSE_REPORTS, `${page.name.replace(/\W+/g, '-')}.json`), JSON.stringify(result.lhr))
     const { categories, audits, runtimeError } = result.lhr
     if (runtimeError) rows.push(`  ${page.name.padEnd(11)} Lighthouse could not measure it: ${runtimeError.code} ${runtimeError.message}`)
     const score = (k: string) => String(Math.round((categories[k]?.score ?? 0) * 100)).padStart(3)
