@@ -2,6 +2,13 @@ import { z } from 'zod'
 import { TRANSMISSIONS } from '../deals/constants'
 import { ASPIRATIONS, FUELS } from '../domain'
 
+/** The driveline's rpm fields, shared by the class rules and the quote request (the same ranges and words in both). */
+export const drivelineRpmFields = {
+  launchRpm: z.number({ error: 'The launch rpm is a number' }).int('The launch rpm is a whole number').min(1000, 'The launch rpm is at least 1,000').max(9000, 'The launch rpm is at most 9,000').nullable().default(null),
+  stallRpm: z.number({ error: 'The stall speed is a number' }).int('The stall speed is a whole number of rpm').min(1000, 'The stall speed is at least 1,000 rpm').max(9000, 'The stall speed is at most 9,000 rpm').nullable().default(null),
+  shiftRpm: z.number({ error: 'The shift rpm is a number' }).int('The shift rpm is a whole number').min(2000, 'The shift rpm is at least 2,000').max(12000, 'The shift rpm is at most 12,000').nullable().default(null),
+}
+
 /**
  * A racer's class rules (PUT /api/me/class, the form on /account): the displacement cap, the allowed
  * aspiration and fuel (empty: any), an optional minimum weight-to-power, and the car's driveline
@@ -16,9 +23,7 @@ export const classRulesSchema = z.strictObject({
   raceWeightLb: z.number({ error: 'The race weight is a number' }).min(300, 'The race weight is at least 300 lb').max(10000, 'The race weight is at most 10,000 lb').nullable().default(null),
   minLbPerHp: z.number({ error: 'The minimum weight-to-power is a number' }).min(0.5, 'The minimum weight-to-power is at least 0.5 lb/hp').max(50, 'The minimum weight-to-power is at most 50 lb/hp').nullable().default(null),
   transmission: z.enum(TRANSMISSIONS, { error: 'Pick a transmission' }).nullable().default(null),
-  launchRpm: z.number({ error: 'The launch rpm is a number' }).int('The launch rpm is a whole number').min(1000, 'The launch rpm is at least 1,000').max(9000, 'The launch rpm is at most 9,000').nullable().default(null),
-  stallRpm: z.number({ error: 'The stall speed is a number' }).int('The stall speed is a whole number of rpm').min(1000, 'The stall speed is at least 1,000 rpm').max(9000, 'The stall speed is at most 9,000 rpm').nullable().default(null),
-  shiftRpm: z.number({ error: 'The shift rpm is a number' }).int('The shift rpm is a whole number').min(2000, 'The shift rpm is at least 2,000').max(12000, 'The shift rpm is at most 12,000').nullable().default(null),
+  ...drivelineRpmFields,
 }, { error: issue => (issue.code === 'unrecognized_keys' ? `unknown field ${issue.keys.join(', ')}` : undefined) }).superRefine((v, ctx) => {
   const fail = (path: string, message: string) => ctx.addIssue({ code: 'custom', path: [path], message })
   if (new Set(v.aspirations).size !== v.aspirations.length) fail('aspirations', 'Each aspiration at most once')

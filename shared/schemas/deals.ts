@@ -2,6 +2,7 @@ import { z } from 'zod'
 import { ASPIRATIONS, CORRECTION_STANDARD_IDS, FUELS, USES } from '../domain'
 import { DEAL_LIMITS, TRANSMISSIONS } from '../deals/constants'
 import { MAX_CENTS, formatCents } from '../money'
+import { drivelineRpmFields } from './class-rules'
 import { idSchema, slugSchema } from './common'
 
 /** Request bodies of the deal routes; the pages validate their forms with the same schemas. */
@@ -26,9 +27,7 @@ export const quoteRequestSchema = z.object({
   aspiration: z.enum(ASPIRATIONS, { error: 'Pick how the engine breathes' }),
   intendedUse: z.enum(USES, { error: 'Pick the use' }),
   transmission: z.enum(TRANSMISSIONS, { error: 'Pick a transmission' }),
-  launchRpm: z.number({ error: 'The launch rpm is a number' }).int('The launch rpm is a whole number').min(1000, 'The launch rpm is at least 1,000').max(9000, 'The launch rpm is at most 9,000').nullable().default(null),
-  stallRpm: z.number().int('The stall speed is a whole number of rpm').min(1000, 'The stall speed is at least 1,000 rpm').max(9000, 'The stall speed is at most 9,000 rpm').nullable().default(null),
-  shiftRpm: z.number().int('The shift rpm is a whole number').min(2000, 'The shift rpm is at least 2,000').max(12000, 'The shift rpm is at most 12,000').nullable().default(null),
+  ...drivelineRpmFields,
   budgetMinCents: centsSchema,
   budgetMaxCents: centsSchema,
   deadline: isoDay.nullable().default(null),
